@@ -1,0 +1,98 @@
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Db } from './db/knex';
+import type { Clock } from './clock';
+import type { Mailer } from './mail/transport';
+import type { FakeSmtp } from './mail/fake-smtp';
+import { ApiRouter, type RouteDeclaration } from './http/route';
+import { authConfig, authenticate, authRoutes, requireSameOrigin, requireSignedIn, signInLimiters } from './http/auth';
+import { apiNotFound, errorHandler } from './http/error-handler';
+import { staffRepository } from './modules/staff/staff.repository';
+import { staffService } from './modules/staff/staff.service';
+import { staffRoutes } from './modules/staff/staff.router';
+import { studioRepository } from './modules/studio/studio.repository';
+import { studioService } from './modules/studio/studio.service';
+import { studioRoutes } from './modules/studio/studio.router';
+import { mailboxRoutes } from './modules/mail/mailbox.router';
+
+export interface AppDeps {
+  db: Db;
+  clock: Clock;
+  mailer: Mailer;
+  /** The built-in mail catcher, when SMTP_URL is unset. */
+  fakeSmtp?: FakeSmtp | null;
+  appUrl: string;
+  authSecret: string;
+  uploadDir: string;
+  /** The built client, served with SPA fallback when present. */
+  clientDir?: string | null;
+  log?: (err: unknown) => void;
+  /** Proxy hops in front of the server (TRUST_PROXY); 0 when it serves browsers directly. */
+  trustProxyHops?: number;
+}
+
+export interface LoftwiseApp extends Express {
+  locals: Express['locals'] & { routes: RouteDeclaration[] };
+}
+
+export function createApp(deps: AppDeps): LoftwiseApp {
+  const log = deps.log ?? ((err) => console.error(err));
+  const app = express() as LoftwiseApp;
+  app.disable('x-powered-by');
+  // Trust X-Forwarded-For only from the number of proxy hops configured (none by default), so a
+  // forged header cannot choose the address the sign-in limiter counts.
+  app.set('trust proxy', deps.trustProxyHops ?? 0);
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'default-src': ["'self'"],
+          'script-src': ["'self'"],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'font-src': ["'self'"],
+          'connect-src': ["'self'"],
+          'frame-ancestors': ["'none'"],
+          'form-action': ["'self'"],
+          'object-src': ["'none'"],
+          'upgrade-insecure-requests': null,
+        },
+      },
+      referrerPolicy: { policy: 'same-origin' },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+
+  const staffRepo = staffRepository(deps.db);
+  const auth = authConfig({ secret: deps.authSecret, appUrl: deps.appUrl, staff: staffRepo });
+
+  app.post('/auth/callback/credentials', ...signInLimiters());
+  app.use('/auth', authRoutes(auth));
+
+  const api = new ApiRouter('/api');
+  staffRoutes(api, staffService(staffRepo, deps.clock));
+  studioRoutes(api, studioService(studioRepository(deps.db), deps.clock));
+  mailboxRoutes(api, deps.fakeSmtp ?? null);
+
+  app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
+  app.use(
+    '/api',
+    express.json({ limit: '200kb' }),
+    authenticate(auth, staffRepo),
+    requireSignedIn,
+    requireSameOrigin(deps.appUrl),
+    api.router,
+    apiNotFound,
+  );
+  app.locals.routes = api.routes;
+
+  if (deps.clientDir && existsSync(join(deps.clientDir, 'index.html'))) {
+    app.use(express.static(deps.clientDir, { index: false, maxAge: '1h' }));
+    app.get(/^\/(?!api\/|auth\/).*/, (_req, res) => res.sendFile(join(deps.clientDir!, 'index.html')));
+  }
+  app.use(errorHandler(log));
+  return app;
+}

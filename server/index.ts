@@ -1,0 +1,54 @@
+import { resolve } from 'node:path';
+import { loadConfig } from './config';
+import { createDb, migrate } from './db/knex';
+import { createApp } from './app';
+import { systemClock } from './clock';
+import { startFakeSmtp } from './mail/fake-smtp';
+import { smtpMailer } from './mail/transport';
+import { seedDemoIfEmpty } from '../seeds';
+
+async function main() {
+  const config = loadConfig();
+  const db = createDb(config.dbFile);
+  await migrate(db);
+  if (config.seed === 'demo' && (await seedDemoIfEmpty(db, systemClock.now()))) console.log('Loaded the demo studio into the empty database.');
+
+  const fakeSmtp = config.smtpUrl ? null : await startFakeSmtp();
+  const mailer = smtpMailer(config.smtpUrl ?? fakeSmtp!.url, config.mailFrom);
+  const app = createApp({
+    db,
+    clock: systemClock,
+    mailer,
+    fakeSmtp,
+    appUrl: config.appUrl,
+    authSecret: config.authSecret,
+    uploadDir: config.uploadDir,
+    clientDir: resolve('dist'),
+    trustProxyHops: config.trustProxyHops,
+  });
+  const server = app.listen(config.port, () => {
+    console.log(`Loftwise is serving on ${config.appUrl} (port ${config.port}).`);
+    if (fakeSmtp) console.log(`Built-in mail catcher on ${fakeSmtp.url}; read it on the Mailbox page.`);
+  });
+
+  let stopping = false;
+  const stop = async (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    console.log(`${signal}: finishing requests and closing.`);
+    server.close();
+    server.closeIdleConnections();
+    setTimeout(() => server.closeAllConnections(), 5000).unref();
+    mailer.close();
+    await fakeSmtp?.close();
+    await db.destroy();
+    process.exit(0);
+  };
+  process.on('SIGINT', () => void stop('SIGINT'));
+  process.on('SIGTERM', () => void stop('SIGTERM'));
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});

@@ -1,0 +1,34 @@
+import nodemailer from 'nodemailer';
+
+export interface OutgoingMail {
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+}
+
+export interface Mailer {
+  send(mail: OutgoingMail): Promise<void>;
+  close(): void;
+}
+
+/** The same nodemailer SMTP transport for the built-in catcher and a real server at SMTP_URL. */
+export function smtpMailer(smtpUrl: string, from: string): Mailer {
+  const url = new URL(smtpUrl);
+  const transport = nodemailer.createTransport({
+    host: url.hostname,
+    port: Number(url.port || (url.protocol === 'smtps:' ? 465 : 587)),
+    secure: url.protocol === 'smtps:',
+    auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
+    ignoreTLS: url.hostname === '127.0.0.1',
+    connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    socketTimeout: 20_000,
+  });
+  return {
+    async send(mail) {
+      await transport.sendMail({ from, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html });
+    },
+    close: () => transport.close(),
+  };
+}

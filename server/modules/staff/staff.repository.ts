@@ -1,0 +1,62 @@
+import type { Db } from '../../db/knex';
+import type { Role } from '../../../shared/schemas/vocabulary';
+import type { User } from '../../../shared/schemas/staff';
+
+interface UserRow {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+  password_hash: string;
+  active: number | boolean;
+  digest_opt_out: number | boolean;
+}
+
+const toUser = (r: UserRow): User => ({
+  id: r.id,
+  email: r.email,
+  name: r.name,
+  role: r.role,
+  active: Boolean(r.active),
+  digestOptOut: Boolean(r.digest_opt_out),
+});
+
+export function staffRepository(db: Db) {
+  return {
+    async list(): Promise<User[]> {
+      return (await db<UserRow>('users').orderBy('name')).map(toUser);
+    },
+    async byId(id: number): Promise<User | null> {
+      const row = await db<UserRow>('users').where({ id }).first();
+      return row ? toUser(row) : null;
+    },
+    async credentialsByEmail(email: string): Promise<(User & { passwordHash: string }) | null> {
+      const row = await db<UserRow>('users').where({ email }).first();
+      return row ? { ...toUser(row), passwordHash: row.password_hash } : null;
+    },
+    async emailTaken(email: string): Promise<boolean> {
+      return Boolean(await db('users').where({ email }).first('id'));
+    },
+    async insert(u: { email: string; name: string; role: Role; passwordHash: string }, at: Date, trx: Db = db): Promise<User> {
+      const now = at.toISOString();
+      const [row] = await trx<UserRow>('users')
+        .insert({ email: u.email, name: u.name, role: u.role, password_hash: u.passwordHash, active: true, digest_opt_out: false, created_at: now, updated_at: now } as never)
+        .returning('*');
+      return toUser(row as UserRow);
+    },
+    async update(id: number, patch: Partial<{ name: string; role: Role; active: boolean; digestOptOut: boolean; passwordHash: string }>, at: Date, trx: Db = db) {
+      const row: Record<string, unknown> = { updated_at: at.toISOString() };
+      if (patch.name !== undefined) row.name = patch.name;
+      if (patch.role !== undefined) row.role = patch.role;
+      if (patch.active !== undefined) row.active = patch.active;
+      if (patch.digestOptOut !== undefined) row.digest_opt_out = patch.digestOptOut;
+      if (patch.passwordHash !== undefined) row.password_hash = patch.passwordHash;
+      await trx('users').where({ id }).update(row);
+    },
+    async countActiveOwners(trx: Db = db): Promise<number> {
+      const r = await trx('users').where({ role: 'owner', active: true }).count<{ n: number }[]>({ n: '*' });
+      return Number(r[0].n);
+    },
+  };
+}
+export type StaffRepository = ReturnType<typeof staffRepository>;

@@ -1,0 +1,25 @@
+import type { ApiRouter } from '../../http/route';
+import { idParams } from '../../../shared/schemas/common';
+import { createUserSchema, resetPasswordSchema, updateUserSchema } from '../../../shared/schemas/staff';
+import type { StaffService } from './staff.service';
+
+export function staffRoutes(api: ApiRouter, staff: StaffService) {
+  api.get('/me', { access: 'signed_in', handler: ({ user }) => user });
+  api.get('/users', { access: ['owner', 'reception'], handler: () => staff.list() });
+  api.post('/users', { access: ['owner'], body: createUserSchema, status: 201, handler: ({ body }) => staff.create(body) });
+  api.patch('/users/:id', {
+    access: ['owner'],
+    params: idParams,
+    body: updateUserSchema,
+    handler: ({ params, body, user }) => staff.update(params.id, body, user.id),
+  });
+  api.post('/users/:id/password', {
+    access: ['owner'],
+    params: idParams,
+    body: resetPasswordSchema,
+    handler: async ({ params, body }) => {
+      await staff.resetPassword(params.id, body.password);
+      return { ok: true };
+    },
+  });
+}

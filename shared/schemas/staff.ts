@@ -1,0 +1,32 @@
+import { z } from 'zod';
+import { roleSchema } from './vocabulary';
+
+const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'Enter an e-mail address such as name@studio.test' })).pipe(z.string().max(254));
+const name = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
+export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Keep the password under 200 characters');
+
+export const userSchema = z.object({
+  id: z.number(),
+  email: z.string(),
+  name: z.string(),
+  role: roleSchema,
+  active: z.boolean(),
+  digestOptOut: z.boolean(),
+});
+export type User = z.infer<typeof userSchema>;
+
+export const meSchema = userSchema.pick({ id: true, email: true, name: true, role: true });
+export type Me = z.infer<typeof meSchema>;
+
+export const createUserSchema = z.object({ email, name, role: roleSchema, password: passwordSchema });
+export type CreateUser = z.infer<typeof createUserSchema>;
+
+export const updateUserSchema = z
+  .object({ name: name.optional(), role: roleSchema.optional(), active: z.boolean().optional(), digestOptOut: z.boolean().optional() })
+  .strict();
+export type UpdateUser = z.infer<typeof updateUserSchema>;
+
+export const resetPasswordSchema = z.object({ password: passwordSchema });
+
+export const signInSchema = z.object({ email, password: z.string().min(1, 'Enter your password').max(200) });
+export type SignIn = z.infer<typeof signInSchema>;

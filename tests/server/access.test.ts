@@ -1,0 +1,70 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { APP_URL, createTestApp, signIn, type TestContext } from '../helpers/app';
+import { makeUser } from '../helpers/factories';
+import { roles, type Role } from '../../shared/schemas/vocabulary';
+import { allows } from '../../server/http/route';
+
+// Routes outside the access declarations, on purpose.
+const PUBLIC_API = ['get /api/health'];
+
+let ctx: TestContext;
+const agents = {} as Record<Role, ReturnType<typeof request.agent>>;
+
+beforeAll(async () => {
+  ctx = await createTestApp();
+  for (const role of roles) {
+    const u = await makeUser(ctx.db, { role });
+    const { agent, ok } = await signIn(ctx.app, u.email);
+    if (!ok) throw new Error('sign-in failed');
+    agents[role] = agent;
+  }
+});
+afterAll(async () => ctx.close());
+
+type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] } };
+// Top-level routes keep their own path; the one nested router with routes is the API's, under /api.
+function routeLayers(stack: Layer[], prefix: string): string[] {
+  return stack.flatMap((l) =>
+    l.route
+      ? Object.keys(l.route.methods).map((m) => `${m} ${prefix}${l.route!.path}`)
+      : l.handle?.stack
+        ? routeLayers(l.handle.stack, '/api')
+        : [],
+  );
+}
+
+describe('access declarations', () => {
+  it('declares an access rule for every API route that is registered', () => {
+    const declared = new Set(ctx.app.locals.routes.map((r) => `${r.method} ${r.path}`));
+    const appStack = (ctx.app as unknown as { router: { stack: Layer[] } }).router.stack;
+    const registered = routeLayers(appStack, '').filter((key) => key.split(' ')[1].startsWith('/api'));
+    // The walk must see the declared routes themselves, or it would prove nothing.
+    expect(registered.filter((k) => declared.has(k)).length).toBe(declared.size);
+    const undeclared = registered
+      .filter((key) => !declared.has(key) && !PUBLIC_API.includes(key));
+    expect(undeclared).toEqual([]);
+    expect(ctx.app.locals.routes.length).toBeGreaterThan(5);
+  });
+
+  it('answers every declared route 401 when signed out', async () => {
+    for (const r of ctx.app.locals.routes) {
+      const path = r.path.replace(/:\w+/g, '1');
+      const res = await request(ctx.app)[r.method](path).set('Origin', APP_URL).send({});
+      expect(res.status, `${r.method} ${r.path}`).toBe(401);
+    }
+  });
+
+  for (const role of roles) {
+    it(`lets ${role} through exactly the routes declared for it, before looking at the body`, async () => {
+      for (const r of ctx.app.locals.routes) {
+        const path = r.path.replace(/:\w+/g, '1');
+        const res = await agents[role][r.method](path).set('Origin', APP_URL).send({ junk: '\u0000'.repeat(3) });
+        const label = `${role} ${r.method.toUpperCase()} ${r.path} → ${res.status}`;
+        if (allows(r.access, role)) expect([401, 403], label).not.toContain(res.status);
+        else expect(res.status, label).toBe(403);
+        expect(res.status, label).toBeLessThan(500);
+      }
+    });
+  }
+});
