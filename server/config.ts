@@ -31,7 +31,9 @@ export interface Config {
 
 /** Reads the environment once, failing fast with every problem named. */
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
-  const parsed = envSchema.safeParse(env);
+  // An empty variable counts as unset (a shell `SMTP_URL=` should not be an error).
+  const present = Object.fromEntries(Object.entries(env).filter(([, v]) => v !== ''));
+  const parsed = envSchema.safeParse(present);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
     throw new Error(`Loftwise cannot start, the configuration is invalid:\n${lines.join('\n')}`);

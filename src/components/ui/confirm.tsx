@@ -1,0 +1,43 @@
+import { useEffect, useRef, type ReactNode } from 'react';
+import { Button } from './button';
+
+/** A modal question before anything destructive. Escape or Cancel closes it. */
+export function ConfirmDialog({
+  open,
+  title,
+  children,
+  confirmLabel,
+  danger = true,
+  busy,
+  onConfirm,
+  onCancel,
+}: {
+  open: boolean;
+  title: string;
+  children?: ReactNode;
+  confirmLabel: string;
+  danger?: boolean;
+  busy?: boolean;
+  onConfirm: () => void;
+  onCancel: () => void;
+}) {
+  const ref = useRef<HTMLDialogElement>(null);
+  useEffect(() => {
+    const d = ref.current;
+    if (!d) return;
+    if (open && !d.open) d.showModal();
+    if (!open && d.open) d.close();
+  }, [open]);
+  return (
+    <dialog ref={ref} onCancel={(e) => { e.preventDefault(); onCancel(); }} className="m-auto w-full max-w-md rounded-2xl p-0 backdrop:bg-ink/40" aria-labelledby="confirm-title">
+      <div className="space-y-4 p-6">
+        <h2 id="confirm-title" className="text-lg font-semibold">{title}</h2>
+        {children ? <div className="text-sm text-muted">{children}</div> : null}
+        <div className="flex justify-end gap-2">
+          <Button variant="secondary" onClick={onCancel}>Cancel</Button>
+          <Button variant={danger ? 'danger' : 'primary'} busy={busy} onClick={onConfirm}>{confirmLabel}</Button>
+        </div>
+      </div>
+    </dialog>
+  );
+}

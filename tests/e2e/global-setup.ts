@@ -1,0 +1,49 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { TestProject } from 'vitest/node';
+
+let server: ChildProcess | null = null;
+let dir = '';
+
+/** Starts the real server as `npm start` would (after the build), on its own port and database. */
+export async function setup(project: TestProject) {
+  dir = mkdtempSync(join(tmpdir(), 'loftwise-e2e-'));
+  const port = 3100 + Math.floor(Math.random() * 800);
+  const url = `http://127.0.0.1:${port}`;
+  server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    env: { ...process.env, PORT: String(port), APP_URL: url, LOFTWISE_DB: join(dir, 'e2e.sqlite'), UPLOAD_DIR: join(dir, 'uploads'), SMTP_URL: '' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let log = '';
+  server.stdout!.on('data', (d) => (log += d));
+  server.stderr!.on('data', (d) => (log += d));
+  const deadline = Date.now() + 45_000;
+  for (;;) {
+    try {
+      const res = await fetch(`${url}/api/health`);
+      if (res.ok) break;
+    } catch {
+      /* not up yet */
+    }
+    if (Date.now() > deadline || server.exitCode !== null) throw new Error(`server did not start:\n${log}`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  project.provide('baseUrl', url);
+}
+
+export async function teardown() {
+  if (server && server.exitCode === null) {
+    const exited = new Promise((r) => server!.once('exit', r));
+    server.kill('SIGTERM');
+    await Promise.race([exited, new Promise((r) => setTimeout(r, 5000))]);
+  }
+  rmSync(dir, { recursive: true, force: true });
+}
+
+declare module 'vitest' {
+  export interface ProvidedContext {
+    baseUrl: string;
+  }
+}
