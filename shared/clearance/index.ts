@@ -1,0 +1,5 @@
+export * from './types';
+export * from './status';
+export * from './voiding';
+export * from './booking';
+export * from './preuse';

@@ -1,0 +1,45 @@
+export type {
+  Finding,
+  LinkInput,
+  LoadCheckInput,
+  LoadCheckResult,
+  LoadProfile,
+  RatedGear,
+  WorkingStep,
+} from './types';
+export { G, KGF_IN_N, LBF_IN_N, formatForce, fromKn, toKn } from './units';
+export {
+  MINOR_DEFAULT_FRACTION,
+  describeGear,
+  effectiveStrengthKn,
+  gearKindLabels,
+  isUsableStrength,
+  validateRatings,
+  type EffectiveStrength,
+  type StrengthBasis,
+} from './strength';
+export {
+  BRIDLE_MAX_DEG,
+  BRIDLE_WIDE_ABOVE_DEG,
+  legShare,
+  legTension,
+  parseBridle,
+  tensionFactor,
+  type BridleLayout,
+} from './bridle';
+export {
+  SCREW_GATE_CHECKLIST_ITEM,
+  SCREW_GATE_CHECKLIST_LABEL,
+  apparatusNotLast,
+  basketOverfilled,
+  checkRules,
+  crossLoaded,
+  gateOpen,
+  gateOpenUnrated,
+  manyLinks,
+  ratingFindings,
+  threeWayOnConnector,
+  type RuleFindings,
+  type RuleOptions,
+} from './rules';
+export { checkLoadPath, designLoadKn } from './load-check';
