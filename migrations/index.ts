@@ -1,5 +1,8 @@
 import type { Knex } from 'knex';
 import * as m001 from './001-staff-and-studio';
+import * as m002 from './002-rig-register';
+import * as m003 from './003-inspections-faults-audit';
+import * as m004 from './004-schedule';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -7,6 +10,9 @@ import * as m001 from './001-staff-and-studio';
  */
 const migrations: Record<string, Knex.Migration> = {
   '001-staff-and-studio': m001,
+  '002-rig-register': m002,
+  '003-inspections-faults-audit': m003,
+  '004-schedule': m004,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

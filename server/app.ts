@@ -16,6 +16,15 @@ import { studioRepository } from './modules/studio/studio.repository';
 import { studioService } from './modules/studio/studio.service';
 import { studioRoutes } from './modules/studio/studio.router';
 import { mailboxRoutes } from './modules/mail/mailbox.router';
+import { auditRepository } from './modules/audit/audit.repository';
+import { rigRepository } from './modules/rig/rig.repository';
+import { rigService } from './modules/rig/rig.service';
+import { rigRoutes } from './modules/rig/rig.router';
+import { documentsService } from './modules/documents/documents.service';
+import { documentsRoutes } from './modules/documents/documents.router';
+import { classTypesRepository } from './modules/class-types/class-types.repository';
+import { classTypesService } from './modules/class-types/class-types.service';
+import { classTypesRoutes } from './modules/class-types/class-types.router';
 
 export interface AppDeps {
   db: Db;
@@ -72,10 +81,21 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   app.post('/auth/callback/credentials', ...signInLimiters());
   app.use('/auth', authRoutes(auth));
 
+  const { db, clock } = deps;
+  const audit = auditRepository(db);
+  const studioRepo = studioRepository(db);
+  const rigRepo = rigRepository(db);
+  const docs = documentsService({ db, clock, uploadDir: deps.uploadDir });
+  const classTypes = classTypesService({ db, repo: classTypesRepository(db), audit, clock });
+  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes });
+
   const api = new ApiRouter('/api');
-  staffRoutes(api, staffService(staffRepo, deps.clock));
-  studioRoutes(api, studioService(studioRepository(deps.db), deps.clock));
+  staffRoutes(api, staffService(staffRepo, clock));
+  studioRoutes(api, studioService(studioRepo, clock));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
+  rigRoutes(api, rig, docs, db);
+  documentsRoutes(api, docs);
+  classTypesRoutes(api, classTypes);
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
   app.use(

@@ -16,3 +16,65 @@ export async function makeUser(db: Db, o: { role: Role; email?: string; name?: s
     .returning('*');
   return { id: row.id as number, email, role: o.role };
 }
+
+let gearSeq = 0;
+export async function makeRoom(db: Db, name = `Room ${++seq}`) {
+  const [row] = await db('rooms').insert({ name, created_at: new Date().toISOString() }).returning('id');
+  return (row as { id: number }).id;
+}
+
+export async function makePoint(db: Db, o: { roomId?: number; label?: string; structuralRatingKn?: number; apparatus?: string[]; maxPerformers?: number; clearedAt?: string | null } = {}) {
+  const roomId = o.roomId ?? (await makeRoom(db));
+  const now = new Date().toISOString();
+  const [row] = await db('points')
+    .insert({
+      room_id: roomId,
+      label: o.label ?? `P-${++seq}`,
+      structure: 'beam',
+      structural_rating_kn: o.structuralRatingKn ?? 20,
+      apparatus_json: JSON.stringify(o.apparatus ?? ['fabric', 'hoop', 'trapeze', 'hammock', 'straps', 'rope']),
+      max_performers: o.maxPerformers ?? 2,
+      in_service: true,
+      last_cleared_at: o.clearedAt ?? null,
+      created_at: now,
+      updated_at: now,
+    })
+    .returning('id');
+  return { id: (row as { id: number }).id, roomId };
+}
+
+export async function makeGear(db: Db, o: Partial<{ kind: string; material: string; gate: string; majorKn: number; minorKn: number | null; gateOpenKn: number | null; wllKn: number | null; multiDirectional: boolean; serial: string; inspectedUntil: string | null; status: string }> = {}) {
+  const now = new Date().toISOString();
+  const kind = o.kind ?? 'carabiner';
+  const [row] = await db('gear_items')
+    .insert({
+      kind,
+      material: o.material ?? 'steel',
+      gate: o.gate ?? (kind === 'carabiner' ? 'screw' : 'none'),
+      serial: o.serial ?? `T-${++gearSeq}-${process.pid}`,
+      major_kn: o.majorKn ?? 40,
+      minor_kn: o.minorKn ?? null,
+      gate_open_kn: o.gateOpenKn ?? null,
+      wll_kn: o.wllKn ?? null,
+      multi_directional: o.multiDirectional ?? false,
+      status: o.status ?? 'in_service',
+      inspected_until: o.inspectedUntil ?? null,
+      created_at: now,
+      updated_at: now,
+    })
+    .returning('id');
+  return (row as { id: number }).id;
+}
+
+/** A plain path: beam clamp → round sling → steel carabiner → swivel, optionally an apparatus last. */
+export async function makeStandardPath(db: Db, pointId: number, o: { apparatus?: { kind: string; inspectedUntil: string | null } } = {}) {
+  const ids = [
+    await makeGear(db, { kind: 'beam_clamp', majorKn: 50 }),
+    await makeGear(db, { kind: 'round_sling', material: 'polyester', majorKn: 40 }),
+    await makeGear(db, { kind: 'carabiner', majorKn: 40, minorKn: 12, gateOpenKn: 12 }),
+    await makeGear(db, { kind: 'swivel', majorKn: 36 }),
+  ];
+  if (o.apparatus) ids.push(await makeGear(db, { kind: o.apparatus.kind, material: 'nylon', majorKn: 30, inspectedUntil: o.apparatus.inspectedUntil }));
+  await db('load_path_links').insert(ids.map((gear_id, position) => ({ point_id: pointId, position, gear_id, mode: 'major', three_way: false, basket_over_half: false })));
+  return ids;
+}

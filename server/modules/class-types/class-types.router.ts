@@ -1,0 +1,10 @@
+import type { ApiRouter } from '../../http/route';
+import { idParams } from '../../../shared/schemas/common';
+import { createClassTypeSchema } from '../../../shared/schemas/class-types';
+import type { ClassTypesService } from './class-types.service';
+
+export function classTypesRoutes(api: ApiRouter, classTypes: ClassTypesService) {
+  api.get('/class-types', { access: 'signed_in', handler: () => classTypes.list() });
+  api.get('/class-types/:id', { access: 'signed_in', params: idParams, handler: ({ params }) => classTypes.get(params.id) });
+  api.post('/class-types', { access: ['reception', 'owner'], body: createClassTypeSchema, status: 201, handler: ({ body, user }) => classTypes.create(body, user.id) });
+}

@@ -1,0 +1,43 @@
+import type { Db } from '../../db/knex';
+import type { Clock } from '../../clock';
+import { conflict, notFound } from '../../http/errors';
+import type { AuditRepository } from '../audit/audit.repository';
+import type { CreateClassType, ClassType } from '../../../shared/schemas/class-types';
+import type { Policy } from '../../../shared/schemas/policy';
+import type { LoadProfile } from '../../../shared/rigging';
+import type { ClassTypesRepository } from './class-types.repository';
+
+/** The class's load profile: its own figures where set, else the policy's (PRODUCT.md §3). */
+export function profileFor(c: ClassType, policy: Policy): LoadProfile & { name: string } {
+  return {
+    name: c.name,
+    performers: c.performersPerPoint,
+    bodyMassKg: c.bodyMassKg ?? policy.bodyMassKg,
+    dynamicFactor: c.dynamicFactor ?? policy.dynamicFactors[c.apparatus],
+  };
+}
+
+export function classTypesService(deps: { db: Db; repo: ClassTypesRepository; audit: AuditRepository; clock: Clock }) {
+  const { db, repo, audit, clock } = deps;
+  return {
+    list: () => repo.list(),
+    async get(id: number) {
+      const c = await repo.byId(id);
+      if (!c) throw notFound('That class type');
+      return c;
+    },
+    async create(input: CreateClassType, actorId: number) {
+      if (await repo.nameTaken(input.name)) throw conflict('name_taken', 'A class type with that name already exists.', { fields: { name: 'Already used' } });
+      const id = await db.transaction(async (trx) => {
+        const newId = await repo.insert(input, clock.now(), trx);
+        await audit.record(trx, { actorId, action: 'class_type.created', entity: 'class_type', entityId: newId, after: input }, clock.now());
+        return newId;
+      });
+      return this.get(id);
+    },
+    async profileOf(id: number, policy: Policy) {
+      return profileFor(await this.get(id), policy);
+    },
+  };
+}
+export type ClassTypesService = ReturnType<typeof classTypesService>;

@@ -1,0 +1,87 @@
+import type { Db } from '../../db/knex';
+import type { OpenFault, PointSnapshot, GearSnapshot } from '../../../shared/clearance';
+import type { GearRecord, LinkRecord, PointRecord, RigRepository } from './rig.repository';
+
+const toDate = (s: string | null) => (s ? new Date(s) : null);
+
+export function gearSnapshot(g: GearRecord): GearSnapshot {
+  return {
+    id: g.id,
+    kind: g.kind,
+    material: g.material,
+    gate: g.gate,
+    serial: g.serial,
+    majorKn: g.majorKn,
+    minorKn: g.minorKn,
+    gateOpenKn: g.gateOpenKn,
+    wllKn: g.wllKn,
+    multiDirectional: g.multiDirectional,
+    status: g.status,
+    manufacturedOn: g.manufacturedOn,
+    inServiceOn: g.inServiceOn,
+    serviceLifeYears: g.serviceLifeYears,
+    inspectedUntil: toDate(g.inspectedUntil),
+  };
+}
+
+export interface SnapshotBundle {
+  point: PointRecord;
+  links: Array<LinkRecord & { gear: GearRecord }>;
+  snapshot: PointSnapshot;
+}
+
+/**
+ * Everything the status rules need for a set of points, in four queries whatever the number of
+ * points: the points, their links, the gear in them, and the open faults on either.
+ */
+export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: number[]; roomId?: number } = {}, trx: Db = db): Promise<SnapshotBundle[]> {
+  const points = await rig.listPoints(filter, trx);
+  if (!points.length) return [];
+  const pointIds = points.map((p) => p.id);
+  const links = await rig.linksOf(filter.ids || filter.roomId ? pointIds : 'all', trx);
+  const gear = new Map((await rig.gearByIds([...new Set(links.map((l) => l.gearId))], trx)).map((g) => [g.id, g]));
+  const gearIds = [...gear.keys()];
+  const faults = (await trx('faults')
+    .where('status', 'open')
+    .where((w) => {
+      w.whereIn('point_id', pointIds);
+      if (gearIds.length) w.orWhereIn('gear_id', gearIds);
+    })
+    .select('id', 'point_id', 'gear_id', 'severity', 'description')) as Array<{ id: number; point_id: number | null; gear_id: number | null; severity: OpenFault['severity']; description: string }>;
+
+  const linksByPoint = new Map<number, Array<LinkRecord & { gear: GearRecord }>>();
+  for (const l of links) {
+    const g = gear.get(l.gearId);
+    if (!g) continue;
+    const list = linksByPoint.get(l.pointId) ?? [];
+    list.push({ ...l, gear: g });
+    linksByPoint.set(l.pointId, list);
+  }
+  return points.map((p) => {
+    const pl = linksByPoint.get(p.id) ?? [];
+    const inPath = new Set(pl.map((l) => l.gearId));
+    const openFaults: OpenFault[] = faults
+      .filter((f) => f.point_id === p.id || (f.gear_id !== null && inPath.has(f.gear_id)))
+      .map((f) => ({ id: f.id, pointId: f.point_id, gearId: f.gear_id, severity: f.severity, description: f.description }));
+    const snapshot: PointSnapshot = {
+      id: p.id,
+      label: p.label,
+      structure: p.structure,
+      structuralRatingKn: p.structuralRatingKn,
+      inService: p.inService,
+      apparatus: p.apparatus,
+      maxPerformers: p.maxPerformers,
+      links: pl.map((l) => ({
+        gear: gearSnapshot(l.gear),
+        mode: l.mode,
+        threeWay: l.threeWay,
+        basketOverHalf: l.basketOverHalf,
+        leg: l.leg,
+        includedAngleDeg: l.includedAngleDeg,
+      })),
+      lastClearance: p.lastClearedAt ? { at: new Date(p.lastClearedAt), voidedAt: toDate(p.clearanceVoidedAt) } : null,
+      openFaults,
+    };
+    return { point: p, links: pl, snapshot };
+  });
+}

@@ -1,0 +1,232 @@
+import type { Db } from '../../db/knex';
+import type { Clock } from '../../clock';
+import { conflict, HttpError, notFound } from '../../http/errors';
+import type { AuditRepository } from '../audit/audit.repository';
+import type { StudioRepository } from '../studio/studio.repository';
+import type { CreateGear, CreatePoint, GearEventBody, GearListQuery, LoadPathBody, UpdateGear, UpdatePoint } from '../../../shared/schemas/rig';
+import { pointStatusAt, serviceLifeEnd, voidsClearance, gearRatingChangeVoids, pathConfigOf, type PathConfig, type PointStatus } from '../../../shared/clearance';
+import { checkLoadPath, type LoadProfile } from '../../../shared/rigging';
+import { isApparatusKind } from '../../../shared/schemas/vocabulary';
+import type { Policy } from '../../../shared/schemas/policy';
+import type { GearRecord, RigRepository } from './rig.repository';
+import { loadSnapshots, type SnapshotBundle } from './point-snapshots';
+
+export const statusWire = (s: PointStatus) => ({ status: s.status, clearedUntil: s.clearedUntil?.toISOString() ?? null, reasons: s.reasons.map((r) => ({ code: r.code, message: r.message })) });
+
+export interface ClassProfileSource {
+  profileOf(classTypeId: number, policy: Policy): Promise<LoadProfile & { name: string }>;
+}
+
+export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource }) {
+  const { db, rig, audit, studio, clock } = deps;
+
+  const gearWire = (g: GearRecord, timeZone: string) => ({ ...g, serviceLifeEndsOn: serviceLifeEnd(g, timeZone)?.toISOString() ?? null });
+
+  function pointWire(b: SnapshotBundle, policy: Policy, at: Date, withLinks: boolean) {
+    return {
+      ...b.point,
+      status: statusWire(pointStatusAt(b.snapshot, policy, at)),
+      ...(withLinks
+        ? { links: b.links.map((l) => ({ position: l.position, gearId: l.gearId, mode: l.mode, threeWay: l.threeWay, basketOverHalf: l.basketOverHalf, leg: l.leg, includedAngleDeg: l.includedAngleDeg, gear: gearWire(l.gear, policy.timeZone) })) }
+        : {}),
+    };
+  }
+
+  async function bundle(id: number, trx: Db = db): Promise<SnapshotBundle> {
+    const [b] = await loadSnapshots(db, rig, { ids: [id] }, trx);
+    if (!b) throw notFound('That rigging point');
+    return b;
+  }
+
+  async function gearOrThrow(id: number, trx: Db = db) {
+    const g = await rig.gearById(id, trx);
+    if (!g) throw notFound('That gear item');
+    return g;
+  }
+
+  return {
+    // ---- rooms
+    listRooms: () => rig.listRooms(),
+    async getRoom(id: number) {
+      const room = await rig.roomById(id);
+      if (!room) throw notFound('That room');
+      const { policy } = await studio.get();
+      const now = clock.now();
+      const points = (await loadSnapshots(db, rig, { roomId: id })).map((b) => pointWire(b, policy, now, false));
+      return { ...room, points };
+    },
+    async createRoom(name: string, actorId: number) {
+      if (await rig.roomNameTaken(name)) throw conflict('room_exists', 'A room with that name already exists.', { fields: { name: 'Already used' } });
+      return db.transaction(async (trx) => {
+        const room = await rig.insertRoom(name, clock.now(), trx);
+        await audit.record(trx, { actorId, action: 'room.created', entity: 'room', entityId: room.id, after: room }, clock.now());
+        return { ...room, pointCount: 0 };
+      });
+    },
+
+    // ---- points
+    async listPoints(filter: { roomId?: number }) {
+      const { policy } = await studio.get();
+      const now = clock.now();
+      return (await loadSnapshots(db, rig, filter)).map((b) => pointWire(b, policy, now, false));
+    },
+    async getPoint(id: number) {
+      const { policy } = await studio.get();
+      return pointWire(await bundle(id), policy, clock.now(), true);
+    },
+    async pointStatus(id: number, at: Date | null) {
+      const { policy } = await studio.get();
+      return statusWire(pointStatusAt((await bundle(id)).snapshot, policy, at ?? clock.now()));
+    },
+    async createPoint(input: CreatePoint, actorId: number) {
+      if (!(await rig.roomById(input.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });
+      if (await rig.pointLabelTaken(input.label)) throw conflict('label_taken', 'Another point already has that label.', { fields: { label: 'Already used' } });
+      const id = await db.transaction(async (trx) => {
+        const newId = await rig.insertPoint(input, clock.now(), trx);
+        await audit.record(trx, { actorId, action: 'point.created', entity: 'point', entityId: newId, after: input }, clock.now());
+        return newId;
+      });
+      return this.getPoint(id);
+    },
+    async updatePoint(id: number, patch: UpdatePoint, actorId: number) {
+      const before = (await bundle(id)).point;
+      if (patch.roomId !== undefined && !(await rig.roomById(patch.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });
+      if (patch.label !== undefined && (await rig.pointLabelTaken(patch.label, id))) throw conflict('label_taken', 'Another point already has that label.', { fields: { label: 'Already used' } });
+      await db.transaction(async (trx) => {
+        const now = clock.now();
+        await rig.updatePoint(id, patch, now, trx);
+        // A new structural rating changes what the clearance vouched for.
+        if (patch.structuralRatingKn !== undefined && patch.structuralRatingKn !== before.structuralRatingKn) await rig.voidClearance(id, now, trx);
+        await audit.record(trx, { actorId, action: 'point.updated', entity: 'point', entityId: id, before, after: patch }, now);
+      });
+      return this.getPoint(id);
+    },
+
+    /** Replaces the whole path in one transaction; a refusal leaves the old path as it was. */
+    async replaceLoadPath(id: number, body: LoadPathBody, actorId: number) {
+      const result = await db.transaction(async (trx) => {
+        const current = await bundle(id, trx);
+        const gearIds = body.links.map((l) => l.gearId);
+        const gear = new Map((await rig.gearByIds(gearIds, trx)).map((g) => [g.id, g]));
+        const missing = gearIds.filter((g) => !gear.has(g));
+        if (missing.length) throw new HttpError(400, 'unknown_gear', `No gear item with id ${missing.join(', ')}.`, { gearIds: missing });
+        const inUse = gearIds.filter((g) => gear.get(g)!.pointId !== null && gear.get(g)!.pointId !== id);
+        if (inUse.length) {
+          const names = inUse.map((g) => `${gear.get(g)!.serial} (on ${gear.get(g)!.pointLabel})`).join(', ');
+          throw conflict('gear_in_use', `Already hanging in another load path: ${names}. Take it out there first.`, { gearIds: inUse });
+        }
+        const retired = gearIds.filter((g) => gear.get(g)!.status === 'retired');
+        if (retired.length) throw conflict('gear_retired', `Retired gear cannot be mounted: ${retired.map((g) => gear.get(g)!.serial).join(', ')}.`, { gearIds: retired });
+
+        const before = pathConfigOf(current.snapshot);
+        const after: PathConfig = {
+          structuralRatingKn: current.point.structuralRatingKn,
+          links: body.links.map((l, i) => {
+            const g = gear.get(l.gearId)!;
+            return {
+              gearId: g.id,
+              mode: l.mode,
+              threeWay: l.threeWay,
+              basketOverHalf: l.basketOverHalf,
+              leg: l.leg ?? null,
+              includedAngleDeg: l.leg ? (l.includedAngleDeg ?? null) : null,
+              majorKn: g.majorKn,
+              minorKn: g.minorKn,
+              gateOpenKn: g.gateOpenKn,
+              wllKn: g.wllKn,
+              multiDirectional: g.multiDirectional,
+              isApparatus: i === body.links.length - 1 && isApparatusKind(g.kind),
+            };
+          }),
+        };
+        const identical = JSON.stringify(before.links.map(strip)) === JSON.stringify(after.links.map(strip));
+        if (identical) return { voided: false, changed: false };
+        const now = clock.now();
+        const voided = voidsClearance(before, after) && current.point.lastClearedAt !== null && current.point.clearanceVoidedAt === null;
+        await rig.replaceLinks(id, body.links.map((l) => ({ ...l, includedAngleDeg: l.leg ? l.includedAngleDeg : null })), trx);
+        if (voidsClearance(before, after)) await rig.voidClearance(id, now, trx);
+        await audit.record(trx, { actorId, action: 'point.load_path_replaced', entity: 'point', entityId: id, before: before.links, after: after.links }, now);
+        return { voided, changed: true };
+      });
+      return { ...(await this.getPoint(id)), ...result };
+    },
+
+    async loadCheck(id: number, q: { classTypeId?: number; performers?: number; bodyMassKg?: number; dynamicFactor?: number }) {
+      const { policy } = await studio.get();
+      const b = await bundle(id);
+      let profile: LoadProfile & { name?: string };
+      if (q.classTypeId !== undefined) profile = await deps.classProfiles.profileOf(q.classTypeId, policy);
+      else profile = { performers: q.performers!, bodyMassKg: q.bodyMassKg ?? policy.bodyMassKg, dynamicFactor: q.dynamicFactor! };
+      const result = checkLoadPath({ links: b.snapshot.links, structuralRatingKn: b.point.structuralRatingKn, profile, requiredFactor: policy.requiredFactor, displayUnit: policy.units });
+      return { ...result, profile: { performers: profile.performers, bodyMassKg: profile.bodyMassKg, dynamicFactor: profile.dynamicFactor } };
+    },
+
+    // ---- gear
+    async listGear(f: GearListQuery) {
+      const { policy } = await studio.get();
+      const now = clock.now();
+      let rows = (await rig.listGear(f, now)).map((g) => gearWire(g, policy.timeZone));
+      if (f.lifeEndingDays !== undefined) {
+        const by = now.getTime() + f.lifeEndingDays * 86_400_000;
+        rows = rows.filter((g) => g.serviceLifeEndsOn !== null && new Date(g.serviceLifeEndsOn).getTime() <= by);
+      }
+      return rows;
+    },
+    async getGear(id: number) {
+      const { policy } = await studio.get();
+      return { ...gearWire(await gearOrThrow(id), policy.timeZone), events: await rig.gearEvents(id) };
+    },
+    async createGear(input: CreateGear, actorId: number) {
+      if (await rig.serialTaken(input.serial)) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
+      const id = await db.transaction(async (trx) => {
+        const newId = await rig.insertGear(input, clock.now(), trx);
+        await audit.record(trx, { actorId, action: 'gear.created', entity: 'gear', entityId: newId, after: input }, clock.now());
+        return newId;
+      });
+      return this.getGear(id);
+    },
+    async updateGear(id: number, patch: UpdateGear, actorId: number) {
+      const before = await gearOrThrow(id);
+      if (patch.serial !== undefined && (await rig.serialTaken(patch.serial, id))) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
+      const after = { ...before, ...patch } as GearRecord;
+      if (after.minorKn != null && after.minorKn > after.majorKn) throw new HttpError(400, 'invalid_request', 'The minor-axis rating cannot exceed the major-axis rating.', { source: 'body', fields: { minorKn: 'Cannot exceed the major rating' } });
+      if (after.gateOpenKn != null && after.gateOpenKn > after.majorKn) throw new HttpError(400, 'invalid_request', 'The gate-open rating cannot exceed the major-axis rating.', { source: 'body', fields: { gateOpenKn: 'Cannot exceed the major rating' } });
+      if (before.pointId !== null && patch.kind !== undefined && isApparatusKind(patch.kind) !== isApparatusKind(before.kind)) {
+        throw conflict('gear_in_use', 'Take the item out of its load path before changing it between apparatus and fixed gear.');
+      }
+      await db.transaction(async (trx) => {
+        const now = clock.now();
+        await rig.updateGear(id, patch, now, trx);
+        if (before.pointId !== null && gearRatingChangeVoids(before, after)) await rig.voidClearance(before.pointId, now, trx);
+        await audit.record(trx, { actorId, action: 'gear.updated', entity: 'gear', entityId: id, before, after: patch }, now);
+      });
+      return this.getGear(id);
+    },
+    async setGearStatus(id: number, status: 'retired' | 'quarantined', reason: string, actorId: number) {
+      const before = await gearOrThrow(id);
+      if (before.status === 'retired') throw conflict('gear_retired', 'This item is already retired; a retirement is final.');
+      await db.transaction(async (trx) => {
+        await rig.updateGear(id, { status, statusReason: reason }, clock.now(), trx);
+        await audit.record(trx, { actorId, action: `gear.${status}`, entity: 'gear', entityId: id, before: { status: before.status }, after: { status, reason } }, clock.now());
+      });
+      return this.getGear(id);
+    },
+    /** An event quarantines the item until an after-incident inspection passes; it opens no fault and voids no clearance. */
+    async recordEvent(id: number, e: GearEventBody, actorId: number) {
+      const before = await gearOrThrow(id);
+      const eventId = await db.transaction(async (trx) => {
+        const now = clock.now();
+        const newId = await rig.insertGearEvent({ gearId: id, kind: e.kind, note: e.note, by: actorId }, now, trx);
+        if (before.status !== 'retired') await rig.updateGear(id, { status: 'quarantined', statusReason: `After ${e.kind.replace(/_/g, ' ')}: awaiting an after-incident inspection` }, now, trx);
+        await audit.record(trx, { actorId, action: 'gear.event_recorded', entity: 'gear', entityId: id, after: e }, now);
+        return newId;
+      });
+      const events = await rig.gearEvents(id);
+      return events.find((x) => x.id === eventId)!;
+    },
+  };
+}
+export type RigService = ReturnType<typeof rigService>;
+
+// Ratings included: a swapped gear item with other ratings is a change even in the same position.
+const strip = (l: PathConfig['links'][number]) => [l.gearId, l.mode, l.threeWay, l.basketOverHalf, l.leg ?? null, l.leg ? (l.includedAngleDeg ?? null) : null];

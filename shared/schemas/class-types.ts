@@ -1,0 +1,28 @@
+import { z } from 'zod';
+import { apparatusKindSchema } from './vocabulary';
+
+export const createClassTypeSchema = z.object({
+  name: z.string().trim().min(1, 'Enter a class name').max(80),
+  apparatus: apparatusKindSchema,
+  durationMinutes: z.number().int('Whole minutes').min(15, 'At least 15 minutes').max(480, 'At most 8 hours'),
+  capacity: z.number().int().min(1, 'At least one place').max(100),
+  performersPerPoint: z.number().int().min(1, 'At least one performer per point').max(10),
+  /** Omitted: the policy's factor for the apparatus. */
+  dynamicFactor: z.number().min(1).max(20).nullable().optional(),
+  /** Omitted: the policy's assumed body mass. */
+  bodyMassKg: z.number().min(20).max(300).nullable().optional(),
+});
+export type CreateClassType = z.infer<typeof createClassTypeSchema>;
+
+export const classTypeSchema = z.object({
+  id: z.number(),
+  name: z.string(),
+  apparatus: apparatusKindSchema,
+  durationMinutes: z.number(),
+  capacity: z.number(),
+  performersPerPoint: z.number(),
+  dynamicFactor: z.number().nullable(),
+  bodyMassKg: z.number().nullable(),
+  active: z.boolean(),
+});
+export type ClassType = z.infer<typeof classTypeSchema>;
