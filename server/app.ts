@@ -25,6 +25,15 @@ import { documentsRoutes } from './modules/documents/documents.router';
 import { classTypesRepository } from './modules/class-types/class-types.repository';
 import { classTypesService } from './modules/class-types/class-types.service';
 import { classTypesRoutes } from './modules/class-types/class-types.router';
+import { auditRoutes } from './modules/audit/audit.router';
+import { faultsRepository } from './modules/faults/faults.repository';
+import { faultsService } from './modules/faults/faults.service';
+import { faultsRoutes } from './modules/faults/faults.router';
+import { inspectionsRepository } from './modules/inspections/inspections.repository';
+import { inspectionsService } from './modules/inspections/inspections.service';
+import { inspectionsRoutes } from './modules/inspections/inspections.router';
+import { todayService } from './modules/today/today.service';
+import { todayRoutes } from './modules/today/today.router';
 
 export interface AppDeps {
   db: Db;
@@ -88,14 +97,21 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const docs = documentsService({ db, clock, uploadDir: deps.uploadDir });
   const classTypes = classTypesService({ db, repo: classTypesRepository(db), audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes });
+  const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
+  const inspectionsRepo = inspectionsRepository(db);
+  const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock });
 
   const api = new ApiRouter('/api');
-  staffRoutes(api, staffService(staffRepo, clock));
+  staffRoutes(api, staffService(staffRepo, clock, { db, audit }));
   studioRoutes(api, studioService(studioRepo, clock));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   rigRoutes(api, rig, docs, db);
   documentsRoutes(api, docs);
   classTypesRoutes(api, classTypes);
+  faultsRoutes(api, faults);
+  inspectionsRoutes(api, inspections);
+  auditRoutes(api, audit);
+  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock }));
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
   app.use(

@@ -3,3 +3,4 @@ export * from './status';
 export * from './voiding';
 export * from './booking';
 export * from './preuse';
+export * from './checklist';

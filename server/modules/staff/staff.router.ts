@@ -6,7 +6,7 @@ import type { StaffService } from './staff.service';
 export function staffRoutes(api: ApiRouter, staff: StaffService) {
   api.get('/me', { access: 'signed_in', handler: ({ user }) => user });
   api.get('/users', { access: ['owner', 'reception'], handler: () => staff.list() });
-  api.post('/users', { access: ['owner'], body: createUserSchema, status: 201, handler: ({ body }) => staff.create(body) });
+  api.post('/users', { access: ['owner'], body: createUserSchema, status: 201, handler: ({ body, user }) => staff.create(body, user.id) });
   api.patch('/users/:id', {
     access: ['owner'],
     params: idParams,

@@ -3,8 +3,10 @@ import type { CreateUser, UpdateUser, User } from '../../../shared/schemas/staff
 import { conflict, notFound } from '../../http/errors';
 import type { StaffRepository } from './staff.repository';
 import { hashPassword } from './passwords';
+import type { Db } from '../../db/knex';
+import type { AuditRepository } from '../audit/audit.repository';
 
-export function staffService(repo: StaffRepository, clock: Clock) {
+export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db; audit: AuditRepository }) {
   return {
     list: () => repo.list(),
 
@@ -14,9 +16,14 @@ export function staffService(repo: StaffRepository, clock: Clock) {
       return user;
     },
 
-    async create(input: CreateUser): Promise<User> {
+    async create(input: CreateUser, actorId: number): Promise<User> {
       if (await repo.emailTaken(input.email)) throw conflict('email_taken', 'Someone on the staff already uses that e-mail address.', { fields: { email: 'Already in use' } });
-      return repo.insert({ email: input.email, name: input.name, role: input.role, passwordHash: await hashPassword(input.password) }, clock.now());
+      const passwordHash = await hashPassword(input.password);
+      return deps.db.transaction(async (trx) => {
+        const user = await repo.insert({ email: input.email, name: input.name, role: input.role, passwordHash }, clock.now(), trx);
+        await deps.audit.record(trx, { actorId, action: 'user.created', entity: 'user', entityId: user.id, after: { email: user.email, name: user.name, role: user.role } }, clock.now());
+        return user;
+      });
     },
 
     async update(id: number, patch: UpdateUser, actorId: number): Promise<User> {
@@ -26,7 +33,11 @@ export function staffService(repo: StaffRepository, clock: Clock) {
         throw conflict('last_owner', 'The studio needs at least one active owner. Make someone else owner first.');
       }
       if (id === actorId && patch.active === false) throw conflict('self_deactivation', 'You cannot deactivate your own account.');
-      await repo.update(id, patch, clock.now());
+      await deps.db.transaction(async (trx) => {
+        await repo.update(id, patch, clock.now(), trx);
+        const before = { name: user.name, role: user.role, active: user.active };
+        await deps.audit.record(trx, { actorId, action: patch.role && patch.role !== user.role ? 'user.role_changed' : 'user.updated', entity: 'user', entityId: id, before, after: patch }, clock.now());
+      });
       return this.get(id);
     },
 

@@ -1,0 +1,203 @@
+import { stringify } from 'csv-stringify/sync';
+import type { Db } from '../../db/knex';
+import type { Clock } from '../../clock';
+import { conflict, HttpError, notFound } from '../../http/errors';
+import type { AuditRepository } from '../audit/audit.repository';
+import type { StudioRepository } from '../studio/studio.repository';
+import type { RigRepository } from '../rig/rig.repository';
+import { loadSnapshots } from '../rig/point-snapshots';
+import { statusWire } from '../rig/rig.service';
+import type { FaultsService } from '../faults/faults.service';
+import { addStudioDays, clearedUntil, inspectionChecklist, pointStatusAt, preuseChecklist, studioDay, formatStudioDateTime } from '../../../shared/clearance';
+import { intervalClassOfKind } from '../../../shared/schemas/vocabulary';
+import type { ClearanceBody, GearInspectionBody, InspectionLogQuery, PreuseBody } from '../../../shared/schemas/safety';
+import type { InspectionsRepository } from './inspections.repository';
+
+type Items = Array<{ key: string; result: string; note?: string }>;
+
+/** Every checklist key exactly once, nothing else; otherwise 400 and nothing is recorded. */
+function matchItems(expected: Array<{ key: string }>, got: Items) {
+  const want = new Set(expected.map((i) => i.key));
+  const seen = new Set<string>();
+  const unknown: string[] = [];
+  const duplicate: string[] = [];
+  for (const i of got) {
+    if (!want.has(i.key)) unknown.push(i.key);
+    else if (seen.has(i.key)) duplicate.push(i.key);
+    seen.add(i.key);
+  }
+  const missing = [...want].filter((k) => !seen.has(k));
+  if (missing.length || unknown.length || duplicate.length) {
+    const parts = [missing.length ? `missing ${missing.join(', ')}` : '', unknown.length ? `unknown ${unknown.join(', ')}` : '', duplicate.length ? `repeated ${duplicate.join(', ')}` : ''].filter(Boolean);
+    throw new HttpError(400, 'checklist_mismatch', `The inspection does not match the checklist: ${parts.join('; ')}. Nothing was recorded.`, { missing, unknown, duplicate });
+  }
+}
+
+export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; rig: RigRepository; studio: StudioRepository; audit: AuditRepository; faults: FaultsService; clock: Clock }) {
+  const { db, repo, rig, studio, audit, faults, clock } = deps;
+
+  async function pointBundle(id: number, trx: Db = db) {
+    const [b] = await loadSnapshots(db, rig, { ids: [id] }, trx);
+    if (!b) throw notFound('That rigging point');
+    return b;
+  }
+
+  return {
+    async checklist(pointId: number) {
+      const b = await pointBundle(pointId);
+      return { items: inspectionChecklist(b.point, b.snapshot.links) };
+    },
+
+    /** PRODUCT.md §6.1: record the inspection; it clears only when nothing fails and no fault is open. */
+    async clear(pointId: number, body: ClearanceBody, actorId: number) {
+      const { policy } = await studio.get();
+      const result = await db.transaction(async (trx) => {
+        const now = clock.now();
+        const b = await pointBundle(pointId, trx);
+        const checklist = inspectionChecklist(b.point, b.snapshot.links);
+        matchItems(checklist, body.items);
+        const byKey = new Map(checklist.map((c) => [c.key, c]));
+        const failed = body.items.filter((i) => i.result === 'fail');
+        const cleared = failed.length === 0 && b.snapshot.openFaults.length === 0 && b.snapshot.links.length > 0;
+        let until: Date | null = null;
+        if (cleared) {
+          // Renew every item in the path first; the point's clearance is then capped by the apparatus's.
+          for (const l of b.links) {
+            const days = policy.intervalDays[intervalClassOfKind[l.gear.kind]];
+            await rig.updateGear(l.gearId, { inspectedUntil: addStudioDays(now, days, policy.timeZone).toISOString() }, now, trx);
+          }
+          await rig.updatePoint(pointId, { lastClearedAt: now.toISOString(), clearanceVoidedAt: null }, now, trx);
+          until = clearedUntil((await pointBundle(pointId, trx)).snapshot, policy);
+        }
+        const inspectionId = await repo.insert(
+          {
+            kind: 'periodic',
+            pointId,
+            gearId: null,
+            inspectorId: actorId,
+            studioDay: studioDay(now, policy.timeZone),
+            result: failed.length ? 'fail' : body.items.some((i) => i.result === 'attention') ? 'attention' : 'pass',
+            notes: body.notes ?? '',
+            cleared,
+            clearedUntil: until?.toISOString() ?? null,
+            items: body.items.map((i) => ({ key: i.key, label: byKey.get(i.key)!.label, result: i.result, note: i.note ?? '', gearId: byKey.get(i.key)!.gearId })),
+          },
+          now,
+          trx,
+        );
+        const faultIds: number[] = [];
+        for (const f of failed) {
+          const item = byKey.get(f.key)!;
+          faultIds.push(
+            await faults.open(trx, {
+              pointId: item.gearId ? undefined : pointId,
+              gearId: item.gearId,
+              severity: 'high',
+              description: `Failed inspection: ${item.label}${f.note ? ` — ${f.note}` : ''}`,
+              reportedBy: actorId,
+              sourceInspectionId: inspectionId,
+            }),
+          );
+        }
+        await audit.record(trx, { actorId, action: cleared ? 'point.cleared' : 'point.inspected', entity: 'point', entityId: pointId, after: { inspectionId, cleared, clearedUntil: until?.toISOString() ?? null, failed: failed.map((f) => f.key) } }, now);
+        const status = pointStatusAt((await pointBundle(pointId, trx)).snapshot, policy, now);
+        const reasons = cleared
+          ? status.reasons
+          : [
+              ...failed.map((f) => ({ code: 'item_failed', message: `Failed: ${byKey.get(f.key)!.label}` })),
+              ...b.snapshot.openFaults.map((f) => ({ code: 'fault_open', message: `Open fault: ${f.description}` })),
+              ...(b.snapshot.links.length ? [] : [{ code: 'no_load_path', message: 'The point has no load path to clear.' }]),
+            ];
+        return { inspectionId, cleared, clearedUntil: until?.toISOString() ?? null, reasons, faultIds, status: statusWire(status) };
+      });
+      return result;
+    },
+
+    /** An item inspected on its own (an apparatus in the gear room, or after an incident). */
+    async inspectGear(gearId: number, body: GearInspectionBody, actorId: number) {
+      const { policy } = await studio.get();
+      const gear = await rig.gearById(gearId);
+      if (!gear) throw notFound('That gear item');
+      if (gear.status === 'retired') throw conflict('gear_retired', 'A retired item is not inspected back into use.');
+      const id = await db.transaction(async (trx) => {
+        const now = clock.now();
+        const passed = body.result !== 'fail';
+        if (passed) {
+          const days = policy.intervalDays[intervalClassOfKind[gear.kind]];
+          const patch: Parameters<RigRepository['updateGear']>[1] = { inspectedUntil: addStudioDays(now, days, policy.timeZone).toISOString() };
+          // Only an after-incident inspection returns a quarantined item to service.
+          if (body.kind === 'after_incident' && gear.status === 'quarantined') Object.assign(patch, { status: 'in_service', statusReason: null });
+          await rig.updateGear(gearId, patch, now, trx);
+        }
+        const inspectionId = await repo.insert(
+          { kind: body.kind, pointId: null, gearId, inspectorId: actorId, studioDay: studioDay(now, policy.timeZone), result: body.result, notes: body.note ?? '', cleared: false, clearedUntil: null, items: [] },
+          now,
+          trx,
+        );
+        if (!passed) await faults.open(trx, { gearId, severity: 'high', description: `Failed ${body.kind.replace('_', '-')} inspection${body.note ? `: ${body.note}` : ''}`, reportedBy: actorId, sourceInspectionId: inspectionId });
+        await audit.record(trx, { actorId, action: 'gear.inspected', entity: 'gear', entityId: gearId, after: { inspectionId, ...body } }, now);
+        return inspectionId;
+      });
+      const [inspection] = await repo.list({ gearId, limit: 1 });
+      return { ...inspection, id, gear: await rig.gearById(gearId) };
+    },
+
+    async preuseChecklist(pointId: number) {
+      const b = await pointBundle(pointId);
+      return { items: preuseChecklist(b.snapshot.links) };
+    },
+
+    /** PRODUCT.md §4.5: valid for the studio day; a failed item opens a fault at once. */
+    async preuse(pointId: number, body: PreuseBody, actorId: number) {
+      const { policy } = await studio.get();
+      const out = await db.transaction(async (trx) => {
+        const now = clock.now();
+        const b = await pointBundle(pointId, trx);
+        const list = preuseChecklist(b.snapshot.links);
+        matchItems(list, body.items);
+        const labels = new Map<string, string>(list.map((i) => [i.key, i.label]));
+        const failed = body.items.filter((i) => i.result === 'fail');
+        const inspectionId = await repo.insert(
+          {
+            kind: 'pre_use',
+            pointId,
+            gearId: null,
+            inspectorId: actorId,
+            studioDay: studioDay(now, policy.timeZone),
+            result: failed.length ? 'fail' : 'pass',
+            notes: '',
+            cleared: false,
+            clearedUntil: null,
+            items: body.items.map((i) => ({ key: i.key, label: labels.get(i.key)!, result: i.result, note: i.note ?? '' })),
+          },
+          now,
+          trx,
+        );
+        const faultIds: number[] = [];
+        for (const f of failed) {
+          faultIds.push(await faults.open(trx, { pointId, severity: 'high', description: `Pre-use check failed: ${labels.get(f.key)}${f.note ? ` — ${f.note}` : ''}`, reportedBy: actorId, sourceInspectionId: inspectionId }));
+        }
+        await audit.record(trx, { actorId, action: 'point.preuse_checked', entity: 'point', entityId: pointId, after: { inspectionId, failed: failed.map((f) => f.key) } }, now);
+        const status = pointStatusAt((await pointBundle(pointId, trx)).snapshot, policy, now);
+        return { inspectionId, passed: failed.length === 0, faultIds, status: statusWire(status) };
+      });
+      return out;
+    },
+
+    log: (q: InspectionLogQuery) => repo.list(q),
+
+    async exportCsv(q: InspectionLogQuery): Promise<string> {
+      const { policy } = await studio.get();
+      const rows = await repo.list(q);
+      const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), policy.timeZone) : '');
+      return stringify(
+        rows.flatMap((r) => {
+          const base = [r.id, when(r.inspectedAt), r.kind.replace('_', '-'), r.pointLabel ?? '', r.gearSerial ?? '', r.inspector ?? '', r.result, r.cleared ? 'yes' : 'no', when(r.clearedUntil), r.notes];
+          return r.items.length ? r.items.map((it) => [...base, it.label, it.result, it.note]) : [[...base, '', '', '']];
+        }),
+        { header: true, columns: ['inspection', `inspected at (${policy.timeZone})`, 'kind', 'point', 'gear serial', 'inspector', 'result', 'cleared', 'cleared until', 'notes', 'item', 'item result', 'item note'] },
+      );
+    },
+  };
+}
+export type InspectionsService = ReturnType<typeof inspectionsService>;

@@ -1,0 +1,75 @@
+import { TZDate } from '@date-fns/tz';
+import { addDays, startOfDay } from 'date-fns';
+import type { Db } from '../../db/knex';
+import type { Clock } from '../../clock';
+import type { StudioRepository } from '../studio/studio.repository';
+import type { RigRepository } from '../rig/rig.repository';
+import { loadSnapshots } from '../rig/point-snapshots';
+import { statusWire } from '../rig/rig.service';
+import type { InspectionsRepository } from '../inspections/inspections.repository';
+import { pointStatusAt, sessionRisk, studioDay } from '../../../shared/clearance';
+import type { CurrentUser } from '../../http/auth';
+
+/** The studio day [start, end) that contains `now`, in the studio's zone. */
+export function studioDayRange(now: Date, timeZone: string) {
+  const start = startOfDay(new TZDate(now.getTime(), timeZone));
+  return { start: new Date(start.getTime()), end: new Date(addDays(start, 1).getTime()) };
+}
+
+export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock }) {
+  const { db, rig, studio, inspections, clock } = deps;
+  return {
+    /** The signed-in instructor's sessions today (everyone's for the other roles), and every point's status now. */
+    async today(user: CurrentUser) {
+      const { policy } = await studio.get();
+      const now = clock.now();
+      const { start, end } = studioDayRange(now, policy.timeZone);
+      const q = db('sessions')
+        .join('class_types', 'class_types.id', 'sessions.class_type_id')
+        .join('rooms', 'rooms.id', 'sessions.room_id')
+        .join('users', 'users.id', 'sessions.instructor_id')
+        .where('sessions.starts_at', '<', end.toISOString())
+        .where('sessions.ends_at', '>', start.toISOString())
+        .orderBy('sessions.starts_at')
+        .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'rooms.name as room_name', 'users.name as instructor_name');
+      if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
+      const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
+      const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
+      const bundles = await loadSnapshots(db, rig);
+      const byId = new Map(bundles.map((b) => [b.point.id, b]));
+      const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
+      const pointView = (id: number, at: Date) => {
+        const b = byId.get(id)!;
+        return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(b.snapshot, policy, at)), preuseDue: !preuse.has(id), lastPreuseAt: preuse.get(id) ?? null };
+      };
+      return {
+        studioDay: studioDay(now, policy.timeZone),
+        timeZone: policy.timeZone,
+        sessions: sessions.map((s) => {
+          const pointIds = booked.filter((b) => b.session_id === s.id).map((b) => b.point_id).filter((id) => byId.has(id));
+          const startsAt = new Date(s.starts_at);
+          const risk = sessionRisk({ points: pointIds.map((id) => byId.get(id)!.snapshot), policy, now, startsAt, endsAt: new Date(s.ends_at), cancelled: Boolean(s.cancelled) });
+          return {
+            id: s.id,
+            className: s.class_name,
+            apparatus: s.apparatus,
+            roomId: s.room_id,
+            roomName: s.room_name,
+            instructorId: s.instructor_id,
+            instructorName: s.instructor_name,
+            startsAt: s.starts_at,
+            endsAt: s.ends_at,
+            cancelled: Boolean(s.cancelled),
+            cancelReason: s.cancel_reason,
+            atRisk: risk.atRisk,
+            riskReasons: risk.reasons,
+            // Each point's status at the session's start, or now once it has begun.
+            points: pointIds.map((id) => pointView(id, startsAt > now ? startsAt : now)),
+          };
+        }),
+        points: bundles.map((b) => pointView(b.point.id, now)),
+      };
+    },
+  };
+}
+export type TodayService = ReturnType<typeof todayService>;
