@@ -34,6 +34,9 @@ import { inspectionsService } from './modules/inspections/inspections.service';
 import { inspectionsRoutes } from './modules/inspections/inspections.router';
 import { todayService } from './modules/today/today.service';
 import { todayRoutes } from './modules/today/today.router';
+import { sessionsRepository } from './modules/sessions/sessions.repository';
+import { sessionsService } from './modules/sessions/sessions.service';
+import { sessionsRoutes } from './modules/sessions/sessions.router';
 
 export interface AppDeps {
   db: Db;
@@ -95,7 +98,8 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const studioRepo = studioRepository(db);
   const rigRepo = rigRepository(db);
   const docs = documentsService({ db, clock, uploadDir: deps.uploadDir });
-  const classTypes = classTypesService({ db, repo: classTypesRepository(db), audit, clock });
+  const classTypesRepo = classTypesRepository(db);
+  const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
   const inspectionsRepo = inspectionsRepository(db);
@@ -112,6 +116,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit);
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock }));
+  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock }));
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
   app.use(

@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { APP_URL, as, createTestApp, signIn, type TestContext } from '../helpers/app';
+import { as, createTestApp, signIn, type TestContext } from '../helpers/app';
 import { makeUser } from '../helpers/factories';
 
 let ctx: TestContext;
@@ -201,4 +201,3 @@ describe('security headers', () => {
   });
 });
 
-void APP_URL;

@@ -1,0 +1,176 @@
+import type { Db } from '../../db/knex';
+
+export const outboxStates = ['queued', 'sending', 'sent', 'failed', 'skipped'] as const;
+export type OutboxState = (typeof outboxStates)[number];
+export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest';
+
+export interface OutboxRow {
+  id: number;
+  kind: OutboxKind;
+  unique_key: string;
+  recipients_json: string;
+  subject: string;
+  text_body: string;
+  html_body: string;
+  state: OutboxState;
+  attempts: number;
+  next_attempt_at: string;
+  lease_until: string | null;
+  last_error: string | null;
+  session_id: number | null;
+  session_starts_at: string | null;
+  created_at: string;
+  sent_at: string | null;
+}
+
+export interface OutboxMessage {
+  id: number;
+  kind: OutboxKind;
+  uniqueKey: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+  state: OutboxState;
+  attempts: number;
+  nextAttemptAt: string;
+  lastError: string | null;
+  sessionId: number | null;
+  sessionStartsAt: string | null;
+  createdAt: string;
+  sentAt: string | null;
+}
+
+export interface NewOutboxRow {
+  kind: OutboxKind;
+  uniqueKey: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+  notBefore?: Date;
+  /** `skipped` records a decision (a reminder replaced by a catch-up one) without ever sending. */
+  state?: 'queued' | 'skipped';
+  note?: string | null;
+  sessionId?: number | null;
+  sessionStartsAt?: string | null;
+}
+
+const toMessage = (r: OutboxRow): OutboxMessage => ({
+  id: r.id,
+  kind: r.kind,
+  uniqueKey: r.unique_key,
+  to: JSON.parse(r.recipients_json) as string[],
+  subject: r.subject,
+  text: r.text_body,
+  html: r.html_body,
+  state: r.state,
+  attempts: r.attempts,
+  nextAttemptAt: r.next_attempt_at,
+  lastError: r.last_error,
+  sessionId: r.session_id,
+  sessionStartsAt: r.session_starts_at,
+  createdAt: r.created_at,
+  sentAt: r.sent_at,
+});
+
+/** Sends tried before a message is given up as failed. */
+export const MAX_ATTEMPTS = 8;
+const BASE_DELAY_MS = 30_000;
+const MAX_DELAY_MS = 60 * 60_000;
+
+/** Wait after the n-th failed attempt (n ≥ 1): 30 s, 1 min, 2 min, … capped at an hour. */
+export function retryDelayMs(attempts: number): number {
+  return Math.min(BASE_DELAY_MS * 2 ** Math.max(0, attempts - 1), MAX_DELAY_MS);
+}
+
+export function outboxRepository(db: Db) {
+  return {
+    /** Inserts in the caller's transaction; a key already present is left as it is. Returns whether a row was added. */
+    async insert(trx: Db, m: NewOutboxRow, now: Date): Promise<boolean> {
+      const rows = await trx('outbox_messages')
+        .insert({
+          kind: m.kind,
+          unique_key: m.uniqueKey,
+          recipients_json: JSON.stringify(m.to),
+          subject: m.subject,
+          text_body: m.text,
+          html_body: m.html,
+          state: m.state ?? 'queued',
+          attempts: 0,
+          next_attempt_at: (m.notBefore ?? now).toISOString(),
+          last_error: m.note ?? null,
+          session_id: m.sessionId ?? null,
+          session_starts_at: m.sessionStartsAt ?? null,
+          created_at: now.toISOString(),
+        })
+        .onConflict('unique_key')
+        .ignore()
+        .returning('id');
+      return rows.length > 0;
+    },
+
+    /** Which of these keys already have a row (in any state). */
+    async existingKeys(keys: string[], trx: Db = db): Promise<Set<string>> {
+      if (!keys.length) return new Set();
+      const rows = (await trx('outbox_messages').whereIn('unique_key', keys).select('unique_key')) as Array<{ unique_key: string }>;
+      return new Set(rows.map((r) => r.unique_key));
+    },
+
+    /** How many rows have a key starting with `prefix` (the prefix holds no LIKE wildcards of its own). */
+    async countWithPrefix(prefix: string, trx: Db = db): Promise<number> {
+      const escaped = prefix.replace(/[\\%_]/g, (c) => `\\${c}`);
+      const [row] = (await trx('outbox_messages').whereRaw("unique_key LIKE ? ESCAPE '\\'", [`${escaped}%`]).count({ n: '*' })) as Array<{ n: number }>;
+      return Number(row.n);
+    },
+
+    /**
+     * Claims up to `limit` due rows for sending, in one short transaction: first returns rows whose
+     * lease ran out (a worker that crashed mid-send) to the queue, then marks the due ones `sending`
+     * with a lease, so a second worker on the same database never picks them up meanwhile.
+     */
+    async claimDue(now: Date, limit: number, leaseMs: number): Promise<OutboxMessage[]> {
+      const at = now.toISOString();
+      return db.transaction(async (trx) => {
+        await trx('outbox_messages').where('state', 'sending').where('lease_until', '<=', at).update({ state: 'queued', lease_until: null });
+        const due = (await trx('outbox_messages').where('state', 'queued').where('next_attempt_at', '<=', at).orderBy('id').limit(limit)) as OutboxRow[];
+        if (!due.length) return [];
+        await trx('outbox_messages')
+          .whereIn('id', due.map((r) => r.id))
+          .update({ state: 'sending', lease_until: new Date(now.getTime() + leaseMs).toISOString() });
+        return due.map((r) => ({ ...toMessage(r), state: 'sending' as const }));
+      });
+    },
+
+    async markSent(id: number, now: Date): Promise<void> {
+      await db('outbox_messages').where({ id, state: 'sending' }).update({ state: 'sent', sent_at: now.toISOString(), lease_until: null, last_error: null });
+    },
+
+    /** Records a failed attempt: back to the queue after a back-off, or `failed` after the last attempt. Returns the new state. */
+    async markFailed(id: number, attempt: number, error: string, now: Date): Promise<'queued' | 'failed'> {
+      const state = attempt >= MAX_ATTEMPTS ? 'failed' : 'queued';
+      await db('outbox_messages')
+        .where({ id })
+        .update({
+          state,
+          attempts: attempt,
+          last_error: error.slice(0, 1000),
+          lease_until: null,
+          next_attempt_at: new Date(now.getTime() + retryDelayMs(attempt)).toISOString(),
+        });
+      return state;
+    },
+
+    /** A claimed message that should no longer go out (its session moved, was cancelled or began). */
+    async markSkipped(id: number, why: string): Promise<void> {
+      await db('outbox_messages').where({ id }).update({ state: 'skipped', lease_until: null, last_error: why });
+    },
+
+    async list(filter: { state?: OutboxState; limit?: number }): Promise<OutboxMessage[]> {
+      const q = db<OutboxRow>('outbox_messages').orderBy('id', 'desc').limit(filter.limit ?? 200);
+      if (filter.state) q.where('state', filter.state);
+      return (await q).map(toMessage);
+    },
+  };
+}
+export type OutboxRepository = ReturnType<typeof outboxRepository>;

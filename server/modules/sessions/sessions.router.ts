@@ -1,0 +1,17 @@
+import type { ApiRouter } from '../../http/route';
+import { idParams } from '../../../shared/schemas/common';
+import { availabilityQuery, cancelSessionSchema, createSessionSchema, sessionListQuery, swapPointsSchema, updateSessionSchema } from '../../../shared/schemas/sessions';
+import type { SessionsService } from './sessions.service';
+
+const DESK = ['reception', 'owner'] as const;
+
+export function sessionsRoutes(api: ApiRouter, sessions: SessionsService) {
+  api.get('/sessions', { access: 'signed_in', query: sessionListQuery, handler: ({ query }) => sessions.list(query) });
+  api.get('/sessions/availability', { access: 'signed_in', query: availabilityQuery, handler: ({ query }) => sessions.availability(query) });
+  api.get('/sessions/:id', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.get(params.id) });
+  api.get('/sessions/:id/alternatives', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.alternatives(params.id) });
+  api.post('/sessions', { access: DESK, body: createSessionSchema, status: 201, handler: ({ body, user }) => sessions.create(body, user.id) });
+  api.patch('/sessions/:id', { access: DESK, params: idParams, body: updateSessionSchema, handler: ({ params, body, user }) => sessions.update(params.id, body, user.id) });
+  api.put('/sessions/:id/points', { access: DESK, params: idParams, body: swapPointsSchema, handler: ({ params, body, user }) => sessions.swapPoints(params.id, body.pointIds, user.id) });
+  api.post('/sessions/:id/cancel', { access: DESK, params: idParams, body: cancelSessionSchema, handler: ({ params, body, user }) => sessions.cancel(params.id, body, user.id) });
+}

@@ -1,0 +1,272 @@
+import type { Db } from '../../db/knex';
+import type { Clock } from '../../clock';
+import { HttpError, conflict, notFound } from '../../http/errors';
+import type { AuditRepository } from '../audit/audit.repository';
+import type { StudioRepository } from '../studio/studio.repository';
+import type { RigRepository } from '../rig/rig.repository';
+import { loadSnapshots, type SnapshotBundle } from '../rig/point-snapshots';
+import { statusWire } from '../rig/rig.service';
+import type { ClassTypesRepository } from '../class-types/class-types.repository';
+import { profileFor } from '../class-types/class-types.service';
+import { bookingReasons, instructorReasons, pointStatusAt, pointStatusOver, sessionRisk, type Reason } from '../../../shared/clearance';
+import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
+import type { Policy } from '../../../shared/schemas/policy';
+import type { ClassType } from '../../../shared/schemas/class-types';
+import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, UpdateSession } from '../../../shared/schemas/sessions';
+import type { SessionRecord, SessionsRepository } from './sessions.repository';
+
+export type SessionChangeKind = 'moved' | 'points_swapped' | 'cancelled' | 'instructor_changed';
+/** Told inside the change's transaction, so the instructor's e-mail is queued with it or not at all. */
+export interface SessionNotifier {
+  sessionChanged(trx: Db, change: { kind: SessionChangeKind; sessionId: number; before: SessionRecord; after: SessionRecord; at: Date }): Promise<void>;
+}
+
+interface Occurrence {
+  startsAt: Date;
+  endsAt: Date;
+}
+
+const MAX_RANGE_DAYS = 100;
+
+export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier }) {
+  const { db, repo, rig, classTypes, studio, audit, clock } = deps;
+
+  async function classTypeOrThrow(id: number, trx: Db = db): Promise<ClassType> {
+    const c = await classTypes.byId(id, trx);
+    if (!c) throw new HttpError(400, 'invalid_request', 'That class type does not exist.', { source: 'body', fields: { classTypeId: 'Pick a class type' } });
+    return c;
+  }
+  async function checkInstructor(id: number, trx: Db) {
+    const u = await trx('users').where({ id }).first('id', 'role', 'active');
+    if (!u || !u.active || u.role !== 'instructor') throw new HttpError(400, 'invalid_request', 'Pick an active instructor.', { source: 'body', fields: { instructorId: 'Not an active instructor' } });
+  }
+
+  /**
+   * Every reason of PRODUCT.md §4.4 for one occurrence, per point and for the session as a whole.
+   * Called inside the write transaction that books, so no one can book between check and write.
+   */
+  async function checkOccurrence(
+    trx: Db,
+    a: { classType: ClassType; policy: Policy; now: Date; roomId: number; instructorId: number; occ: Occurrence; pointIds: number[]; bundles: Map<number, SnapshotBundle>; exclude: number[] },
+  ) {
+    const profile = profileFor(a.classType, a.policy);
+    const busy = await repo.pointsBusy(a.pointIds, a.occ.startsAt, a.occ.endsAt, a.exclude, trx);
+    const points = a.pointIds.map((pointId) => {
+      const b = a.bundles.get(pointId);
+      if (!b) return { pointId, reasons: [{ code: 'point_unknown', message: `There is no point with id ${pointId}.` }], warnings: [] as Reason[] };
+      const check = bookingReasons({
+        point: b.snapshot,
+        policy: a.policy,
+        now: a.now,
+        session: { startsAt: a.occ.startsAt, endsAt: a.occ.endsAt, apparatus: a.classType.apparatus, performersPerPoint: a.classType.performersPerPoint, profile },
+        pointBookedElsewhere: busy.has(pointId),
+      });
+      const reasons = [...check.reasons];
+      if (b.point.roomId !== a.roomId) reasons.push({ code: 'point_not_in_room', message: `${b.point.label} hangs in ${b.point.roomName}, not in this class’s room.` });
+      return { pointId, reasons, warnings: check.warnings };
+    });
+    const reasons: Reason[] = [...instructorReasons(await repo.instructorBusy(a.instructorId, a.occ.startsAt, a.occ.endsAt, a.exclude, trx))];
+    if (a.occ.endsAt.getTime() <= a.now.getTime()) reasons.push({ code: 'in_the_past', message: 'This class would already be over.' });
+    return { points, reasons, ok: reasons.length === 0 && points.every((p) => p.reasons.length === 0) };
+  }
+
+  function refuse(points: Array<{ pointId: number; reasons: Reason[] }>, reasons: Reason[], extra: Record<string, unknown> = {}): never {
+    const named = points.filter((p) => p.reasons.length);
+    throw conflict('points_unavailable', 'Some points cannot take this class at that time.', { points: named, reasons, ...extra });
+  }
+
+  /** The wire view: each point's status at the session's time, at risk, inspection due, places. */
+  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, policy: Policy, now: Date) {
+    const startsAt = new Date(s.startsAt);
+    const endsAt = new Date(s.endsAt);
+    const at = startsAt > now ? startsAt : now;
+    const snaps = s.pointIds.map((id) => bundles.get(id)).filter((b): b is SnapshotBundle => Boolean(b));
+    const points = snaps.map((b) => ({ pointId: b.point.id, label: b.point.label, ...statusWire(pointStatusAt(b.snapshot, policy, at)) }));
+    const risk = sessionRisk({ points: snaps.map((b) => b.snapshot), policy, now, startsAt, endsAt, cancelled: s.cancelled });
+    const live = !s.cancelled && endsAt > now;
+    const inspectionDue = live && snaps.some((b) => pointStatusOver(b.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
+    const places = s.cancelled ? 0 : Math.min(s.capacity, points.filter((p) => p.status !== 'blocked').length);
+    return { ...s, points, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places };
+  }
+
+  async function bundlesFor(pointIds: number[] | 'all', trx: Db = db) {
+    const list = await loadSnapshots(db, rig, pointIds === 'all' ? {} : { ids: pointIds }, trx);
+    return new Map(list.map((b) => [b.point.id, b]));
+  }
+
+  async function sessionOrThrow(id: number, trx: Db = db) {
+    const s = await repo.byId(id, trx);
+    if (!s) throw notFound('That session');
+    return s;
+  }
+
+  return {
+    async list(q: SessionListQuery) {
+      const from = new Date(q.from);
+      const to = new Date(q.to);
+      if (to <= from) throw new HttpError(400, 'invalid_request', '“to” must be after “from”.', { source: 'query', fields: { to: 'Must be after from' } });
+      if (to.getTime() - from.getTime() > MAX_RANGE_DAYS * 86_400_000) throw new HttpError(400, 'invalid_request', `Ask for at most ${MAX_RANGE_DAYS} days at a time.`, { source: 'query', fields: { to: 'Range too long' } });
+      const { policy } = await studio.get();
+      const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
+      const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
+      const now = clock.now();
+      return sessions.map((s) => view(s, bundles, policy, now));
+    },
+
+    async get(id: number) {
+      const s = await sessionOrThrow(id);
+      const { policy } = await studio.get();
+      return view(s, await bundlesFor(s.pointIds), policy, clock.now());
+    },
+
+    /** What the booking dialog asks: each point of the room, bookable or not for that exact time, with reasons. */
+    async availability(q: AvailabilityQuery) {
+      const { policy } = await studio.get();
+      const classType = await classTypeOrThrow(q.classTypeId);
+      const bundles = await bundlesFor('all');
+      const roomPoints = [...bundles.values()].filter((b) => b.point.roomId === q.roomId).map((b) => b.point.id);
+      const result = await checkOccurrence(db, {
+        classType,
+        policy,
+        now: clock.now(),
+        roomId: q.roomId,
+        instructorId: q.instructorId ?? 0,
+        occ: { startsAt: new Date(q.startsAt), endsAt: new Date(q.endsAt) },
+        pointIds: roomPoints,
+        bundles,
+        exclude: q.excludeSessionId ? [q.excludeSessionId] : [],
+      });
+      return {
+        points: result.points.map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, bookable: p.reasons.length === 0, reasons: p.reasons, warnings: p.warnings })),
+        reasons: q.instructorId ? result.reasons : result.reasons.filter((r) => r.code !== 'instructor_double_booked'),
+      };
+    },
+
+    async create(body: CreateSession, actorId: number) {
+      const { policy } = await studio.get();
+      const first: Occurrence = { startsAt: new Date(body.startsAt), endsAt: new Date(body.endsAt) };
+      const duration = first.endsAt.getTime() - first.startsAt.getTime();
+      let occurrences: Occurrence[] = [first];
+      if (body.rrule) {
+        try {
+          occurrences = expandSeries(body.rrule, first.startsAt, policy.timeZone, { skipDays: body.skipDays }).map((s) => ({ startsAt: s, endsAt: new Date(s.getTime() + duration) }));
+        } catch (err) {
+          if (err instanceof RecurrenceError) throw new HttpError(400, 'invalid_request', err.message, { source: 'body', fields: { rrule: err.message } });
+          throw err;
+        }
+        if (!occurrences.length) throw new HttpError(400, 'invalid_request', 'The repeat rule gives no classes.', { source: 'body', fields: { rrule: 'No occurrences' } });
+      }
+      const created = await db.transaction(async (trx) => {
+        const now = clock.now();
+        const classType = await classTypeOrThrow(body.classTypeId, trx);
+        await checkInstructor(body.instructorId, trx);
+        if (!(await rig.roomById(body.roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
+        const bundles = await bundlesFor(body.pointIds, trx);
+        const checks = [];
+        for (const occ of occurrences) {
+          checks.push({ occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: body.roomId, instructorId: body.instructorId, occ, pointIds: body.pointIds, bundles, exclude: [] })) });
+        }
+        const refused = checks.filter((c) => !c.ok);
+        if (refused.length && !(body.rrule && body.bookAvailable && refused.length < checks.length)) {
+          if (!body.rrule) refuse(refused[0].points, refused[0].reasons);
+          // A series books nothing until reception chooses: book the rest, or change points.
+          refuse(refused[0].points, refused[0].reasons, {
+            occurrences: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), endsAt: c.occ.endsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons })),
+            bookable: checks.length - refused.length,
+            total: checks.length,
+          });
+        }
+        const seriesId = body.rrule ? await repo.insertSeries(body.rrule, now, trx) : null;
+        const ids: number[] = [];
+        for (const c of checks.filter((x) => x.ok)) {
+          ids.push(await repo.insert({ classTypeId: body.classTypeId, instructorId: body.instructorId, roomId: body.roomId, startsAt: c.occ.startsAt, endsAt: c.occ.endsAt, seriesId, pointIds: body.pointIds }, now, trx));
+        }
+        await audit.record(trx, { actorId, action: 'session.booked', entity: 'session', entityId: ids[0], after: { ...body, sessionIds: ids } }, now);
+        const warnings = checks.filter((c) => c.ok).flatMap((c) => c.points.flatMap((p) => p.warnings.map((w) => ({ ...w, pointId: p.pointId, startsAt: c.occ.startsAt.toISOString() }))));
+        return { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons })) };
+      });
+      const firstSession = await this.get(created.ids[0]);
+      return { ...firstSession, warnings: created.warnings, seriesId: created.seriesId, sessionIds: created.ids, skipped: created.skipped };
+    },
+
+    /** Move, stretch or change instructor, re-checked; `following` applies the same change to the rest of the series. */
+    async update(id: number, patch: UpdateSession, actorId: number) {
+      const { policy } = await studio.get();
+      await db.transaction(async (trx) => {
+        const now = clock.now();
+        const s = await sessionOrThrow(id, trx);
+        if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
+        const targets = patch.scope === 'following' && s.seriesId ? await repo.bySeriesFrom(s.seriesId, s.startsAt, trx) : [s];
+        const dStart = patch.startsAt ? new Date(patch.startsAt).getTime() - new Date(s.startsAt).getTime() : 0;
+        const dEnd = patch.endsAt ? new Date(patch.endsAt).getTime() - new Date(s.endsAt).getTime() : dStart;
+        if (patch.instructorId !== undefined) await checkInstructor(patch.instructorId, trx);
+        const classType = await classTypeOrThrow(s.classTypeId, trx);
+        const bundles = await bundlesFor([...new Set(targets.flatMap((t) => t.pointIds))], trx);
+        const exclude = targets.map((t) => t.id);
+        for (const t of targets) {
+          const occ = { startsAt: new Date(new Date(t.startsAt).getTime() + dStart), endsAt: new Date(new Date(t.endsAt).getTime() + dEnd) };
+          if (occ.endsAt <= occ.startsAt) throw new HttpError(400, 'invalid_request', 'The class must end after it starts.', { source: 'body', fields: { endsAt: 'Must be after the start' } });
+          const c = await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude });
+          if (!c.ok) refuse(c.points, c.reasons, { sessionId: t.id, startsAt: occ.startsAt.toISOString() });
+          await repo.update(t.id, { startsAt: occ.startsAt, endsAt: occ.endsAt, instructorId: patch.instructorId }, now, trx);
+          const after = (await repo.byId(t.id, trx))!;
+          if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
+          if (patch.instructorId !== undefined && patch.instructorId !== t.instructorId) await deps.notifier?.sessionChanged(trx, { kind: 'instructor_changed', sessionId: t.id, before: t, after, at: now });
+        }
+        await audit.record(trx, { actorId, action: 'session.changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId }, after: patch }, now);
+      });
+      return this.get(id);
+    },
+
+    async swapPoints(id: number, pointIds: number[], actorId: number) {
+      const { policy } = await studio.get();
+      await db.transaction(async (trx) => {
+        const now = clock.now();
+        const s = await sessionOrThrow(id, trx);
+        if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
+        const classType = await classTypeOrThrow(s.classTypeId, trx);
+        const bundles = await bundlesFor(pointIds, trx);
+        const c = await checkOccurrence(trx, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id] });
+        if (!c.ok) refuse(c.points, c.reasons);
+        await repo.replacePoints(id, pointIds, s.startsAt, s.endsAt, trx);
+        await repo.update(id, {}, now, trx);
+        await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: id, before: s, after: (await repo.byId(id, trx))!, at: now });
+        await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: s.pointIds, after: pointIds }, now);
+      });
+      return this.get(id);
+    },
+
+    /** Kept and marked, and the instructor told; `following` cancels the rest of the series too. */
+    async cancel(id: number, body: CancelSession, actorId: number) {
+      await db.transaction(async (trx) => {
+        const now = clock.now();
+        const s = await sessionOrThrow(id, trx);
+        if (s.cancelled) throw conflict('session_cancelled', 'This class is already cancelled.');
+        const targets = body.scope === 'following' && s.seriesId ? await repo.bySeriesFrom(s.seriesId, s.startsAt, trx) : [s];
+        for (const t of targets) {
+          await repo.update(t.id, { cancelled: true, cancelReason: body.reason }, now, trx);
+          await deps.notifier?.sessionChanged(trx, { kind: 'cancelled', sessionId: t.id, before: t, after: (await repo.byId(t.id, trx))!, at: now });
+        }
+        await audit.record(trx, { actorId, action: 'session.cancelled', entity: 'session', entityId: id, after: { reason: body.reason, sessionIds: targets.map((t) => t.id) } }, now);
+      });
+      return this.get(id);
+    },
+
+    /** Free, allowed, passing, unblocked points to swap in: same room first. */
+    async alternatives(id: number) {
+      const { policy } = await studio.get();
+      const s = await sessionOrThrow(id);
+      const classType = await classTypeOrThrow(s.classTypeId);
+      const bundles = await bundlesFor('all');
+      const candidates = [...bundles.keys()].filter((p) => !s.pointIds.includes(p));
+      const now = clock.now();
+      const occ = { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) };
+      const c = await checkOccurrence(db, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ, pointIds: candidates, bundles, exclude: [id] });
+      return c.points
+        .filter((p) => p.reasons.every((r) => r.code === 'point_not_in_room'))
+        .map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, roomId: bundles.get(p.pointId)!.point.roomId, roomName: bundles.get(p.pointId)!.point.roomName, sameRoom: p.reasons.length === 0, warnings: p.warnings }))
+        .sort((a, b) => Number(b.sameRoom) - Number(a.sameRoom) || a.warnings.length - b.warnings.length || a.label.localeCompare(b.label));
+    },
+  };
+}
+export type SessionsService = ReturnType<typeof sessionsService>;

@@ -1,0 +1,84 @@
+import { z } from 'zod';
+import { dateSchema, idSchema, instantSchema } from './common';
+import { apparatusKindSchema } from './vocabulary';
+import { pointStatusSchema, reasonSchema } from './rig';
+
+const ids = z.array(idSchema).min(1, 'Pick at least one point').max(20, 'At most 20 points').refine((a) => new Set(a).size === a.length, 'List each point once');
+const when = z.object({ startsAt: instantSchema, endsAt: instantSchema });
+const ordered = <T extends { startsAt?: string; endsAt?: string }>(v: T, ctx: z.RefinementCtx) => {
+  if (v.startsAt && v.endsAt) {
+    const ms = new Date(v.endsAt).getTime() - new Date(v.startsAt).getTime();
+    if (ms <= 0) ctx.addIssue({ code: 'custom', path: ['endsAt'], message: 'The class must end after it starts' });
+    else if (ms > 8 * 3600_000) ctx.addIssue({ code: 'custom', path: ['endsAt'], message: 'A class lasts at most 8 hours' });
+  }
+};
+
+export const createSessionSchema = when
+  .extend({
+    classTypeId: idSchema,
+    instructorId: idSchema,
+    roomId: idSchema,
+    pointIds: ids,
+    /** RFC 5545 RRULE without DTSTART, e.g. FREQ=WEEKLY;BYDAY=TU;COUNT=10. */
+    rrule: z.string().trim().min(6).max(300).optional(),
+    /** Studio days (YYYY-MM-DD) of the series to leave out. */
+    skipDays: z.array(dateSchema).max(100).optional(),
+    /** For a series some of whose occurrences cannot be booked: book the rest. */
+    bookAvailable: z.boolean().optional(),
+  })
+  .superRefine(ordered);
+export type CreateSession = z.infer<typeof createSessionSchema>;
+
+export const sessionListQuery = z.object({
+  from: instantSchema,
+  to: instantSchema,
+  roomId: idSchema.optional(),
+  instructorId: idSchema.optional(),
+});
+export type SessionListQuery = z.infer<typeof sessionListQuery>;
+
+export const scopeSchema = z.enum(['this', 'following']).default('this');
+export const updateSessionSchema = z
+  .object({ startsAt: instantSchema.optional(), endsAt: instantSchema.optional(), instructorId: idSchema.optional(), scope: scopeSchema })
+  .superRefine(ordered)
+  .refine((v) => v.startsAt !== undefined || v.endsAt !== undefined || v.instructorId !== undefined, { message: 'Change the time or the instructor' });
+export type UpdateSession = z.infer<typeof updateSessionSchema>;
+
+export const swapPointsSchema = z.object({ pointIds: ids });
+export const cancelSessionSchema = z.object({ reason: z.string().trim().min(1, 'Say why the class is cancelled').max(500), scope: scopeSchema });
+export type CancelSession = z.infer<typeof cancelSessionSchema>;
+
+export const availabilityQuery = when
+  .extend({ roomId: idSchema, classTypeId: idSchema, instructorId: idSchema.optional(), excludeSessionId: idSchema.optional() })
+  .superRefine(ordered);
+export type AvailabilityQuery = z.infer<typeof availabilityQuery>;
+
+export const pointVerdictSchema = z.object({ pointId: z.number(), label: z.string(), bookable: z.boolean(), reasons: z.array(reasonSchema), warnings: z.array(reasonSchema) });
+export type PointVerdict = z.infer<typeof pointVerdictSchema>;
+
+export const sessionPointSchema = pointStatusSchema.extend({ pointId: z.number(), label: z.string() });
+export const sessionSchema = z.object({
+  id: z.number(),
+  classTypeId: z.number(),
+  className: z.string(),
+  apparatus: apparatusKindSchema,
+  capacity: z.number(),
+  instructorId: z.number(),
+  instructorName: z.string(),
+  roomId: z.number(),
+  roomName: z.string(),
+  startsAt: z.string(),
+  endsAt: z.string(),
+  seriesId: z.number().nullable(),
+  cancelled: z.boolean(),
+  cancelReason: z.string().nullable(),
+  pointIds: z.array(z.number()),
+  points: z.array(sessionPointSchema),
+  atRisk: z.boolean(),
+  riskReasons: z.array(reasonSchema.extend({ pointId: z.number() })),
+  inspectionDue: z.boolean(),
+  /** One place per booked point that is not blocked at the session's time, up to the capacity. */
+  places: z.number(),
+  warnings: z.array(reasonSchema).optional(),
+});
+export type Session = z.infer<typeof sessionSchema>;

@@ -1,0 +1,222 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { APP_URL, as, createTestApp, signIn, type TestContext } from '../helpers/app';
+import { makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
+
+let ctx: TestContext;
+beforeEach(async () => {
+  ctx = await createTestApp({ now: '2026-12-01T10:00:00Z' });
+});
+afterEach(async () => ctx.close());
+
+const codes = (rs: Array<{ code: string }>) => rs.map((r) => r.code);
+
+/** A room with cleared points (cleared yesterday: textile sling → cleared until 30 Dec). */
+async function studioWithPoints(n: number, o: { clearedAt?: string | null } = {}) {
+  const roomId = await makeRoom(ctx.db);
+  const points: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const p = await makePoint(ctx.db, { roomId, clearedAt: o.clearedAt === undefined ? '2026-11-30T10:00:00Z' : o.clearedAt, structuralRatingKn: 30 });
+    const ids = await makeStandardPath(ctx.db, p.id);
+    for (const g of ids) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
+    points.push(p.id);
+  }
+  const [ct] = await ctx.db('class_types').insert({ name: `Silks ${roomId}`, apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');
+  const instructor = await makeUser(ctx.db, { role: 'instructor' });
+  return { roomId, points, classTypeId: (ct as { id: number }).id, instructorId: instructor.id, instructor };
+}
+
+const body = (s: Awaited<ReturnType<typeof studioWithPoints>>, extra: Record<string, unknown> = {}) => ({
+  classTypeId: s.classTypeId,
+  instructorId: s.instructorId,
+  roomId: s.roomId,
+  startsAt: '2026-12-03T18:00:00Z',
+  endsAt: '2026-12-03T19:00:00Z',
+  pointIds: s.points,
+  ...extra,
+});
+
+describe('POST /api/sessions', () => {
+  it('books a class on cleared points: 201 with the session, its points’ status and places', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const res = await desk.post('/api/sessions').send(body(s));
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ id: expect.any(Number), pointIds: s.points, atRisk: false, cancelled: false, places: 2, inspectionDue: false });
+    expect(res.body.points.every((p: { status: string }) => p.status === 'cleared')).toBe(true);
+    expect(res.body.warnings).toEqual([]);
+  });
+
+  it('refuses a lapsed point naming the reason; after the rigger clears it the booking succeeds', async () => {
+    const desk = await as(ctx, 'reception');
+    const rigger = await as(ctx, 'rigger');
+    const s = await studioWithPoints(1, { clearedAt: '2026-10-01T10:00:00Z' });
+    const refused = await desk.post('/api/sessions').send(body(s));
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe('points_unavailable');
+    expect(refused.body.error.details.points[0].pointId).toBe(s.points[0]);
+    expect(codes(refused.body.error.details.points[0].reasons)).toContain('inspection_lapsed');
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 0 }]);
+
+    const list = await rigger.get(`/api/points/${s.points[0]}/checklist`);
+    const cleared = await rigger.post(`/api/points/${s.points[0]}/clearances`).send({ items: list.body.items.map((i: { key: string }) => ({ key: i.key, result: 'pass' })) });
+    expect(cleared.body.cleared).toBe(true);
+    expect((await desk.post('/api/sessions').send(body(s))).status).toBe(201);
+  });
+
+  it('lists every reason that applies, per point and for the session', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    await ctx.db('points').where({ id: s.points[0] }).update({ apparatus_json: JSON.stringify(['hoop']), max_performers: 1 });
+    const [duo] = await ctx.db('class_types').insert({ name: 'Duo silks', apparatus: 'fabric', duration_minutes: 60, capacity: 4, performers_per_point: 2, created_at: new Date().toISOString() }).returning('id');
+    expect((await desk.post('/api/sessions').send(body(s))).status).toBe(409); // hoop only
+    await ctx.db('points').where({ id: s.points[0] }).update({ apparatus_json: JSON.stringify(['fabric']) });
+    expect((await desk.post('/api/sessions').send(body(s))).status).toBe(201);
+    // Same instructor, same time, a duo class on the same point.
+    const res = await desk.post('/api/sessions').send(body(s, { classTypeId: (duo as { id: number }).id }));
+    expect(res.status).toBe(409);
+    const reasons = codes(res.body.error.details.points[0].reasons);
+    expect(reasons).toEqual(expect.arrayContaining(['too_many_performers', 'load_check_failed', 'point_double_booked']));
+    expect(codes(res.body.error.details.reasons)).toEqual(['instructor_double_booked']);
+  });
+
+  it('books a point whose clearance runs out before the session ends, with inspection_due', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    // Cleared until 30 Dec 10:00; a class on 30 Dec 09:30–10:30 runs past it.
+    const res = await desk.post('/api/sessions').send(body(s, { startsAt: '2026-12-30T09:30:00Z', endsAt: '2026-12-30T10:30:00Z' }));
+    expect(res.status).toBe(201);
+    expect(codes(res.body.warnings)).toContain('inspection_due');
+    expect(res.body.inspectionDue).toBe(true);
+  });
+
+  it('lets exactly one of 20 concurrent bookings of the same point and time through; the rest get 409, none 500', async () => {
+    const s = await studioWithPoints(1);
+    const u = await makeUser(ctx.db, { role: 'reception' });
+    const instructors = await Promise.all(Array.from({ length: 20 }, () => makeUser(ctx.db, { role: 'instructor' })));
+    const { agent } = await signIn(ctx.app, u.email);
+    const results = await Promise.all(instructors.map((i) => agent.post('/api/sessions').set('Origin', APP_URL).send(body(s, { instructorId: i.id }))));
+    const statuses = results.map((r) => r.status).sort();
+    expect(statuses.filter((x) => x === 201)).toHaveLength(1);
+    expect(statuses.filter((x) => x === 409)).toHaveLength(19);
+    expect(await ctx.db('session_points').count({ n: '*' })).toEqual([{ n: 1 }]);
+  });
+
+  it('is for reception and the owner only', async () => {
+    const instructor = await as(ctx, 'instructor');
+    const s = await studioWithPoints(1);
+    expect((await instructor.post('/api/sessions').send(body(s))).status).toBe(403);
+  });
+});
+
+describe('recurring series', () => {
+  it('books a weekly series; one that cannot be booked whole says which and why and books nothing', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    // Someone already has the point on 17 Dec.
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, startsAt: '2026-12-17T18:00:00Z', endsAt: '2026-12-17T19:00:00Z' }))).status).toBe(201);
+    const series = body(s, { rrule: 'FREQ=WEEKLY;COUNT=4' });
+    const refused = await desk.post('/api/sessions').send(series);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.details.occurrences.map((o: { startsAt: string }) => o.startsAt)).toEqual(['2026-12-17T18:00:00.000Z']);
+    expect(refused.body.error.details).toMatchObject({ bookable: 3, total: 4 });
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 1 }]);
+    const rest = await desk.post('/api/sessions').send({ ...series, bookAvailable: true });
+    expect(rest.status).toBe(201);
+    expect(rest.body.sessionIds).toHaveLength(3);
+    expect(rest.body.skipped.map((o: { startsAt: string }) => o.startsAt)).toEqual(['2026-12-17T18:00:00.000Z']);
+  });
+
+  it('moves this and the following occurrences together', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const res = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=3' }));
+    const [, second] = res.body.sessionIds;
+    const moved = await desk.patch(`/api/sessions/${second}`).send({ startsAt: '2026-12-10T19:00:00Z', endsAt: '2026-12-10T20:00:00Z', scope: 'following' });
+    expect(moved.status).toBe(200);
+    const starts = await ctx.db('sessions').orderBy('id').pluck('starts_at');
+    expect(starts).toEqual(['2026-12-03T18:00:00.000Z', '2026-12-10T19:00:00.000Z', '2026-12-17T19:00:00.000Z']);
+  });
+
+  it('answers 400 for a rule it cannot read', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const res = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;BYDAY=XX' }));
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.fields.rrule).toBeDefined();
+  });
+});
+
+describe('at risk and alternatives', () => {
+  it('turns a booked session at risk when a fault is reported on its point, and a suggested swap fixes it', async () => {
+    const desk = await as(ctx, 'reception');
+    const instructor = await as(ctx, 'instructor');
+    const s = await studioWithPoints(3);
+    const booked = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]] }));
+    const swivel = (await ctx.db('load_path_links').where({ point_id: s.points[0], position: 3 }).first()).gear_id;
+    await instructor.post('/api/faults').send({ gearId: swivel, severity: 'medium', description: 'Swivel grinds' });
+    const risky = await desk.get(`/api/sessions/${booked.body.id}`);
+    expect(risky.body.atRisk).toBe(true);
+    expect(risky.body.riskReasons[0]).toMatchObject({ pointId: s.points[0], code: 'fault_open' });
+    const alts = await desk.get(`/api/sessions/${booked.body.id}/alternatives`);
+    expect(alts.body.map((a: { pointId: number }) => a.pointId)).toEqual([s.points[1], s.points[2]]);
+    expect(alts.body[0]).toMatchObject({ roomId: s.roomId, label: expect.any(String) });
+    const swapped = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [alts.body[0].pointId] });
+    expect(swapped.status).toBe(200);
+    expect(swapped.body.atRisk).toBe(false);
+  });
+
+  it('suggests points in other rooms after the same room’s', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const elsewhere = await makePoint(ctx.db, { clearedAt: '2026-11-30T10:00:00Z', structuralRatingKn: 30 });
+    for (const g of await makeStandardPath(ctx.db, elsewhere.id)) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
+    const booked = await desk.post('/api/sessions').send(body(s));
+    const alts = await desk.get(`/api/sessions/${booked.body.id}/alternatives`);
+    expect(alts.body).toEqual([expect.objectContaining({ pointId: elsewhere.id, sameRoom: false })]);
+  });
+});
+
+describe('changing and cancelling', () => {
+  it('re-checks a move, and keeps a cancelled session marked with its reason', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const a = await desk.post('/api/sessions').send(body(s));
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    await desk.post('/api/sessions').send(body(s, { instructorId: other.id, startsAt: '2026-12-04T18:00:00Z', endsAt: '2026-12-04T19:00:00Z' }));
+    const clash = await desk.patch(`/api/sessions/${a.body.id}`).send({ startsAt: '2026-12-04T18:30:00Z', endsAt: '2026-12-04T19:30:00Z' });
+    expect(clash.status).toBe(409);
+    expect(codes(clash.body.error.details.points[0].reasons)).toContain('point_double_booked');
+    const cancelled = await desk.post(`/api/sessions/${a.body.id}/cancel`).send({ reason: 'Instructor unwell' });
+    expect(cancelled.body).toMatchObject({ cancelled: true, cancelReason: 'Instructor unwell', places: 0 });
+    // A cancelled session frees its point.
+    expect((await desk.post('/api/sessions').send(body(s))).status).toBe(201);
+  });
+});
+
+describe('GET /api/sessions', () => {
+  it('answers the sessions overlapping the range, and 400 for a backwards range', async () => {
+    const reader = await as(ctx, 'instructor');
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    await desk.post('/api/sessions').send(body(s));
+    const week = await reader.get('/api/sessions?from=2026-11-30T00:00:00Z&to=2026-12-07T00:00:00Z');
+    expect(week.body).toHaveLength(1);
+    const none = await reader.get('/api/sessions?from=2026-12-04T00:00:00Z&to=2026-12-05T00:00:00Z');
+    expect(none.body).toHaveLength(0);
+    expect((await reader.get('/api/sessions?from=2026-12-05T00:00:00Z&to=2026-12-04T00:00:00Z')).status).toBe(400);
+  });
+
+  it('lists each point of the room as bookable or not for an exact time', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    await ctx.db('points').where({ id: s.points[1] }).update({ in_service: false });
+    const res = await desk.get(`/api/sessions/availability?roomId=${s.roomId}&classTypeId=${s.classTypeId}&startsAt=2026-12-03T18:00:00Z&endsAt=2026-12-03T19:00:00Z`);
+    expect(res.status).toBe(200);
+    const byId = Object.fromEntries(res.body.points.map((p: { pointId: number }) => [p.pointId, p]));
+    expect(byId[s.points[0]].bookable).toBe(true);
+    expect(byId[s.points[1]].bookable).toBe(false);
+    expect(codes(byId[s.points[1]].reasons)).toContain('out_of_service');
+  });
+});
+
