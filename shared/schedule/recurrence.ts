@@ -1,4 +1,8 @@
-import { RRule, type Options } from 'rrule';
+import * as rruleModule from 'rrule';
+import type { Options } from 'rrule';
+
+// rrule ships CommonJS to Node (named exports only under `default`) and ES modules to bundlers.
+const { RRule } = ((rruleModule as unknown as { default?: typeof rruleModule }).default ?? rruleModule) as typeof rruleModule;
 import { TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
 

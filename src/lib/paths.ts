@@ -7,8 +7,14 @@ export const paths = {
   point: (id: number | string) => `/rig/points/${id}`,
   gear: '/rig/gear',
   gearItem: (id: number | string) => `/rig/gear/${id}`,
+  labels: '/rig/labels',
   inspections: '/inspections',
   faults: '/faults',
+  /** The fault form; the QR labels' point and gear pages link here. */
+  reportFault: (about: { pointId?: number | string; gearId?: number | string } = {}) =>
+    `/faults/new${about.gearId !== undefined ? `?gearId=${about.gearId}` : about.pointId !== undefined ? `?pointId=${about.pointId}` : ''}`,
+  /** The inspections page with a point's inspection form open. */
+  inspectPoint: (id: number | string) => `/inspections?point=${id}`,
   staff: '/staff',
   settings: '/settings',
   mailbox: '/mailbox',

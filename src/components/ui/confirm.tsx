@@ -7,6 +7,7 @@ export function ConfirmDialog({
   title,
   children,
   confirmLabel,
+  cancelLabel = 'Cancel',
   danger = true,
   busy,
   onConfirm,
@@ -16,6 +17,7 @@ export function ConfirmDialog({
   title: string;
   children?: ReactNode;
   confirmLabel: string;
+  cancelLabel?: string;
   danger?: boolean;
   busy?: boolean;
   onConfirm: () => void;
@@ -34,7 +36,7 @@ export function ConfirmDialog({
         <h2 id="confirm-title" className="text-lg font-semibold">{title}</h2>
         {children ? <div className="text-sm text-muted">{children}</div> : null}
         <div className="flex justify-end gap-2">
-          <Button variant="secondary" onClick={onCancel}>Cancel</Button>
+          <Button variant="secondary" onClick={onCancel}>{cancelLabel}</Button>
           <Button variant={danger ? 'danger' : 'primary'} busy={busy} onClick={onConfirm}>{confirmLabel}</Button>
         </div>
       </div>

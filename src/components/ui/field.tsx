@@ -1,4 +1,4 @@
-import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from 'react';
+import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 
 interface FieldShell {
   label: string;
@@ -66,3 +66,50 @@ export const SelectField = forwardRef<HTMLSelectElement, SelectHTMLAttributes<HT
     </Shell>
   );
 });
+
+export const TextAreaField = forwardRef<HTMLTextAreaElement, TextareaHTMLAttributes<HTMLTextAreaElement> & FieldShell>(function TextAreaField(
+  { label, error, hint, id, className = '', rows = 3, ...rest },
+  ref,
+) {
+  const auto = useId();
+  const fid = id ?? auto;
+  return (
+    <Shell id={fid} label={label} error={error} hint={hint}>
+      <textarea
+        ref={ref}
+        id={fid}
+        rows={rows}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={error ? `${fid}-error` : hint ? `${fid}-hint` : undefined}
+        className={`${control} border-line ${className}`}
+        {...rest}
+      />
+    </Shell>
+  );
+});
+
+/** A checkbox with its label beside it; the whole row is the touch target. */
+export const CheckboxField = forwardRef<HTMLInputElement, Omit<InputHTMLAttributes<HTMLInputElement>, 'type'> & { label: ReactNode; hint?: ReactNode; error?: string }>(
+  function CheckboxField({ label, hint, error, id, className = '', ...rest }, ref) {
+    const auto = useId();
+    const fid = id ?? auto;
+    return (
+      <div className={className}>
+        <label htmlFor={fid} className="flex min-h-11 cursor-pointer items-center gap-3 rounded-lg px-1 text-sm text-ink">
+          <input
+            ref={ref}
+            id={fid}
+            type="checkbox"
+            aria-invalid={error ? true : undefined}
+            aria-describedby={error ? `${fid}-error` : hint ? `${fid}-hint` : undefined}
+            className="size-5 shrink-0 accent-pine-700"
+            {...rest}
+          />
+          <span>{label}</span>
+        </label>
+        {hint && !error ? <p id={`${fid}-hint`} className="pl-9 text-xs text-muted">{hint}</p> : null}
+        {error ? <p id={`${fid}-error`} role="alert" className="pl-9 text-sm text-stop-700">{error}</p> : null}
+      </div>
+    );
+  },
+);

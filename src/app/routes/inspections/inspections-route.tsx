@@ -1,10 +1,10 @@
-import { ComingLater, PageHeader } from '../../../components/ui/states';
+import { InspectionsPage } from '../../../features/inspections/inspections-page';
+import { RoleGate } from '../../role-gate';
 
 export default function InspectionsRoute() {
   return (
-    <>
-      <PageHeader title="Inspections">Periodic and after-incident inspections, clearances and the inspection log.</PageHeader>
-      <ComingLater what="Inspections" />
-    </>
+    <RoleGate roles={['owner', 'rigger']}>
+      <InspectionsPage />
+    </RoleGate>
   );
 }

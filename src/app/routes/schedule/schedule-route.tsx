@@ -1,10 +1,8 @@
-import { ComingLater, PageHeader } from '../../../components/ui/states';
+import { useSignedIn } from '../../use-me';
+import { SchedulePage } from '../../../features/schedule/schedule-page';
 
+// Loaded lazily by the router: FullCalendar (in the schedule feature) stays out of the first bundle.
 export default function ScheduleRoute() {
-  return (
-    <>
-      <PageHeader title="Schedule">Classes booked onto specific rigging points.</PageHeader>
-      <ComingLater what="The schedule">It arrives with booking: the calendar refuses any point that is blocked for the class.</ComingLater>
-    </>
-  );
+  const me = useSignedIn();
+  return <SchedulePage me={me} />;
 }

@@ -1,10 +1,5 @@
-import { ComingLater, PageHeader } from '../../../components/ui/states';
+import { TodayPage } from '../../../features/today/today-page';
 
 export default function TodayRoute() {
-  return (
-    <>
-      <PageHeader title="Today">Your classes today and the status of each point.</PageHeader>
-      <ComingLater what="The Today board">It arrives with inspections and faults: each booked point’s status in large type, the pre-use check and fault reports.</ComingLater>
-    </>
-  );
+  return <TodayPage />;
 }

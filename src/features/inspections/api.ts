@@ -1,0 +1,88 @@
+import { queryOptions, useMutation } from '@tanstack/react-query';
+import { TZDate } from '@date-fns/tz';
+import { z } from 'zod';
+import { api } from '../../lib/api-client';
+import { gearSchema, pointSchema } from '../../../shared/schemas/rig';
+import {
+  checklistSchema,
+  clearanceResultSchema,
+  inspectionSchema,
+  type ClearanceBody,
+  type GearInspectionBody,
+  type InspectionLogQuery,
+} from '../../../shared/schemas/safety';
+import { useInvalidateSafety } from '../today/api';
+
+export type InspectionKind = NonNullable<InspectionLogQuery['kind']>;
+
+/** The log's filters as a person types them: calendar days in the studio's zone, not instants. */
+export interface LogFilters {
+  from?: string;
+  to?: string;
+  kind?: InspectionKind;
+  pointId?: number;
+  gearId?: number;
+}
+
+/** Midnight at the start of a 'YYYY-MM-DD' day in the studio's zone, as an instant; `after` moves to the next midnight. */
+function studioMidnight(day: string, timeZone: string, after = false): string | undefined {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(day);
+  if (!m) return undefined;
+  return new Date(new TZDate(Number(m[1]), Number(m[2]) - 1, Number(m[3]) + (after ? 1 : 0), timeZone).getTime()).toISOString();
+}
+
+/** The query string the log and its CSV export share: `to` includes the whole of its day. */
+export function logSearch(f: LogFilters, timeZone: string): string {
+  const q: InspectionLogQuery = {
+    from: f.from ? studioMidnight(f.from, timeZone) : undefined,
+    to: f.to ? studioMidnight(f.to, timeZone, true) : undefined,
+    kind: f.kind,
+    pointId: f.pointId,
+    gearId: f.gearId,
+  };
+  const s = new URLSearchParams();
+  for (const [k, v] of Object.entries(q)) if (v !== undefined && v !== '') s.set(k, String(v));
+  const text = s.toString();
+  return text ? `?${text}` : '';
+}
+
+export const inspectionQueries = {
+  all: ['inspections'] as const,
+  log: (f: LogFilters, timeZone: string) => {
+    const search = logSearch(f, timeZone);
+    return queryOptions({ queryKey: [...inspectionQueries.all, 'log', search], queryFn: () => api(`/inspections${search}`, { schema: z.array(inspectionSchema) }) });
+  },
+  checklist: (pointId: number) => queryOptions({ queryKey: [...inspectionQueries.all, 'checklist', pointId], queryFn: () => api(`/points/${pointId}/checklist`, { schema: checklistSchema }) }),
+  points: () => queryOptions({ queryKey: [...inspectionQueries.all, 'points'], queryFn: () => api('/points', { schema: z.array(pointSchema) }) }),
+  /** Gear a rigger should look at on its own: quarantined, or its own inspection due within `days`. */
+  gearDue: (days: number) =>
+    queryOptions({
+      queryKey: [...inspectionQueries.all, 'gear-due', days],
+      queryFn: async () => {
+        const [quarantined, due] = await Promise.all([
+          api('/gear?status=quarantined', { schema: z.array(gearSchema) }),
+          api(`/gear?status=in_service&inspectionDueDays=${days}`, { schema: z.array(gearSchema) }),
+        ]);
+        const seen = new Set<number>();
+        return [...quarantined, ...due].filter((g) => !seen.has(g.id) && seen.add(g.id));
+      },
+    }),
+};
+
+export const exportCsvHref = (f: LogFilters, timeZone: string) => `/api/inspections/export.csv${logSearch(f, timeZone)}`;
+
+export function useClearance(pointId: number) {
+  const invalidate = useInvalidateSafety();
+  return useMutation({
+    mutationFn: (body: ClearanceBody) => api(`/points/${pointId}/clearances`, { method: 'POST', body, schema: clearanceResultSchema }),
+    onSuccess: () => void invalidate(),
+  });
+}
+
+export function useGearInspection(gearId: number) {
+  const invalidate = useInvalidateSafety();
+  return useMutation({
+    mutationFn: (body: GearInspectionBody) => api(`/gear/${gearId}/inspections`, { method: 'POST', body, schema: z.object({ id: z.number() }) }),
+    onSuccess: () => void invalidate(),
+  });
+}

@@ -1,0 +1,145 @@
+import { useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { toast } from 'sonner';
+import { gearKindLabels } from '../../../../shared/rigging';
+import { createGearSchema, updateGearSchema, type CreateGear, type Gear, type UpdateGear } from '../../../../shared/schemas/rig';
+import { gates, gearKinds, materials, type ForceUnit, type Gate, type GearKind, type Material } from '../../../../shared/schemas/vocabulary';
+import { Button } from '../../../components/ui/button';
+import { CheckboxField, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
+import { Card } from '../../../components/ui/states';
+import { errorMessage } from '../../../lib/api-client';
+import { useRigMutations } from '../api';
+import { gateLabels, materialLabels } from '../format';
+import { applyServerErrors, numberOrNull, preparedResolver, textOrNull } from '../form-helpers';
+import { ForceField, ForceUnitToggle, typedToKn } from './force-field';
+
+// Names match the schema's so its messages land next to the right field; figures stay as typed.
+interface GearFormValues {
+  kind: GearKind;
+  material: Material;
+  gate: Gate;
+  majorKn: string;
+  minorKn: string;
+  gateOpenKn: string;
+  wllKn: string;
+  multiDirectional: boolean;
+  serial: string;
+  maker: string;
+  model: string;
+  manufacturedOn: string;
+  inServiceOn: string;
+  serviceLifeYears: string;
+  notes: string;
+}
+type RatingName = 'majorKn' | 'minorKn' | 'gateOpenKn' | 'wllKn';
+
+function prepare(v: GearFormValues, unit: ForceUnit) {
+  return {
+    kind: v.kind,
+    material: v.material,
+    gate: v.gate,
+    majorKn: typedToKn(v.majorKn, unit) ?? undefined,
+    minorKn: typedToKn(v.minorKn, unit),
+    gateOpenKn: typedToKn(v.gateOpenKn, unit),
+    wllKn: typedToKn(v.wllKn, unit),
+    multiDirectional: v.multiDirectional,
+    serial: v.serial,
+    maker: textOrNull(v.maker),
+    model: textOrNull(v.model),
+    manufacturedOn: textOrNull(v.manufacturedOn),
+    inServiceOn: textOrNull(v.inServiceOn),
+    serviceLifeYears: numberOrNull(v.serviceLifeYears),
+    notes: textOrNull(v.notes),
+  };
+}
+
+// Edits start in kN with the stored figure exactly, so saving an untouched rating never changes it.
+const typed = (kn: number | null | undefined) => (kn == null ? '' : String(kn));
+const RATINGS: RatingName[] = ['majorKn', 'minorKn', 'gateOpenKn', 'wllKn'];
+
+/** Adds a gear item (`gear` absent) or edits one. Ratings are typed from the marking, in kN, lbf or kgf, and stored in kN. */
+export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { id: number; serial: string }) => void }) {
+  const { createGear, updateGear } = useRigMutations();
+  const [unit, setUnit] = useState<ForceUnit>('kN');
+  const unitRef = useRef(unit);
+  unitRef.current = unit;
+  const editing = gear !== undefined;
+  const form = useForm<GearFormValues, unknown, CreateGear | UpdateGear>({
+    resolver: preparedResolver<GearFormValues, CreateGear | UpdateGear>(editing ? updateGearSchema : createGearSchema, (v) => prepare(v, unitRef.current)),
+    defaultValues: {
+      kind: gear?.kind ?? 'carabiner',
+      material: gear?.material ?? 'steel',
+      gate: gear?.gate ?? 'screw',
+      majorKn: typed(gear?.majorKn),
+      minorKn: typed(gear?.minorKn),
+      gateOpenKn: typed(gear?.gateOpenKn),
+      wllKn: typed(gear?.wllKn),
+      multiDirectional: gear?.multiDirectional ?? false,
+      serial: gear?.serial ?? '',
+      maker: gear?.maker ?? '',
+      model: gear?.model ?? '',
+      manufacturedOn: gear?.manufacturedOn ?? '',
+      inServiceOn: gear?.inServiceOn ?? '',
+      serviceLifeYears: gear?.serviceLifeYears == null ? '' : String(gear.serviceLifeYears),
+      notes: gear?.notes ?? '',
+    },
+  });
+  const e = form.formState.errors;
+  const onError = (err: unknown) => { applyServerErrors(form.setError, err); toast.error(errorMessage(err)); };
+  const submit = form.handleSubmit((body) => {
+    if (editing) {
+      // Send only the ratings the rigger touched: a rating change voids the clearance of the point holding the item.
+      const dirty = form.formState.dirtyFields;
+      const patch: UpdateGear = { ...body };
+      for (const r of RATINGS) if (!dirty[r] && unit === 'kN') delete patch[r];
+      updateGear.mutate({ id: gear.id, ...patch }, { onSuccess: () => { toast.success(`${gear.serial} saved.`); onDone(); }, onError });
+    } else createGear.mutate(body as CreateGear, { onSuccess: (g) => { toast.success(`${g.serial} added. It needs an inspection before use.`); onDone(g); }, onError });
+  });
+  const rating = (name: RatingName, label: string, optionalHint?: string) => (
+    <ForceField label={label} unit={unit} typed={form.watch(name)} optionalHint={optionalHint} error={e[name]?.message} {...form.register(name)} />
+  );
+  const title = editing ? `Edit ${gear.serial}` : 'Add a gear item';
+  return (
+    <Card className="mb-6">
+      <h2 className="mb-4 font-semibold">{title}</h2>
+      <form onSubmit={submit} noValidate className="space-y-5" aria-label={title}>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <SelectField label="Kind" error={e.kind?.message} {...form.register('kind')}>
+            {gearKinds.map((k) => <option key={k} value={k}>{gearKindLabels[k]}</option>)}
+          </SelectField>
+          <SelectField label="Material" error={e.material?.message} {...form.register('material')}>
+            {materials.map((m) => <option key={m} value={m}>{materialLabels[m]}</option>)}
+          </SelectField>
+          <SelectField label="Gate" error={e.gate?.message} {...form.register('gate')}>
+            {gates.map((g) => <option key={g} value={g}>{gateLabels[g]}</option>)}
+          </SelectField>
+          <TextField label="Serial or lot number" autoComplete="off" error={e.serial?.message} {...form.register('serial')} />
+          <TextField label="Maker (optional)" autoComplete="off" error={e.maker?.message} {...form.register('maker')} />
+          <TextField label="Model (optional)" autoComplete="off" error={e.model?.message} {...form.register('model')} />
+        </div>
+        <fieldset className="space-y-3">
+          <legend className="font-medium">Ratings, as marked on the item</legend>
+          <ForceUnitToggle unit={unit} onChange={setUnit} />
+          <div className="grid gap-4 sm:grid-cols-2">
+            {rating('majorKn', 'Breaking strength, major axis')}
+            {rating('minorKn', 'Minor axis (optional)', 'Left empty, a cross-loaded link counts at 30 % of the major rating.')}
+            {rating('gateOpenKn', 'Gate open (optional)', 'Left empty, a link loaded gate open fails the check.')}
+            {rating('wllKn', 'Working load limit (optional)', 'Only where the maker rates the item this way.')}
+          </div>
+          <CheckboxField label="Rated multi-directional (may take a three-way load)" {...form.register('multiDirectional')} />
+          {editing && gear.pointId ? <p className="text-sm text-muted">This item is in the load path of point {gear.pointLabel}. Changing its ratings voids that point’s clearance unless it is the mounted apparatus.</p> : null}
+        </fieldset>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <TextField label="Manufactured on (optional)" type="date" error={e.manufacturedOn?.message} {...form.register('manufacturedOn')} />
+          <TextField label="In service since (optional)" type="date" error={e.inServiceOn?.message} {...form.register('inServiceOn')} />
+          <TextField label="Service life in years (optional)" inputMode="decimal" hint="From the maker; counted from manufacture, else from first use." error={e.serviceLifeYears?.message} {...form.register('serviceLifeYears')} />
+        </div>
+        <TextAreaField label="Notes (optional)" error={e.notes?.message} {...form.register('notes')} />
+        <div className="flex gap-2">
+          <Button type="submit" busy={createGear.isPending || updateGear.isPending}>{editing ? 'Save item' : 'Add item'}</Button>
+          <Button type="button" variant="secondary" onClick={() => onDone()}>Cancel</Button>
+        </div>
+      </form>
+    </Card>
+  );
+}

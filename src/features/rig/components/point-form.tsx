@@ -1,0 +1,121 @@
+import { useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { toast } from 'sonner';
+import { createPointSchema, updatePointSchema, type CreatePoint, type Point, type Room, type UpdatePoint } from '../../../../shared/schemas/rig';
+import { apparatusKinds, structures, type ApparatusKind, type ForceUnit, type Structure } from '../../../../shared/schemas/vocabulary';
+import { Button } from '../../../components/ui/button';
+import { CheckboxField, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
+import { Card } from '../../../components/ui/states';
+import { errorMessage } from '../../../lib/api-client';
+import { useRigMutations } from '../api';
+import { apparatusLabel, structureLabels } from '../format';
+import { applyServerErrors, numberOrNull, preparedResolver } from '../form-helpers';
+import { ForceField, ForceUnitToggle, typedToKn } from './force-field';
+
+// Field names match the schema's, so its messages (and the server's) land next to the right field.
+interface PointFormValues {
+  roomId: string;
+  label: string;
+  structure: Structure;
+  structuralRatingKn: string;
+  apparatus: ApparatusKind[];
+  maxPerformers: string;
+  inService: boolean;
+  notes: string;
+}
+
+function prepare(v: PointFormValues, unit: ForceUnit) {
+  return {
+    roomId: numberOrNull(v.roomId) ?? undefined,
+    label: v.label,
+    structure: v.structure,
+    structuralRatingKn: typedToKn(v.structuralRatingKn, unit) ?? undefined,
+    apparatus: Array.isArray(v.apparatus) ? v.apparatus : v.apparatus ? [v.apparatus] : [],
+    maxPerformers: numberOrNull(v.maxPerformers) ?? undefined,
+    inService: v.inService,
+    notes: v.notes,
+  };
+}
+
+/** Adds a point (`point` absent) or edits one. The structural rating is the engineer's allowable load for the point. */
+export function PointForm({ rooms, roomId, point, onDone }: { rooms: Room[]; roomId?: number; point?: Point; onDone: () => void }) {
+  const { createPoint, updatePoint } = useRigMutations();
+  const [unit, setUnit] = useState<ForceUnit>('kN');
+  const unitRef = useRef(unit);
+  unitRef.current = unit;
+  const editing = point !== undefined;
+  const form = useForm<PointFormValues, unknown, CreatePoint | UpdatePoint>({
+    resolver: preparedResolver<PointFormValues, CreatePoint | UpdatePoint>(editing ? updatePointSchema : createPointSchema, (v) => prepare(v, unitRef.current)),
+    defaultValues: {
+      roomId: String(point?.roomId ?? roomId ?? rooms[0]?.id ?? ''),
+      label: point?.label ?? '',
+      structure: point?.structure ?? 'beam',
+      // The stored figure exactly, in kN, so an untouched rating saves unchanged (a change voids the clearance).
+      structuralRatingKn: point ? String(point.structuralRatingKn) : '',
+      apparatus: point?.apparatus ?? [],
+      maxPerformers: String(point?.maxPerformers ?? 1),
+      inService: point?.inService ?? true,
+      notes: point?.notes ?? '',
+    },
+  });
+  const e = form.formState.errors;
+  const busy = createPoint.isPending || updatePoint.isPending;
+  const onError = (err: unknown) => {
+    applyServerErrors(form.setError, err);
+    toast.error(errorMessage(err));
+  };
+  const submit = form.handleSubmit((body) => {
+    if (editing) {
+      const patch: UpdatePoint = { ...body };
+      if (!form.formState.dirtyFields.structuralRatingKn && unit === 'kN') delete patch.structuralRatingKn;
+      updatePoint.mutate({ id: point.id, ...patch }, { onSuccess: () => { toast.success(`Point ${point.label} saved.`); onDone(); }, onError });
+    } else {
+      createPoint.mutate(body as CreatePoint, { onSuccess: (p) => { toast.success(`Point ${p.label} added. Give it a load path next.`); onDone(); }, onError });
+    }
+  });
+  const title = editing ? `Edit point ${point.label}` : 'Add a point';
+  return (
+    <Card className="mb-6">
+      <h2 className="mb-4 font-semibold">{title}</h2>
+      <form onSubmit={submit} noValidate className="grid gap-4 sm:grid-cols-2" aria-label={title}>
+        <SelectField label="Room" error={e.roomId?.message} {...form.register('roomId')}>
+          {rooms.map((r) => <option key={r.id} value={r.id}>{r.name}</option>)}
+        </SelectField>
+        <TextField label="Label" hint="As written on the point, e.g. B-2" autoComplete="off" error={e.label?.message} {...form.register('label')} />
+        <SelectField label="Structure" error={e.structure?.message} {...form.register('structure')}>
+          {structures.map((s) => <option key={s} value={s}>{structureLabels[s]}</option>)}
+        </SelectField>
+        <TextField label="Most performers at once" type="number" inputMode="numeric" min={1} max={10} error={e.maxPerformers?.message} {...form.register('maxPerformers')} />
+        <div className="space-y-3 sm:col-span-2">
+          <ForceUnitToggle unit={unit} onChange={setUnit} />
+          <ForceField
+            label="Structural rating"
+            unit={unit}
+            typed={form.watch('structuralRatingKn')}
+            optionalHint="The allowable load from the engineer’s assessment of the point — a working figure, not a breaking strength."
+            error={e.structuralRatingKn?.message}
+            {...form.register('structuralRatingKn')}
+          />
+          {editing ? <p className="text-sm text-muted">Changing the structural rating voids the point’s clearance until a rigger re-inspects it.</p> : null}
+        </div>
+        <fieldset className="sm:col-span-2" aria-describedby={e.apparatus ? 'apparatus-error' : undefined}>
+          <legend className="text-sm font-medium">Apparatus allowed on this point</legend>
+          <div className="mt-1 grid grid-cols-2 gap-x-4 sm:grid-cols-3">
+            {apparatusKinds.map((k) => <CheckboxField key={k} label={apparatusLabel(k)} value={k} {...form.register('apparatus')} />)}
+          </div>
+          {e.apparatus ? <p id="apparatus-error" role="alert" className="text-sm text-stop-700">{e.apparatus.message}</p> : null}
+        </fieldset>
+        {editing ? (
+          <CheckboxField className="sm:col-span-2" label="In service" hint="Out of service blocks the point, whatever its clearance." {...form.register('inService')} />
+        ) : null}
+        <div className="sm:col-span-2">
+          <TextAreaField label="Notes (optional)" error={e.notes?.message} {...form.register('notes')} />
+        </div>
+        <div className="flex gap-2 sm:col-span-2">
+          <Button type="submit" busy={busy}>{editing ? 'Save point' : 'Add point'}</Button>
+          <Button type="button" variant="secondary" onClick={onDone}>Cancel</Button>
+        </div>
+      </form>
+    </Card>
+  );
+}

@@ -1,0 +1,110 @@
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import { useQuery } from '@tanstack/react-query';
+import { Pencil, Printer, TriangleAlert } from 'lucide-react';
+import { describeGear, formatForce } from '../../../shared/rigging';
+import { isApparatusKind } from '../../../shared/schemas/vocabulary';
+import { Button } from '../../components/ui/button';
+import { Caution } from '../../components/ui/caution';
+import { Card, ErrorState, Loading, PageHeader } from '../../components/ui/states';
+import { ApiError } from '../../lib/api-client';
+import { paths } from '../../lib/paths';
+import { rigQueries, type GearDetail } from './api';
+import { useRigAccess } from './access';
+import { gateLabels, materialLabels, type StudioFormat } from './format';
+import { useStudioFormat } from './use-studio-format';
+import { BackLink } from './components/back-link';
+import { DocumentsPanel } from './components/documents-panel';
+import { GearActions } from './components/gear-actions';
+import { GearEvents } from './components/gear-events';
+import { GearForm } from './components/gear-form';
+import { GearStatusBadge } from './components/gear-status-badge';
+
+export function GearPage({ id }: { id: number }) {
+  const gear = useQuery(rigQueries.gearItem(id));
+  const { studio, fmt } = useStudioFormat();
+  const failed = gear.error ?? studio.error;
+  if (failed) {
+    const missing = failed instanceof ApiError && failed.status === 404;
+    return (
+      <div className="max-w-5xl space-y-4">
+        <BackLink to={paths.gear}>Gear</BackLink>
+        <ErrorState error={missing ? new Error('There is no gear item with this number. Go back to the gear list.') : failed} retry={missing ? undefined : () => { void gear.refetch(); void studio.refetch(); }} />
+      </div>
+    );
+  }
+  if (!gear.data || !fmt) return <Loading label="Loading the gear item…" />;
+  return <GearView gear={gear.data} fmt={fmt} />;
+}
+
+function GearView({ gear, fmt }: { gear: GearDetail; fmt: StudioFormat }) {
+  const { canEdit, isRigger } = useRigAccess();
+  const [editing, setEditing] = useState(false);
+  const kn = (v: number | null) => (v === null ? 'Not rated' : fmt.unit === 'kN' ? fmt.force(v) : `${fmt.force(v)} (${formatForce(v, 'kN', 2)})`);
+  return (
+    <div className="max-w-5xl space-y-6">
+      <BackLink to={paths.gear}>Gear</BackLink>
+      <PageHeader
+        title={describeGear(gear)}
+        actions={
+          <>
+            <Link to={paths.reportFault({ gearId: gear.id })} className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50"><TriangleAlert className="size-4" aria-hidden /> Report a fault</Link>
+            <Link to={`${paths.labels}?gear=${gear.id}`} className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50"><Printer className="size-4" aria-hidden /> Print its label</Link>
+            {canEdit && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}><Pencil className="size-4" aria-hidden /> Edit item</Button> : null}
+          </>
+        }
+      >
+        {[gear.maker, gear.model].filter(Boolean).join(' ') || 'Maker and model not entered'}
+      </PageHeader>
+
+      <Card className="space-y-3">
+        <div className="flex flex-wrap items-center gap-3">
+          <GearStatusBadge status={gear.status} />
+          {gear.statusReason ? <span className="text-sm">{gear.statusReason}</span> : null}
+        </div>
+        <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-2">
+          <Detail term={isApparatusKind(gear.kind) ? 'Own inspection valid until' : 'Inspected until'} value={fmt.when(gear.inspectedUntil, 'Not yet inspected — it needs an inspection before use')} />
+          <Detail term="Service life ends" value={fmt.day(gear.serviceLifeEndsOn, 'No service life entered')} />
+          <div>
+            <dt className="text-muted">Mounted on</dt>
+            <dd>{gear.pointId ? <Link to={paths.point(gear.pointId)} className="inline-flex min-h-11 items-center text-pine-700 underline underline-offset-2">Point {gear.pointLabel ?? gear.pointId}</Link> : 'Spare — not in any load path'}</dd>
+          </div>
+        </dl>
+        <Caution />
+      </Card>
+
+      {editing ? <GearForm gear={gear} onDone={() => setEditing(false)} /> : (
+        <Card>
+          <h2 className="mb-3 font-semibold">Ratings and details</h2>
+          <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-2">
+            <Detail term="Breaking strength, major axis" value={kn(gear.majorKn)} />
+            <Detail term="Minor axis" value={gear.minorKn === null ? 'Not rated — counted at 30 % of the major axis' : kn(gear.minorKn)} />
+            <Detail term="Gate open" value={gear.gateOpenKn === null ? 'Not rated — a gate-open link fails the check' : kn(gear.gateOpenKn)} />
+            <Detail term="Working load limit" value={kn(gear.wllKn)} />
+            <Detail term="Multi-directional" value={gear.multiDirectional ? 'Yes, rated for three-way loading' : 'No'} />
+            <Detail term="Material and gate" value={`${materialLabels[gear.material]} · ${gateLabels[gear.gate]}`} />
+            <Detail term="Serial or lot" value={gear.serial} />
+            <Detail term="Manufactured" value={fmt.day(gear.manufacturedOn, 'Not entered')} />
+            <Detail term="In service since" value={fmt.day(gear.inServiceOn, 'Not entered')} />
+            <Detail term="Service life" value={gear.serviceLifeYears === null ? 'Not entered' : `${gear.serviceLifeYears} years`} />
+            {gear.notes ? <Detail term="Notes" value={gear.notes} /> : null}
+          </dl>
+          <Caution className="mt-3" />
+        </Card>
+      )}
+
+      {isRigger ? <GearActions gear={gear} /> : null}
+      <GearEvents events={gear.events} fmt={fmt} />
+      <DocumentsPanel owner={{ type: 'gear', id: gear.id }} defaultKind="certificate" fmt={fmt} canUpload={canEdit} />
+    </div>
+  );
+}
+
+function Detail({ term, value }: { term: string; value: string }) {
+  return (
+    <div>
+      <dt className="text-muted">{term}</dt>
+      <dd className="whitespace-pre-line">{value}</dd>
+    </div>
+  );
+}

@@ -1,0 +1,178 @@
+import { useCallback, useMemo, useRef, useState } from 'react';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
+import { toast } from 'sonner';
+import { CalendarPlus, X } from 'lucide-react';
+import type { Me } from '../../../shared/schemas/staff';
+import { studioQueries } from '../settings/api';
+import { Button } from '../../components/ui/button';
+import { ErrorState, Loading, PageHeader } from '../../components/ui/states';
+import { errorMessage } from '../../lib/api-client';
+import { conflictOf, scheduleQueries, useScheduleMutations, type CreatedSessions, type Session } from './api';
+import { stateOf } from './session-state';
+import { whenShort, zoneAbbrev } from './format';
+import { toFloating, wallParts } from './zone';
+import { useInstructors, useRooms } from './use-schedule-lists';
+import ScheduleCalendar, { type MoveRequest, type SlotRequest, type VisibleRange } from './components/schedule-calendar';
+import { ScheduleFilters, type ScheduleFilter } from './components/schedule-filters';
+import { ScheduleLegend } from './components/schedule-legend';
+import { AgendaList } from './components/agenda-list';
+import { AtRiskSummary } from './components/at-risk-summary';
+import { BookingDialog, type BookingPrefill } from './components/booking-dialog';
+import { SessionDrawer } from './components/session-drawer';
+import { MoveScopeDialog } from './components/move-scope-dialog';
+import { conflictLines, ConflictView } from './components/conflict-view';
+import { MAIL_NOTE, type Scope } from './components/scope-choice';
+
+const DESK = new Set(['reception', 'owner']);
+
+export function SchedulePage({ me }: { me: Me }) {
+  const studio = useQuery(studioQueries.detail());
+  if (studio.isPending) return <Loading label="Loading the schedule…" />;
+  if (studio.isError) return <ErrorState error={studio.error} retry={() => studio.refetch()} />;
+  return <ScheduleBoard me={me} timeZone={studio.data.policy.timeZone} />;
+}
+
+function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
+  const canEdit = DESK.has(me.role);
+  const qc = useQueryClient();
+  const { update } = useScheduleMutations();
+  const rooms = useRooms();
+  const staffInstructors = useInstructors(canEdit);
+  const [filter, setFilter] = useState<ScheduleFilter>({});
+  const [range, setRange] = useState<VisibleRange | null>(null);
+  const [calendarBusy, setCalendarBusy] = useState(false);
+  const [calendarError, setCalendarError] = useState<unknown>(null);
+  const [openId, setOpenId] = useState<number | null>(null);
+  const [booking, setBooking] = useState<BookingPrefill | null>(null);
+  const [pendingMove, setPendingMove] = useState<MoveRequest | null>(null);
+  const [notice, setNotice] = useState<{ title: string; lines: string[] } | null>(null);
+  const [focus, setFocus] = useState<string | null>(null);
+
+  const matches = useCallback((s: Session) => !filter.state || stateOf(s) === filter.state, [filter.state]);
+  const { roomId, instructorId } = filter;
+  // The calendar and the agenda read the same query keys, so one request serves both.
+  const fetchSessions = useCallback(
+    (r: { from: string; to: string }) =>
+      qc.fetchQuery(scheduleQueries.range({ ...r, roomId, instructorId })).then(
+        (list) => {
+          setCalendarError(null);
+          return list.filter(matches);
+        },
+      ),
+    [qc, roomId, instructorId, matches],
+  );
+  const visible = useQuery({ ...scheduleQueries.range({ from: range?.from ?? '', to: range?.to ?? '', roomId, instructorId }), enabled: range !== null });
+  const shown = visible.data?.filter(matches);
+
+  // Instructors for the filter: the staff list for the desk; for others, those seen on the schedule.
+  const seen = useRef(new Map<number, string>());
+  for (const s of visible.data ?? []) seen.current.set(s.instructorId, s.instructorName);
+  const instructorOptions = canEdit
+    ? (staffInstructors.data ?? [])
+    : [...seen.current.entries()].map(([id, name]) => ({ id, name })).sort((a, b) => a.name.localeCompare(b.name));
+
+  const hours = useMemo(() => {
+    let min = 8;
+    let max = 21;
+    for (const s of visible.data ?? []) {
+      const a = toFloating(s.startsAt, timeZone);
+      const b = toFloating(s.endsAt, timeZone);
+      min = Math.min(min, a.getUTCHours());
+      max = Math.max(max, b.getUTCDate() !== a.getUTCDate() ? 24 : b.getUTCHours() + (b.getUTCMinutes() ? 1 : 0));
+    }
+    return { min, max: Math.min(24, max) };
+  }, [visible.data, timeZone]);
+
+  const move = (m: MoveRequest, scope: Scope) => {
+    setNotice(null);
+    const before = { startsAt: m.session.startsAt, endsAt: m.session.endsAt };
+    update.mutate(
+      { id: m.session.id, startsAt: m.startsAt, endsAt: m.endsAt, scope },
+      {
+        onSuccess: (s) =>
+          toast.success(`${s.className} now runs ${whenShort(s.startsAt, s.endsAt, timeZone)}${scope === 'following' ? ', and the following classes move with it' : ''}.`, {
+            description: MAIL_NOTE,
+            action: { label: 'Undo', onClick: () => update.mutate({ id: s.id, ...before, scope }, { onError: (err) => toast.error(errorMessage(err)) }) },
+          }),
+        onError: (err) => {
+          m.revert();
+          const c = conflictOf(err);
+          if (c) {
+            const refused = { title: `${m.session.className} was not moved to ${whenShort(m.startsAt, m.endsAt, timeZone)}.`, lines: conflictLines(c, (id) => m.session.points.find((p) => p.pointId === id)?.label) };
+            setNotice(refused);
+            // The notice sits above the calendar, maybe out of view: say it where the eye is too.
+            toast.error(refused.title, { description: refused.lines.join(' · '), duration: 10_000 });
+          } else toast.error(`${m.session.className} was not moved: ${errorMessage(err)}`);
+        },
+      },
+    );
+  };
+
+  const onSlot = (slot: SlotRequest) => {
+    const from = wallParts(slot.startsAt, timeZone);
+    setBooking(slot.allDay ? { date: from.date, start: '18:00' } : { date: from.date, start: from.time, end: wallParts(slot.endsAt, timeZone).time });
+  };
+
+  const onBooked = (created: CreatedSessions) => {
+    setBooking(null);
+    setFocus(created.startsAt);
+    const n = created.sessionIds.length;
+    const warnings = [...new Set(created.warnings.map((w) => w.message))];
+    const skipped = created.skipped.length ? [`${created.skipped.length} ${created.skipped.length === 1 ? 'class was' : 'classes were'} left out as they could not be booked.`] : [];
+    toast.success(`Booked ${created.className}, ${whenShort(created.startsAt, created.endsAt, timeZone)}${n > 1 ? `, and ${n - 1} more` : ''}.`, {
+      description: [...warnings, ...skipped].join(' ') || undefined,
+      duration: warnings.length || skipped.length ? 12_000 : 6_000,
+      action: { label: 'Open', onClick: () => setOpenId(created.id) },
+    });
+  };
+
+  return (
+    <div className="space-y-5">
+      <PageHeader
+        title="Schedule"
+        actions={canEdit ? <Button onClick={() => setBooking({ date: wallParts(new Date(), timeZone).date, start: '18:00' })}><CalendarPlus className="size-4" aria-hidden /> Book a class</Button> : null}
+      >
+        Classes booked onto rigging points. Times are the studio’s: {timeZone} ({zoneAbbrev(new Date().toISOString(), timeZone)}).
+      </PageHeader>
+      <ScheduleFilters value={filter} onChange={setFilter} rooms={rooms.data ?? []} instructors={instructorOptions} />
+      {visible.data ? <AtRiskSummary sessions={visible.data} timeZone={timeZone} onOpen={setOpenId} /> : null}
+      {notice ? (
+        <ConflictView title={notice.title} lines={notice.lines}>
+          <Button variant="secondary" onClick={() => setNotice(null)}><X className="size-4" aria-hidden /> Dismiss</Button>
+        </ConflictView>
+      ) : null}
+      {calendarError ? <ErrorState error={calendarError} retry={() => { setCalendarError(null); void visible.refetch(); }} /> : null}
+      <div className="relative">
+        <a href="#agenda-title" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:-top-2 focus:z-10 focus:rounded focus:bg-white focus:p-2">Skip the calendar to the agenda list</a>
+        <div className="mb-2 flex flex-wrap items-center justify-between gap-2 text-sm text-muted">
+          <p>{canEdit ? 'Drag a class to move it, drag its lower edge to change its length, or select empty time to book. Open a class for its points.' : 'Open a class to see its points and their status.'}</p>
+          <p role="status">{calendarBusy ? 'Loading classes…' : ''}</p>
+        </div>
+        <ScheduleCalendar
+          timeZone={timeZone}
+          editable={canEdit}
+          fetchSessions={fetchSessions}
+          refreshKey={visible.dataUpdatedAt}
+          hours={hours}
+          focus={focus}
+          onRange={setRange}
+          onLoading={setCalendarBusy}
+          onError={setCalendarError}
+          onOpen={setOpenId}
+          onMove={(m) => (m.session.seriesId ? setPendingMove(m) : move(m, 'this'))}
+          onSlot={onSlot}
+        />
+      </div>
+      <ScheduleLegend />
+      <AgendaList sessions={shown} isPending={visible.isPending} error={visible.error} retry={() => visible.refetch()} timeZone={timeZone} onOpen={setOpenId} rangeLabel={range?.title ?? ''} />
+      <SessionDrawer id={openId} timeZone={timeZone} canEdit={canEdit} onClose={() => setOpenId(null)} />
+      {canEdit ? <BookingDialog prefill={booking} timeZone={timeZone} onClose={() => setBooking(null)} onBooked={onBooked} /> : null}
+      <MoveScopeDialog
+        move={pendingMove}
+        timeZone={timeZone}
+        onDismiss={() => { pendingMove?.revert(); setPendingMove(null); }}
+        onChoose={(scope) => { if (pendingMove) move(pendingMove, scope); setPendingMove(null); }}
+      />
+    </div>
+  );
+}

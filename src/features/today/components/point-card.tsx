@@ -1,0 +1,74 @@
+import { useRef, useState } from 'react';
+import { Link } from 'react-router-dom';
+import { paths } from '../../../lib/paths';
+import { CircleCheck, ClipboardCheck, Clock, TriangleAlert } from 'lucide-react';
+import { StatusBadge } from '../../../components/ui/status-badge';
+import { formatInZone } from '../../../components/ui/zoned-time';
+import type { TodayPoint } from '../api';
+import { PreuseCheck } from './preuse-check';
+
+const big = 'flex min-h-12 items-center justify-center gap-2 rounded-lg px-4 py-2 text-base font-medium';
+
+/** One booked point on the Today board: its status in large type, the pre-use check and a fault report, one tap each. */
+export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = false, showRoom = true, onReportFault }: { point: TodayPoint; timeZone: string; sessionId?: number; canCheck: boolean; canInspect?: boolean; showRoom?: boolean; onReportFault: (p: TodayPoint) => void }) {
+  const [checking, setChecking] = useState(false);
+  const opener = useRef<HTMLButtonElement>(null);
+  const blocked = point.status === 'blocked';
+  const close = () => {
+    setChecking(false);
+    requestAnimationFrame(() => opener.current?.focus());
+  };
+  return (
+    <li className={`rounded-xl border-2 bg-white p-4 ${blocked ? 'border-stop-700/50' : point.status === 'expiring' ? 'border-warn-700/40' : 'border-line'}`} data-testid={`point-card-${point.pointId}`}>
+      <div className="flex flex-wrap items-start justify-between gap-2">
+        <div>
+          <p className="text-2xl font-semibold leading-tight">{point.label}</p>
+          {showRoom ? <p className="text-sm text-muted">{point.roomName}</p> : null}
+        </div>
+        <StatusBadge status={point.status} large />
+      </div>
+      {point.reasons.length ? (
+        <ul className="mt-3 space-y-1 text-sm text-stop-700">
+          {point.reasons.map((r, i) => (
+            <li key={`${r.code}-${i}`} className="flex gap-2">
+              <TriangleAlert className="mt-0.5 size-4 shrink-0" aria-hidden />
+              <span>{r.message}</span>
+            </li>
+          ))}
+        </ul>
+      ) : point.clearedUntil ? (
+        <p className={`mt-3 text-sm ${point.status === 'expiring' ? 'text-warn-700' : 'text-muted'}`}>Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p>
+      ) : null}
+      <p className="mt-3 flex items-center gap-2 text-base font-medium" data-testid="preuse-state">
+        {point.preuseDue ? (
+          <><Clock className="size-5 text-warn-700" aria-hidden /> Pre-use check due</>
+        ) : (
+          <><CircleCheck className="size-5 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>
+        )}
+      </p>
+      {blocked ? <p className="mt-2 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; a rigger has to clear the point first.</p> : null}
+      {checking ? (
+        <PreuseCheck pointId={point.pointId} label={point.label} sessionId={sessionId} onClose={close} onDone={close} />
+      ) : (
+        <div className="mt-4 grid gap-2 sm:grid-cols-2">
+          {canCheck && !blocked ? (
+            <button ref={opener} type="button" onClick={() => setChecking(true)} className={`${big} bg-pine-700 text-white hover:bg-pine-800`}>
+              <ClipboardCheck className="size-5" aria-hidden />
+              {point.preuseDue ? 'Do the pre-use check' : 'Check again'}
+              <span className="sr-only"> for {point.label}</span>
+            </button>
+          ) : null}
+          {canInspect && blocked ? (
+            <Link to={paths.inspectPoint(point.pointId)} className={`${big} bg-pine-700 text-white hover:bg-pine-800`}>
+              <ClipboardCheck className="size-5" aria-hidden /> Inspect and clear<span className="sr-only"> {point.label}</span>
+            </Link>
+          ) : null}
+          <button type="button" onClick={() => onReportFault(point)} className={`${big} border-2 border-stop-700 bg-white text-stop-700 hover:bg-stop-50`}>
+            <TriangleAlert className="size-5" aria-hidden />
+            Report a fault<span className="sr-only"> on {point.label}</span>
+          </button>
+        </div>
+      )}
+    </li>
+  );
+}

@@ -1,0 +1,52 @@
+import { Ban, CircleCheck, TriangleAlert } from 'lucide-react';
+import { StatusBadge } from '../../../components/ui/status-badge';
+import { formatInZone } from '../../../components/ui/zoned-time';
+import type { TodayPoint, TodaySession } from '../api';
+import { PointCard } from './point-card';
+
+/** One class today: when and where, whether it is at risk and why, and each booked point as a large card. */
+export function SessionCard({ session, timeZone, showInstructor, canCheck, canInspect, now, onReportFault }: { session: TodaySession; timeZone: string; showInstructor: boolean; canCheck: boolean; canInspect: boolean; now: number; onReportFault: (p: TodayPoint) => void }) {
+  const time = `${formatInZone(session.startsAt, timeZone, 'time')}–${formatInZone(session.endsAt, timeZone, 'time')}`;
+  const over = new Date(session.endsAt).getTime() <= now;
+  const headingId = `session-${session.id}`;
+  // At risk is worked out for sessions yet to start; once one has begun, a blocked point still has to show.
+  const blocked = session.points.filter((p) => p.status === 'blocked');
+  const warn = session.atRisk || blocked.length > 0;
+  const reasons = session.atRisk ? session.riskReasons.map((r) => r.message) : blocked.map((p) => `Point ${p.label} is blocked`);
+  return (
+    <article aria-labelledby={headingId} className={`rounded-2xl border bg-white p-4 ${session.cancelled || over ? 'border-line opacity-90' : 'border-line'}`} data-testid={`session-${session.id}`}>
+      <header className="space-y-1">
+        <p className="text-lg font-semibold text-pine-800"><time dateTime={session.startsAt}>{time}</time>{over && !session.cancelled ? <span className="ml-2 text-sm font-normal text-muted">(finished)</span> : null}</p>
+        <h2 id={headingId} className={`text-xl font-semibold ${session.cancelled ? 'line-through decoration-2' : ''}`}>{session.className}</h2>
+        <p className="text-muted">{session.roomName}{showInstructor ? ` · ${session.instructorName}` : ''}</p>
+      </header>
+      {session.cancelled ? (
+        <p className="mt-3 flex items-start gap-2 rounded-lg bg-canvas p-3 font-medium">
+          <Ban className="mt-0.5 size-5 shrink-0" aria-hidden />
+          <span>Cancelled{session.cancelReason ? `: ${session.cancelReason}` : ''}. No pre-use check needed.</span>
+        </p>
+      ) : warn && !over ? (
+        <div className="mt-3 rounded-lg border border-stop-700/40 bg-stop-50 p-3 text-stop-700" role="note">
+          <p className="flex items-center gap-2 font-semibold"><TriangleAlert className="size-5" aria-hidden /> {session.atRisk ? 'At risk' : 'A point is blocked'}</p>
+          <ul className="mt-1 list-disc space-y-0.5 pl-6 text-sm">
+            {reasons.map((r, i) => <li key={i}>{r}</li>)}
+          </ul>
+          <p className="mt-1 text-sm">Reception can swap the point or move the class.</p>
+        </div>
+      ) : session.points.length && !over ? (
+        <p className="mt-3 flex items-center gap-2 text-sm text-ok-700"><CircleCheck className="size-4" aria-hidden /> Not at risk: every point is fit for this class.</p>
+      ) : null}
+      {session.cancelled ? null : over ? (
+        <ul className="mt-3 flex flex-wrap gap-x-4 gap-y-2" aria-label={`Points for ${session.className}`}>
+          {session.points.map((p) => <li key={p.pointId} className="flex items-center gap-2"><span className="font-semibold">{p.label}</span><StatusBadge status={p.status} /></li>)}
+        </ul>
+      ) : session.points.length === 0 ? (
+        <p className="mt-3 text-muted">No points are booked for this class. Ask reception.</p>
+      ) : (
+        <ul className="mt-4 space-y-3" aria-label={`Points for ${session.className}`}>
+          {session.points.map((p) => <PointCard key={p.pointId} point={p} timeZone={timeZone} sessionId={session.id} canCheck={canCheck} canInspect={canInspect} showRoom={p.roomName !== session.roomName} onReportFault={onReportFault} />)}
+        </ul>
+      )}
+    </article>
+  );
+}
