@@ -1,4 +1,5 @@
 import { TZDate } from '@date-fns/tz';
+import { memoize } from './memo';
 import { format } from 'date-fns';
 import type { LinkInput } from '../rigging/types';
 
@@ -24,8 +25,9 @@ export function preuseChecklist(links: LinkInput[]): PreuseItem[] {
 
 /** The studio day of an instant, 'YYYY-MM-DD' in the studio's zone. */
 export function studioDay(t: Date, timeZone: string): string {
-  return format(new TZDate(t.getTime(), timeZone), 'yyyy-MM-dd');
+  return studioDayOf(t.getTime(), timeZone);
 }
+const studioDayOf = memoize((ms: number, timeZone: string) => format(new TZDate(ms, timeZone), 'yyyy-MM-dd'));
 
 /** A pre-use check is valid for the studio day it was made on only. */
 export function preuseDue(lastPreuseAt: Date | null, now: Date, timeZone: string): boolean {

@@ -1,4 +1,5 @@
 import { TZDate } from '@date-fns/tz';
+import { memoize } from './memo';
 import { addDays, format } from 'date-fns';
 import { checkRules, gearKindLabels } from '../rigging';
 import type { Policy } from '../schemas/policy';
@@ -12,17 +13,19 @@ import { reasonCodes } from './types';
 
 /** `instant` plus `days` calendar days in `timeZone`, keeping the local wall-clock time. */
 export function addStudioDays(instant: Date, days: number, timeZone: string): Date {
-  return new Date(addDays(new TZDate(instant.getTime(), timeZone), days).getTime());
+  return new Date(addStudioDaysMs(instant.getTime(), days, timeZone));
 }
+const addStudioDaysMs = memoize((ms: number, days: number, timeZone: string) => addDays(new TZDate(ms, timeZone), days).getTime());
 
 /** A date and time as the studio reads it, e.g. "3 Nov 2025, 10:00". */
 export function formatStudioDateTime(instant: Date, timeZone: string): string {
-  return format(new TZDate(instant.getTime(), timeZone), 'd MMM yyyy, HH:mm');
+  return formatZoned(instant.getTime(), timeZone, 'd MMM yyyy, HH:mm');
 }
+const formatZoned = memoize((ms: number, timeZone: string, pattern: string) => format(new TZDate(ms, timeZone), pattern));
 
 /** A calendar day as the studio reads it, e.g. "3 Nov 2025". */
 export function formatStudioDay(instant: Date, timeZone: string): string {
-  return format(new TZDate(instant.getTime(), timeZone), 'd MMM yyyy');
+  return formatZoned(instant.getTime(), timeZone, 'd MMM yyyy');
 }
 
 interface CalendarDay {
@@ -31,6 +34,8 @@ interface CalendarDay {
   month: number;
   date: number;
 }
+
+const zonedMidnight = memoize((year: number, month: number, date: number, timeZone: string) => new TZDate(year, month, date, timeZone).getTime());
 
 /** A 'YYYY-MM-DD' text as a calendar day; null when it is not a real day (31 Feb, say). */
 function parseCalendarDay(day: string): CalendarDay | null {
@@ -87,7 +92,7 @@ export function serviceLifeEnd(
   const year = Math.floor(months / 12);
   const month = months - year * 12;
   const lastDate = new Date(Date.UTC(year, month + 1, 0)).getUTCDate();
-  return new Date(new TZDate(year, month, Math.min(start.date, lastDate), timeZone).getTime());
+  return new Date(zonedMidnight(year, month, Math.min(start.date, lastDate), timeZone));
 }
 
 /** The point's own clearance end, before the apparatus cap; null while voided or never cleared. */
