@@ -302,7 +302,7 @@ function dueReasons(snapshot: PointSnapshot, policy: Policy, end: Date, own: Dat
   if (own && own.getTime() < end.getTime()) {
     due.push({
       code: reasonCodes.inspectionDue,
-      message: `Point ${snapshot.label}: inspection due by ${formatStudioDateTime(own, zone)}`,
+      message: `Point ${snapshot.label}: needs inspection, cleared only until ${formatStudioDateTime(own, zone)}`,
     });
   }
   const { apparatus } = splitPath(snapshot.links);
@@ -310,7 +310,7 @@ function dueReasons(snapshot: PointSnapshot, policy: Policy, end: Date, own: Dat
   if (apparatus && inspected && inspected.getTime() < end.getTime()) {
     due.push({
       code: reasonCodes.inspectionDue,
-      message: `${capitalise(gearName(apparatus.gear))}: inspection due by ${formatStudioDateTime(inspected, zone)}`,
+      message: `${capitalise(gearName(apparatus.gear))}: needs inspection, inspected only until ${formatStudioDateTime(inspected, zone)}`,
     });
   }
   return due;

@@ -155,7 +155,7 @@ describe('bookingReasons', () => {
       const later = session({ startsAt: new Date('2025-07-05T17:00:00Z'), endsAt: new Date('2025-07-05T18:00:00Z') });
       expect(check(point(), later)).toEqual({
         reasons: [],
-        warnings: [{ code: 'inspection_due', message: 'Point B-2: inspection due by 2 Jul 2025, 10:00' }],
+        warnings: [{ code: 'inspection_due', message: 'Point B-2: needs inspection, cleared only until 2 Jul 2025, 10:00' }],
       });
     });
 
@@ -169,7 +169,7 @@ describe('bookingReasons', () => {
       p.links[5].gear.inspectedUntil = new Date('2025-06-15T10:00:00Z');
       expect(check(p)).toEqual({
         reasons: [],
-        warnings: [{ code: 'inspection_due', message: 'Fabric FB-12: inspection due by 15 Jun 2025, 11:00' }],
+        warnings: [{ code: 'inspection_due', message: 'Fabric FB-12: needs inspection, inspected only until 15 Jun 2025, 11:00' }],
       });
     });
 
@@ -305,7 +305,7 @@ describe('sessionRisk', () => {
       const result = risk([point()], new Date('2025-07-03T17:00:00Z'), new Date('2025-07-03T18:00:00Z'), at);
       expect(result).toEqual({
         atRisk: true,
-        reasons: [{ pointId: 7, code: 'inspection_due', message: 'Point B-2: inspection due by 2 Jul 2025, 10:00' }],
+        reasons: [{ pointId: 7, code: 'inspection_due', message: 'Point B-2: needs inspection, cleared only until 2 Jul 2025, 10:00' }],
       });
     });
 

@@ -445,7 +445,7 @@ describe('pointStatusOver', () => {
     const over = pointStatusOver(healthyPoint(), policy, new Date('2025-07-02T08:00:00Z'), new Date('2025-07-02T10:00:00Z'));
     expect(over.status).toBe('blocked');
     expect(over.blockedReasons).toEqual([]);
-    expect(over.dueBeforeEnd).toEqual([{ code: 'inspection_due', message: 'Point B-2: inspection due by 2 Jul 2025, 10:00' }]);
+    expect(over.dueBeforeEnd).toEqual([{ code: 'inspection_due', message: 'Point B-2: needs inspection, cleared only until 2 Jul 2025, 10:00' }]);
   });
 
   it('reports a clearance already run out at the start as due, not as blocked', () => {
@@ -459,7 +459,7 @@ describe('pointStatusOver', () => {
     point.links[5].gear.inspectedUntil = new Date('2025-06-20T18:00:00Z');
     const over = pointStatusOver(point, policy, start, end);
     expect(over.blockedReasons).toEqual([]);
-    expect(over.dueBeforeEnd).toEqual([{ code: 'inspection_due', message: 'Fabric FB-12: inspection due by 20 Jun 2025, 19:00' }]);
+    expect(over.dueBeforeEnd).toEqual([{ code: 'inspection_due', message: 'Fabric FB-12: needs inspection, inspected only until 20 Jun 2025, 19:00' }]);
   });
 
   it('keeps standing reasons at the start as blocked reasons', () => {

@@ -5,15 +5,16 @@ import { GearPage } from '../../../features/rig/gear-page';
 import { LabelsPage } from '../../../features/rig/labels-page';
 import { PointPage } from '../../../features/rig/point-page';
 import { RigPage } from '../../../features/rig/rig-page';
+import { PointHistory } from '../../../features/inspections/components/point-history';
 
 /** `/rig/*`: the register, a point, the gear list, a gear item, and the label sheet. */
 export default function RigRoute() {
   return (
     <Routes>
       <Route index element={<RigPage />} />
-      <Route path="points/:id" element={<WithId render={(id) => <PointPage key={id} id={id} />} />} />
+      <Route path="points/:id" element={<WithId render={(id) => <WithHistory history={<PointHistory pointId={id} />}><PointPage key={id} id={id} /></WithHistory>} />} />
       <Route path="gear" element={<GearListPage />} />
-      <Route path="gear/:id" element={<WithId render={(id) => <GearPage key={id} id={id} />} />} />
+      <Route path="gear/:id" element={<WithId render={(id) => <WithHistory history={<PointHistory gearId={id} />}><GearPage key={id} id={id} /></WithHistory>} />} />
       <Route path="labels" element={<LabelsPage />} />
       <Route path="*" element={<NotFound />} />
     </Routes>
@@ -25,6 +26,19 @@ function WithId({ render }: { render: (id: number) => ReactNode }) {
   const n = Number(id);
   if (!Number.isInteger(n) || n <= 0) return <NotFound />;
   return <>{render(n)}</>;
+}
+
+/** The rig pages with the inspection and fault history beneath, composed here so features stay apart. */
+function WithHistory({ children, history }: { children: ReactNode; history: ReactNode }) {
+  return (
+    <>
+      {children}
+      <section aria-labelledby="history-heading" className="mt-6 max-w-5xl rounded-xl border border-line bg-white p-5">
+        <h2 id="history-heading" className="mb-3 text-lg font-semibold">History</h2>
+        {history}
+      </section>
+    </>
+  );
 }
 
 function NotFound() {
