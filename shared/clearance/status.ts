@@ -8,6 +8,17 @@ import type { GearSnapshot, LinkSnapshot, PointSnapshot, PointStatus, PointStatu
 import { reasonCodes } from './types';
 
 // ---------------------------------------------------------------------------------------------
+// The rigging rules depend only on the path (and the unit its messages quote); a request checks
+// the same snapshot at many instants, so the findings are kept per links array.
+const rulesCache = new WeakMap<LinkSnapshot[], Map<string, ReturnType<typeof checkRules>>>();
+function rulesOf(links: LinkSnapshot[], unit: Policy['units']) {
+  let byUnit = rulesCache.get(links);
+  if (!byUnit) rulesCache.set(links, (byUnit = new Map()));
+  let found = byUnit.get(unit);
+  if (!found) byUnit.set(unit, (found = checkRules(links, { displayUnit: unit })));
+  return found;
+}
+
 // Studio-zone dates. Intervals are counted in the studio's calendar days, so a point cleared at
 // 10:00 stays cleared until 10:00 local time, whichever side of a clock change that falls.
 
@@ -255,7 +266,7 @@ function evaluateAt(
   }
 
   if (snapshot.links.length > 0) {
-    for (const violation of checkRules(snapshot.links, { displayUnit: policy.units }).violations) {
+    for (const violation of rulesOf(snapshot.links, policy.units).violations) {
       reasons.push({ code: reasonCodes.ruleViolation, message: violation.message, cause: 'standing' });
     }
   }
