@@ -3,6 +3,7 @@ import * as m001 from './001-staff-and-studio';
 import * as m002 from './002-rig-register';
 import * as m003 from './003-inspections-faults-audit';
 import * as m004 from './004-schedule';
+import * as m005 from './005-outbox';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -13,6 +14,7 @@ const migrations: Record<string, Knex.Migration> = {
   '002-rig-register': m002,
   '003-inspections-faults-audit': m003,
   '004-schedule': m004,
+  '005-outbox': m005,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -34,9 +34,12 @@ import { inspectionsService } from './modules/inspections/inspections.service';
 import { inspectionsRoutes } from './modules/inspections/inspections.router';
 import { todayService } from './modules/today/today.service';
 import { todayRoutes } from './modules/today/today.router';
+import { outboxService } from './modules/outbox/outbox.service';
+import { outboxRoutes } from './modules/outbox/outbox.router';
 import { sessionsRepository } from './modules/sessions/sessions.repository';
 import { sessionsService } from './modules/sessions/sessions.service';
 import { sessionsRoutes } from './modules/sessions/sessions.router';
+import { benchBaselineRoutes } from './modules/bench/baseline.router';
 
 export interface AppDeps {
   db: Db;
@@ -50,6 +53,8 @@ export interface AppDeps {
   /** The built client, served with SPA fallback when present. */
   clientDir?: string | null;
   log?: (err: unknown) => void;
+  /** Benchmark only: the database file for the baseline routes of `npm run bench`. */
+  benchBaselineDbFile?: string | null;
   /** Proxy hops in front of the server (TRUST_PROXY); 0 when it serves browsers directly. */
   trustProxyHops?: number;
 }
@@ -104,11 +109,15 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
   const inspectionsRepo = inspectionsRepository(db);
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock });
+  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
+  // (sessions: outbox.notifySessionChange) write to it in their own transaction; the worker sends.
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
 
   const api = new ApiRouter('/api');
   staffRoutes(api, staffService(staffRepo, clock, { db, audit }));
   studioRoutes(api, studioService(studioRepo, clock));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
+  outboxRoutes(api, outbox);
   rigRoutes(api, rig, docs, db);
   documentsRoutes(api, docs);
   classTypesRoutes(api, classTypes);
@@ -116,7 +125,9 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit);
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock }));
-  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock }));
+  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox }));
+
+  if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
   app.use(

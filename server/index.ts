@@ -5,6 +5,7 @@ import { createApp } from './app';
 import { systemClock } from './clock';
 import { startFakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/transport';
+import { startMailWorker } from './mail/worker';
 import { seedDemoIfEmpty } from '../seeds';
 
 async function main() {
@@ -25,11 +26,14 @@ async function main() {
     uploadDir: config.uploadDir,
     clientDir: resolve('dist'),
     trustProxyHops: config.trustProxyHops,
+    benchBaselineDbFile: process.env.LOFTWISE_BENCH_BASELINE === '1' ? config.dbFile : null,
   });
   const server = app.listen(config.port, () => {
     console.log(`Loftwise is serving on ${config.appUrl} (port ${config.port}).`);
     if (fakeSmtp) console.log(`Built-in mail catcher on ${fakeSmtp.url}; read it on the Mailbox page.`);
   });
+  // The mail worker: reminders, at-risk alerts, the digest, and sending the outbox (PRODUCT.md §5).
+  const mailWorker = startMailWorker({ db, mailer, clock: systemClock, appUrl: config.appUrl });
 
   let stopping = false;
   const stop = async (signal: string) => {
@@ -39,6 +43,7 @@ async function main() {
     server.close();
     server.closeIdleConnections();
     setTimeout(() => server.closeAllConnections(), 5000).unref();
+    await mailWorker.stop();
     mailer.close();
     await fakeSmtp?.close();
     await db.destroy();

@@ -129,8 +129,10 @@ export function mailDataRepository(db: Db) {
       return rows.map((r) => r.label);
     },
 
-    async setAtRisk(sessionId: number, atRisk: boolean, trx: Db = db): Promise<void> {
-      await trx('sessions').where({ id: sessionId }).update({ at_risk: atRisk });
+    /** Sets `sessions.at_risk` from `from` to `to`; false when it no longer held `from` (someone else changed it). */
+    async setAtRiskIf(sessionId: number, from: boolean, to: boolean, trx: Db = db): Promise<boolean> {
+      const n = await trx('sessions').where({ id: sessionId, at_risk: from }).update({ at_risk: to });
+      return Number(n) > 0;
     },
 
     async activeStaff(roles: Role[], trx: Db = db): Promise<StaffMember[]> {

@@ -189,6 +189,11 @@ describe('changing and cancelling', () => {
     expect(codes(clash.body.error.details.points[0].reasons)).toContain('point_double_booked');
     const cancelled = await desk.post(`/api/sessions/${a.body.id}/cancel`).send({ reason: 'Instructor unwell' });
     expect(cancelled.body).toMatchObject({ cancelled: true, cancelReason: 'Instructor unwell', places: 0 });
+    // The instructor is told, through the outbox, in the same transaction as the change.
+    const told = await ctx.db('outbox_messages').where({ session_id: a.body.id }).select('kind', 'recipients_json', 'subject');
+    expect(told.map((m) => m.kind)).toContain('session_change');
+    expect(told.every((m) => JSON.parse(m.recipients_json).includes(s.instructor.email))).toBe(true);
+    expect(told.some((m) => /cancel/i.test(m.subject))).toBe(true);
     // A cancelled session frees its point.
     expect((await desk.post('/api/sessions').send(body(s))).status).toBe(201);
   });

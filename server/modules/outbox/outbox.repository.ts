@@ -161,6 +161,12 @@ export function outboxRepository(db: Db) {
       return state;
     },
 
+    /** Claimed rows handed back untried (the server went away mid-batch): queued again, no attempt counted. */
+    async release(ids: number[]): Promise<void> {
+      if (!ids.length) return;
+      await db('outbox_messages').whereIn('id', ids).where('state', 'sending').update({ state: 'queued', lease_until: null });
+    },
+
     /** A claimed message that should no longer go out (its session moved, was cancelled or began). */
     async markSkipped(id: number, why: string): Promise<void> {
       await db('outbox_messages').where({ id }).update({ state: 'skipped', lease_until: null, last_error: why });

@@ -1,0 +1,75 @@
+import { sessionRisk } from '../../shared/clearance';
+import type { MailCycleContext } from './context';
+import { atRiskMessage } from './templates/at-risk';
+
+export const atRiskKeyPrefix = (sessionId: number, startsAt: string) => `at_risk:${sessionId}:${startsAt}:`;
+
+/**
+ * PRODUCT.md §4.4 and §5: a booked, future, not cancelled session that turns at risk alerts
+ * reception and riggers once. `sessions.at_risk` holds the last state seen, so only the change from
+ * false to true alerts; back to false clears it, and a later relapse alerts again (its key counts
+ * the earlier alerts for the same session and start).
+ */
+export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: number; cleared: number }> {
+  const sessions = await ctx.data.sessionsToWatch(ctx.now);
+  if (!sessions.length) return { alerts: 0, cleared: 0 };
+  const bundles = await ctx.snapshots();
+  const pointIds = await ctx.data.pointIdsOf(sessions.map((s) => s.id));
+  let alerts = 0;
+  let cleared = 0;
+
+  for (const s of sessions) {
+    const ids = (pointIds.get(s.id) ?? []).filter((id) => bundles.has(id));
+    const risk = sessionRisk({
+      points: ids.map((id) => bundles.get(id)!.snapshot),
+      policy: ctx.policy,
+      now: ctx.now,
+      startsAt: new Date(s.startsAt),
+      endsAt: new Date(s.endsAt),
+      cancelled: s.cancelled,
+    });
+    if (!risk.atRisk) {
+      if (s.atRisk && (await ctx.data.setAtRiskIf(s.id, true, false))) cleared += 1;
+      continue;
+    }
+    if (s.atRisk) continue;
+
+    const byPoint = ids
+      .map((id) => ({ label: bundles.get(id)!.point.label, reasons: risk.reasons.filter((r) => r.pointId === id).map((r) => r.message) }))
+      .filter((p) => p.reasons.length > 0);
+    const mail = atRiskMessage({
+      studioName: ctx.studioName,
+      timeZone: ctx.policy.timeZone,
+      appUrl: ctx.appUrl,
+      className: s.className,
+      roomName: s.roomName,
+      instructorName: s.instructor.name,
+      startsAt: new Date(s.startsAt),
+      endsAt: new Date(s.endsAt),
+      points: byPoint,
+    });
+    await ctx.db.transaction(async (trx) => {
+      // The flag flips only if nobody flipped it since we read it, so two workers cannot both alert.
+      if (!(await ctx.data.setAtRiskIf(s.id, false, true, trx))) return;
+      const prefix = atRiskKeyPrefix(s.id, s.startsAt);
+      const n = (await ctx.outbox.countWithPrefix(prefix, trx)) + 1;
+      const to = (await ctx.data.activeStaff(['reception', 'rigger'], trx)).map((u) => u.email);
+      const added = await ctx.outbox.insert(
+        trx,
+        {
+          kind: 'at_risk',
+          uniqueKey: `${prefix}${n}`,
+          to,
+          ...mail,
+          sessionId: s.id,
+          sessionStartsAt: s.startsAt,
+          // Recorded even with nobody to tell, so the count of alerts stays right.
+          ...(to.length ? {} : { state: 'skipped' as const, note: 'Nobody to tell: there is no active reception or rigger account.' }),
+        },
+        ctx.now,
+      );
+      if (added && to.length) alerts += 1;
+    });
+  }
+  return { alerts, cleared };
+}

@@ -1,0 +1,78 @@
+import type { Mailer } from './transport';
+import type { MailCycleContext } from './context';
+import type { OutboxMessage } from '../modules/outbox/outbox.repository';
+import type { MailSession } from './mail-data.repository';
+import type { Clock } from '../clock';
+
+/** How long a claimed row stays ours; nodemailer gives up on a send well within it (10 + 10 + 20 s). */
+export const LEASE_MS = 5 * 60_000;
+const BATCH = 25;
+/** nodemailer's codes for a server that cannot be reached or spoken to, as opposed to one message refused. */
+const SERVER_DOWN = new Set(['ECONNECTION', 'ECONNREFUSED', 'ETIMEDOUT', 'ESOCKET', 'EDNS', 'ETLS', 'EAUTH', 'EPROTOCOL']);
+
+/** Why a reminder or an at-risk alert should no longer go out, if it should not. */
+function staleBecause(m: OutboxMessage, s: MailSession | undefined, now: Date): string | null {
+  if (!s) return 'Not sent: the session no longer exists.';
+  if (s.cancelled) return 'Not sent: the session was cancelled.';
+  if (m.sessionStartsAt && s.startsAt !== m.sessionStartsAt) return 'Not sent: the session moved.';
+  if (new Date(s.startsAt).getTime() <= now.getTime()) return 'Not sent: the session had begun.';
+  if (m.kind === 'at_risk' && !s.atRisk) return 'Not sent: the session is no longer at risk.';
+  return null;
+}
+
+export interface DeliverySummary {
+  sent: number;
+  retrying: number;
+  failed: number;
+  dropped: number;
+}
+
+/**
+ * Sends what is due. Each row is claimed (state `sending` with a lease) before the SMTP call and
+ * marked sent right after it. A crash between the server accepting a message and `markSent` leaves
+ * the row `sending`; once the lease runs out it is sent again, so such a message may arrive twice.
+ * The window is one local SQLite write long, and no transaction is held open across the SMTP call.
+ */
+export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: Clock, stopping: () => boolean = () => false): Promise<DeliverySummary> {
+  const summary: DeliverySummary = { sent: 0, retrying: 0, failed: 0, dropped: 0 };
+  const claimed = await ctx.outbox.claimDue(ctx.now, BATCH, LEASE_MS);
+  if (!claimed.length) return summary;
+  const watched = claimed.filter((m) => (m.kind === 'reminder' || m.kind === 'at_risk') && m.sessionId !== null);
+  const sessions = await ctx.data.sessionsByIds([...new Set(watched.map((m) => m.sessionId!))]);
+
+  for (const [index, m] of claimed.entries()) {
+    if (stopping()) {
+      // Shutting down: hand the rest back untried rather than hold the server up.
+      await ctx.outbox.release(claimed.slice(index).map((r) => r.id));
+      break;
+    }
+    if (watched.includes(m)) {
+      const why = staleBecause(m, sessions.get(m.sessionId!), clock.now());
+      if (why) {
+        await ctx.outbox.markSkipped(m.id, why);
+        summary.dropped += 1;
+        continue;
+      }
+    }
+    let error: { message: string; serverDown: boolean } | null = null;
+    try {
+      await mailer.send({ to: m.to, subject: m.subject, text: m.text, html: m.html });
+    } catch (err) {
+      const code = (err as { code?: unknown } | null)?.code;
+      error = { message: err instanceof Error ? err.message : String(err), serverDown: typeof code === 'string' && SERVER_DOWN.has(code) };
+    }
+    if (error === null) {
+      await ctx.outbox.markSent(m.id, clock.now());
+      summary.sent += 1;
+      continue;
+    }
+    if ((await ctx.outbox.markFailed(m.id, m.attempts + 1, error.message, clock.now())) === 'failed') summary.failed += 1;
+    else summary.retrying += 1;
+    if (error.serverDown) {
+      // The server cannot be reached: the rest wait for the next cycle untried, costing no attempt.
+      await ctx.outbox.release(claimed.slice(index + 1).map((r) => r.id));
+      break;
+    }
+  }
+  return summary;
+}

@@ -1,0 +1,458 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { APP_URL, as, createTestApp, type TestContext } from '../helpers/app';
+import { makeGear, makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
+import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
+import { smtpMailer, type Mailer } from '../../server/mail/transport';
+import { startMailWorker, type MailWorker } from '../../server/mail/worker';
+import { LEASE_MS } from '../../server/mail/deliver';
+import { outboxRepository, retryDelayMs, MAX_ATTEMPTS } from '../../server/modules/outbox/outbox.repository';
+import { outboxService } from '../../server/modules/outbox/outbox.service';
+import { studioRepository } from '../../server/modules/studio/studio.repository';
+import { sessionChangeMessage } from '../../server/mail/templates/session-change';
+
+const FROM = 'Loftwise <no-reply@loftwise.test>';
+const HOUR = 3_600_000;
+const MINUTE = 60_000;
+
+let ctx: TestContext;
+let fake: FakeSmtp;
+let mailer: Mailer;
+const workers: MailWorker[] = [];
+const mailers: Mailer[] = [];
+const fakes: FakeSmtp[] = [];
+
+async function newFake(port = 0) {
+  const f = await startFakeSmtp(port);
+  fakes.push(f);
+  return f;
+}
+function newMailer(url: string) {
+  const m = smtpMailer(url, FROM);
+  mailers.push(m);
+  return m;
+}
+/** A worker whose timer never fires during a test: cycles run only when the test asks. */
+function worker(m: Mailer = mailer) {
+  const w = startMailWorker({ db: ctx.db, mailer: m, clock: ctx.clock, appUrl: APP_URL, intervalMs: 24 * HOUR, log: () => undefined });
+  workers.push(w);
+  return w;
+}
+
+beforeEach(async () => {
+  fake = await newFake();
+  mailer = newMailer(fake.url);
+  ctx = await createTestApp({ now: '2026-12-01T10:00:00Z', deps: { mailer } });
+});
+afterEach(async () => {
+  for (const w of workers.splice(0)) await w.stop();
+  for (const m of mailers.splice(0)) m.close();
+  for (const f of fakes.splice(0)) await f.close().catch(() => undefined);
+  await ctx.close();
+});
+
+// ---- the studio, made of real rows
+
+/** A room, a class type and an instructor. Europe/London is on UTC in December. */
+async function studio(o: { className?: string; roomName?: string } = {}) {
+  const roomId = await makeRoom(ctx.db, o.roomName ?? 'Main Hall');
+  const [ct] = await ctx.db('class_types')
+    .insert({ name: o.className ?? 'Silks Foundations', apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() })
+    .returning('id');
+  const instructor = await makeUser(ctx.db, { role: 'instructor', name: 'Ada Instructor' });
+  return { roomId, classTypeId: (ct as { id: number }).id, instructor };
+}
+type Studio = Awaited<ReturnType<typeof studio>>;
+
+/** A point with a plain path, cleared at `clearedAt` (textile sling: cleared for 30 days). */
+async function point(s: Studio, label: string, clearedAt: string) {
+  const p = await makePoint(ctx.db, { roomId: s.roomId, label, clearedAt, structuralRatingKn: 30 });
+  const gear = await makeStandardPath(ctx.db, p.id);
+  return { id: p.id, gear };
+}
+
+async function book(s: Studio, startsAt: string, pointIds: number[], minutes = 60) {
+  const ends = new Date(new Date(startsAt).getTime() + minutes * MINUTE).toISOString();
+  const now = ctx.clock.now().toISOString();
+  const [row] = await ctx.db('sessions')
+    .insert({ class_type_id: s.classTypeId, instructor_id: s.instructor.id, room_id: s.roomId, starts_at: new Date(startsAt).toISOString(), ends_at: ends, cancelled: false, at_risk: false, created_at: now, updated_at: now })
+    .returning('id');
+  const id = (row as { id: number }).id;
+  if (pointIds.length) await ctx.db('session_points').insert(pointIds.map((p) => ({ session_id: id, point_id: p, starts_at: new Date(startsAt).toISOString(), ends_at: ends, cancelled: false })));
+  return id;
+}
+
+async function openFault(o: { pointId?: number; gearId?: number; description: string }) {
+  const reporter = await makeUser(ctx.db, { role: 'instructor' });
+  const [row] = await ctx.db('faults')
+    .insert({ point_id: o.pointId ?? null, gear_id: o.gearId ?? null, severity: 'medium', description: o.description, status: 'open', reported_by: reporter.id, reported_at: ctx.clock.now().toISOString() })
+    .returning('id');
+  return (row as { id: number }).id;
+}
+
+const rows = (where: Record<string, unknown> = {}) => ctx.db('outbox_messages').where(where).orderBy('id');
+const received = (f: FakeSmtp = fake) => f.messages().slice().reverse(); // oldest first
+const linesOf = (text: string) => text.split('\n').map((l) => l.trimEnd());
+
+describe('instructor reminders', () => {
+  it('sends one reminder at each lead time (24 h and 2 h), received over SMTP, blocked points first', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z'); // cleared until 29 Dec: cleared
+    const b = await point(s, 'B-2', '2026-11-29T10:00:00Z');
+    const c = await point(s, 'C-3', '2026-11-05T10:00:00Z'); // cleared until 5 Dec: inside the 7-day window
+    await openFault({ pointId: b.id, description: 'Sling frayed at the basket' });
+    // Booked days before: on 28 Nov for 1 Dec at 18:00.
+    ctx.clock.set('2026-11-28T09:00:00Z');
+    await book(s, '2026-12-01T18:00:00Z', [a.id, b.id, c.id], 90);
+    const w = worker();
+
+    await w.runOnce();
+    expect(received()).toHaveLength(0);
+
+    ctx.clock.set('2026-11-30T18:00:00Z'); // start − 24 h
+    expect((await w.runOnce()).remindersQueued).toBe(1);
+    ctx.clock.set('2026-12-01T10:00:00Z'); // between the two moments: nothing
+    await w.runOnce();
+    expect(received()).toHaveLength(1);
+    ctx.clock.set('2026-12-01T16:00:30Z'); // start − 2 h (and a cycle later)
+    await w.runOnce();
+    await w.runOnce();
+
+    const mail = received();
+    expect(mail).toHaveLength(2);
+    for (const m of mail) expect(m.to).toEqual([s.instructor.email]);
+    expect(mail[0].subject).toBe('Reminder: Silks Foundations on Tue 1 Dec at 18:00 in Main Hall (1 point blocked)');
+    expect(mail[1].subject).toBe('Reminder: Silks Foundations at 18:00 in Main Hall (1 point blocked)');
+
+    const text = linesOf(mail[1].text);
+    expect(text).toContain('Class: Silks Foundations');
+    expect(text).toContain('Room: Main Hall');
+    expect(text).toContain('Starts: 1 Dec 2026, 18:00');
+    expect(text).toContain('Ends: 1 Dec 2026, 19:30');
+    const pointLines = text.filter((l) => /^[ABC]-\d/.test(l));
+    expect(pointLines).toEqual(['B-2  blocked  Open fault on point B-2: Sling frayed at the basket', 'C-3  expiring  cleared until 5 Dec 2026, 10:00', 'A-1  cleared']);
+    expect(text).toContain(`${APP_URL}/today`);
+
+    expect((await rows({ kind: 'reminder' })).map((r) => [r.unique_key, r.state])).toEqual([
+      [expect.stringMatching(/^reminder:\d+:2026-12-01T18:00:00.000Z:24$/), 'sent'],
+      [expect.stringMatching(/^reminder:\d+:2026-12-01T18:00:00.000Z:2$/), 'sent'],
+    ]);
+  });
+
+  it('sends exactly one reminder at once for a class booked 100 minutes ahead, never one per missed lead time', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    await book(s, new Date(ctx.clock.now().getTime() + 100 * MINUTE).toISOString(), [a.id]);
+    const w = worker();
+    await w.runOnce();
+    expect(received()).toHaveLength(1);
+    expect(received()[0].subject).toBe('Reminder: Silks Foundations at 11:40 in Main Hall');
+    expect(linesOf(received()[0].text)).toContain('A-1  cleared');
+
+    const states = Object.fromEntries((await rows({ kind: 'reminder' })).map((r) => [String(r.unique_key).split(':').pop(), r.state]));
+    expect(states).toEqual({ '2': 'sent', '24': 'skipped' });
+
+    ctx.clock.advance(30 * MINUTE);
+    await w.runOnce();
+    ctx.clock.advance(65 * MINUTE);
+    await w.runOnce();
+    expect(received()).toHaveLength(1);
+  });
+
+  it('sends one reminder at once for the new time when a session is moved after its reminder moments', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const id = await book(s, '2026-12-01T18:00:00Z', [a.id]);
+    ctx.clock.set('2026-11-30T18:00:00Z');
+    const w = worker();
+    await w.runOnce();
+    expect(received()).toHaveLength(1);
+    // Moved on the day to 11:00, an hour ahead: both of the new start's moments have passed.
+    ctx.clock.set('2026-12-01T10:00:00Z');
+    await ctx.db('sessions').where({ id }).update({ starts_at: '2026-12-01T11:00:00.000Z', ends_at: '2026-12-01T12:00:00.000Z' });
+    await w.runOnce();
+    await w.runOnce();
+    expect(received().map((m) => m.subject)).toEqual(['Reminder: Silks Foundations on Tue 1 Dec at 18:00 in Main Hall', 'Reminder: Silks Foundations at 11:00 in Main Hall']);
+  });
+
+  it('does not resend when the worker runs again or a second worker starts after a restart', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-01T11:00:00Z', [a.id]);
+    const first = worker();
+    await first.runOnce();
+    await first.runOnce();
+    await first.stop();
+    expect(received()).toHaveLength(1);
+
+    // The process restarts: a new worker, a new SMTP connection, the same database.
+    const second = worker(newMailer(fake.url));
+    await second.runOnce();
+    ctx.clock.advance(10 * MINUTE);
+    await second.runOnce();
+    expect(received()).toHaveLength(1);
+    expect(await rows({ state: 'sent' })).toHaveLength(1);
+  });
+
+  it('retries a message a crashed worker had claimed, once its lease runs out', async () => {
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    await outbox.enqueue(ctx.db, { kind: 'digest', uniqueKey: 'test:crash', to: ['someone@example.test'], subject: 'Hello', text: 'Body', html: '<p>Body</p>' });
+    // A worker claims it and dies before sending.
+    const claimed = await outboxRepository(ctx.db).claimDue(ctx.clock.now(), 10, LEASE_MS);
+    expect(claimed.map((m) => m.uniqueKey)).toEqual(['test:crash']);
+
+    const w = worker();
+    await w.runOnce();
+    expect(received()).toHaveLength(0); // still leased to the dead worker
+    ctx.clock.advance(LEASE_MS);
+    await w.runOnce();
+    await w.runOnce();
+    expect(received().map((m) => m.subject)).toEqual(['Hello']);
+  });
+
+  it('keeps a message queued with its attempts and error while the SMTP server is down, and sends it once it is back', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-01T11:40:00Z', [a.id]);
+    const port = fake.port;
+    await fake.close();
+
+    // Its first cycle runs as it starts; runOnce waits for it and runs another.
+    const w = worker();
+    await w.runOnce();
+    let [row] = await rows({ kind: 'reminder', state: 'queued' });
+    expect(row).toMatchObject({ attempts: 1, next_attempt_at: '2026-12-01T10:00:30.000Z' });
+    expect(row.last_error).toMatch(/ECONNREFUSED|connect/i);
+
+    // Not tried again before its back-off.
+    await w.runOnce();
+    [row] = await rows({ id: row.id });
+    expect(row.attempts).toBe(1);
+
+    // The server comes back on the same port.
+    const back = await newFake(port);
+    ctx.clock.advance(retryDelayMs(1));
+    const up = await w.runOnce();
+    expect(up.sent).toBe(1);
+    expect(received(back)).toHaveLength(1);
+    expect(received(back)[0].subject).toContain('Reminder: Silks Foundations');
+    [row] = await rows({ id: row.id });
+    expect(row).toMatchObject({ state: 'sent', attempts: 1, last_error: null });
+    await w.runOnce();
+    expect(received(back)).toHaveLength(1);
+  });
+
+  it('gives up after the last attempt, and the owner sees it failed with its error on GET /api/outbox', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-01T11:50:00Z', [a.id]);
+    await fake.close();
+    const w = worker();
+    for (let attempt = 1; attempt <= MAX_ATTEMPTS; attempt++) {
+      await w.runOnce();
+      ctx.clock.advance(retryDelayMs(attempt));
+    }
+    const [row] = await rows({ kind: 'reminder', state: 'failed' });
+    expect(row).toMatchObject({ state: 'failed', attempts: MAX_ATTEMPTS });
+    await w.runOnce();
+    expect((await rows({ id: row.id }))[0].attempts).toBe(MAX_ATTEMPTS);
+
+    const owner = await as(ctx, 'owner');
+    const res = await owner.get('/api/outbox?state=failed');
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual([expect.objectContaining({ id: row.id, kind: 'reminder', state: 'failed', attempts: MAX_ATTEMPTS, to: [s.instructor.email], lastError: expect.any(String) })]);
+    expect(res.body[0]).not.toHaveProperty('html');
+    expect((await owner.get('/api/outbox?state=nonsense')).status).toBe(400);
+    const desk = await as(ctx, 'reception');
+    expect((await desk.get('/api/outbox')).status).toBe(403);
+  });
+
+  it('drops a queued reminder whose session was cancelled before it could go out', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const id = await book(s, '2026-12-01T11:00:00Z', [a.id]);
+    const port = fake.port;
+    await fake.close();
+    const w = worker();
+    await w.runOnce();
+    await ctx.db('sessions').where({ id }).update({ cancelled: true });
+    const back = await newFake(port);
+    ctx.clock.advance(HOUR / 2);
+    const summary = await w.runOnce();
+    expect(summary.dropped).toBe(1);
+    expect(received(back)).toHaveLength(0);
+    expect((await rows({ kind: 'reminder', state: 'skipped' })).map((r) => r.last_error)).toContain('Not sent: the session was cancelled.');
+  });
+});
+
+describe('at-risk alerts', () => {
+  it('alerts active reception and riggers within one cycle of a fault on a booked point’s gear, once, and again on a relapse', async () => {
+    const s = await studio();
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    await makeUser(ctx.db, { role: 'reception', active: false });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const sessionId = await book(s, '2026-12-03T18:00:00Z', [a.id]);
+    const w = worker();
+    await w.runOnce();
+    expect(received()).toHaveLength(0);
+
+    const swivel = a.gear[3];
+    const faultId = await openFault({ gearId: swivel, description: 'Bearing grinds' });
+    const summary = await w.runOnce();
+    expect(summary.atRiskAlerts).toBe(1);
+    const mail = received();
+    expect(mail).toHaveLength(1);
+    expect(mail[0].to.sort()).toEqual([desk.email, rigger.email].sort());
+    expect(mail[0].subject).toBe('At risk: Silks Foundations on Thu 3 Dec at 18:00 in Main Hall');
+    expect(mail[0].text).toMatch(/^A-1 {2}Point A-1: Open fault on swivel .+: Bearing grinds$/m);
+    expect(mail[0].text).toContain(`${APP_URL}/schedule`);
+    expect((await ctx.db('sessions').where({ id: sessionId }).first()).at_risk).toBe(1);
+
+    await w.runOnce();
+    expect(received()).toHaveLength(1);
+
+    // Resolved: no longer at risk, no mail. A new fault later alerts again.
+    await ctx.db('faults').where({ id: faultId }).update({ status: 'resolved' });
+    expect((await w.runOnce()).atRiskCleared).toBe(1);
+    expect((await ctx.db('sessions').where({ id: sessionId }).first()).at_risk).toBe(0);
+    await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
+    await w.runOnce();
+    expect(received()).toHaveLength(2);
+    expect(received()[1].text).toContain('Clamp bolt loose');
+    expect((await rows({ kind: 'at_risk' })).map((r) => String(r.unique_key).split(':').pop())).toEqual(['1', '2']);
+  });
+});
+
+describe('daily digest', () => {
+  it('goes once per studio day from 07:00 to riggers, not to those who opted out, listing what comes due', async () => {
+    const s = await studio();
+    const rigger = await makeUser(ctx.db, { role: 'rigger', name: 'Rita Rigger' });
+    const optedOut = await makeUser(ctx.db, { role: 'rigger' });
+    await ctx.db('users').where({ id: optedOut.id }).update({ digest_opt_out: true });
+    await makeUser(ctx.db, { role: 'rigger', active: false });
+    const c = await point(s, 'C-3', '2026-11-05T10:00:00Z'); // cleared until 5 Dec
+    await book(s, '2026-12-10T18:00:00Z', [c.id]); // booked past that clearance
+    const old = await makeGear(ctx.db, { kind: 'round_sling', material: 'polyester', serial: 'RS-OLD-1' });
+    await ctx.db('gear_items').where({ id: old }).update({ manufactured_on: '2016-12-04', service_life_years: 10 });
+
+    ctx.clock.set('2026-12-01T06:59:00Z');
+    const w = worker();
+    await w.runOnce();
+    expect(received()).toHaveLength(0);
+
+    ctx.clock.set('2026-12-01T07:00:00Z');
+    await w.runOnce();
+    ctx.clock.set('2026-12-01T21:00:00Z');
+    await w.runOnce();
+    let mail = received();
+    expect(mail).toHaveLength(1);
+    expect(mail[0].to).toEqual([rigger.email]);
+    expect(mail[0].subject).toBe('Rig digest for 1 Dec 2026: 1 point expiring, 1 booking past clearance, 1 gear item at end of life');
+    expect(mail[0].text).toContain('C-3 (Main Hall)  cleared until 5 Dec 2026, 10:00');
+    expect(mail[0].text).toContain('Silks Foundations, 10 Dec 2026, 18:00, Main Hall  point C-3 is cleared only until 5 Dec 2026, 10:00');
+    expect(mail[0].text).toContain('round sling RS-OLD-1  service life ends 4 Dec 2026');
+
+    // A second worker the same day sends nothing; the next day's goes out once.
+    await worker(newMailer(fake.url)).runOnce();
+    ctx.clock.set('2026-12-02T07:05:00Z');
+    await w.runOnce();
+    await w.runOnce();
+    mail = received();
+    expect(mail.map((m) => m.subject.slice(0, 25))).toEqual(['Rig digest for 1 Dec 2026', 'Rig digest for 2 Dec 2026']);
+    expect(mail.every((m) => m.to.join() === rigger.email)).toBe(true);
+    expect((await rows({ kind: 'digest' })).map((r) => r.unique_key)).toEqual([`digest:${rigger.id}:2026-12-01`, `digest:${rigger.id}:2026-12-02`]);
+  });
+
+  it('records a day with nothing due as skipped instead of mailing it', async () => {
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    await worker().runOnce();
+    expect(received()).toHaveLength(0);
+    expect(await rows({ kind: 'digest' })).toEqual([expect.objectContaining({ unique_key: `digest:${rigger.id}:2026-12-01`, state: 'skipped' })]);
+  });
+});
+
+describe('instructor told of changes (outbox.notifySessionChange)', () => {
+  it('queues the message in the caller’s transaction: a move is told with the old and new times, a rolled-back change tells nothing', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const id = await book(s, '2026-12-05T18:00:00Z', [a.id]);
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    const before = { startsAt: '2026-12-05T18:00:00.000Z', endsAt: '2026-12-05T19:00:00.000Z', instructorId: s.instructor.id, pointIds: [a.id] };
+
+    await expect(
+      ctx.db.transaction(async (trx) => {
+        await trx('sessions').where({ id }).update({ starts_at: '2026-12-06T18:00:00.000Z', ends_at: '2026-12-06T19:00:00.000Z' });
+        await outbox.notifySessionChange(trx, { kind: 'moved', sessionId: id, before });
+        throw new Error('the change fails after all');
+      }),
+    ).rejects.toThrow();
+    expect(await rows()).toHaveLength(0);
+
+    await ctx.db.transaction(async (trx) => {
+      await trx('sessions').where({ id }).update({ starts_at: '2026-12-06T18:00:00.000Z', ends_at: '2026-12-06T19:00:00.000Z' });
+      expect(await outbox.notifySessionChange(trx, { kind: 'moved', sessionId: id, before })).toBe(1);
+    });
+    await ctx.db.transaction(async (trx) => {
+      await trx('sessions').where({ id }).update({ cancelled: true, cancel_reason: 'Roof repairs' });
+      await outbox.sessionChanged(trx, { kind: 'cancelled', sessionId: id, before: { ...before, startsAt: '2026-12-06T18:00:00.000Z', endsAt: '2026-12-06T19:00:00.000Z' } });
+    });
+    await worker().runOnce();
+    const mail = received();
+    expect(mail.map((m) => m.subject)).toEqual(['Moved: Silks Foundations is now on Sun 6 Dec at 18:00 (was Sat 5 Dec at 18:00)', 'Cancelled: Silks Foundations on Sun 6 Dec at 18:00']);
+    expect(mail.every((m) => m.to.join() === s.instructor.email)).toBe(true);
+    expect(linesOf(mail[0].text)).toContain('A-1  cleared');
+    expect(linesOf(mail[1].text)).toContain('Reason: Roof repairs');
+    expect((await rows())[0].unique_key).toMatch(new RegExp(`^change:${id}:moved:2026-12-01T10:00:00.000Z:`));
+  });
+
+  it('tells both instructors when the class changes hands, and names the points before a swap', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const b = await point(s, 'B-2', '2026-11-29T10:00:00Z');
+    const id = await book(s, '2026-12-05T18:00:00Z', [a.id]);
+    const next = await makeUser(ctx.db, { role: 'instructor', name: 'Bea Instructor' });
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    const before = { startsAt: '2026-12-05T18:00:00.000Z', endsAt: '2026-12-05T19:00:00.000Z', instructorId: s.instructor.id, pointIds: [a.id] };
+    await ctx.db.transaction(async (trx) => {
+      await trx('session_points').where({ session_id: id }).delete();
+      await trx('session_points').insert({ session_id: id, point_id: b.id, starts_at: before.startsAt, ends_at: before.endsAt, cancelled: false });
+      await outbox.notifySessionChange(trx, { kind: 'points_swapped', sessionId: id, before });
+      await trx('sessions').where({ id }).update({ instructor_id: next.id });
+      expect(await outbox.notifySessionChange(trx, { kind: 'instructor_changed', sessionId: id, before })).toBe(2);
+    });
+    await worker().runOnce();
+    const bySubject = Object.fromEntries(received().map((m) => [m.subject, m]));
+    expect(Object.keys(bySubject).sort()).toEqual(['Points changed: Silks Foundations on Sat 5 Dec at 18:00', 'You no longer teach Silks Foundations on Sat 5 Dec at 18:00', 'You now teach Silks Foundations on Sat 5 Dec at 18:00'].sort());
+    const swap = bySubject['Points changed: Silks Foundations on Sat 5 Dec at 18:00'];
+    expect(swap.to).toEqual([s.instructor.email]);
+    expect(linesOf(swap.text)).toContain('Points before: A-1');
+    expect(linesOf(swap.text)).toContain('B-2  cleared');
+    expect(bySubject['You now teach Silks Foundations on Sat 5 Dec at 18:00'].to).toEqual([next.email]);
+    expect(bySubject['You no longer teach Silks Foundations on Sat 5 Dec at 18:00'].to).toEqual([s.instructor.email]);
+  });
+});
+
+describe('mail templates', () => {
+  it('escapes every value in the HTML and loads nothing remote', async () => {
+    const mail = sessionChangeMessage({
+      kind: 'moved',
+      studioName: 'Studio <One>',
+      timeZone: 'Europe/London',
+      appUrl: APP_URL,
+      recipientName: '"Ada" & co',
+      className: '<script>alert(1)</script>',
+      roomName: 'Hall <b>2</b>',
+      startsAt: new Date('2026-12-06T18:00:00Z'),
+      endsAt: new Date('2026-12-06T19:00:00Z'),
+      previous: { startsAt: new Date('2026-12-05T18:00:00Z'), endsAt: new Date('2026-12-05T19:00:00Z') },
+      points: [{ label: 'P<1>', status: 'blocked', reasons: ['Open fault on point P<1>: "frayed" & worn'], clearedUntil: null }],
+    });
+    expect(mail.html).not.toContain('<script>');
+    expect(mail.html).not.toContain('<b>2</b>');
+    expect(mail.html).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    expect(mail.html).toContain('&quot;Ada&quot; &amp; co');
+    expect(mail.html).toContain('&quot;frayed&quot; &amp; worn');
+    expect(mail.html).not.toMatch(/<img|<link|url\(|src=/i);
+    expect(mail.text).toContain('P<1>  blocked  Open fault on point P<1>: "frayed" & worn');
+  });
+});
