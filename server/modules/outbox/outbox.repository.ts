@@ -1,6 +1,7 @@
 import type { Db } from '../../db/knex';
 
-export const outboxStates = ['queued', 'sending', 'sent', 'failed', 'skipped'] as const;
+import { outboxStates } from '../../../shared/schemas/outbox';
+export { outboxStates };
 export type OutboxState = (typeof outboxStates)[number];
 export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest';
 

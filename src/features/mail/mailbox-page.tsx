@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Card, EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
+import { ApiError } from '../../lib/api-client';
 import { mailQueries, type CaughtMessage } from './api';
 
 export function MailboxPage() {
@@ -8,8 +9,12 @@ export function MailboxPage() {
   const [open, setOpen] = useState<number | null>(null);
   return (
     <div className="max-w-4xl">
-      <PageHeader title="Mailbox">Every e-mail Loftwise sent, as the built-in mail catcher received it. Newest first; refreshes every 10 seconds.</PageHeader>
-      {box.isPending ? <Loading /> : box.isError ? <ErrorState error={box.error} retry={() => box.refetch()} /> : box.data.length === 0 ? (
+      <PageHeader title="Mailbox">E-mail waiting or failed in the outbox, and what the built-in mail catcher received.</PageHeader>
+      <OutboxTrouble />
+      <h2 className="mb-3 mt-8 text-lg font-semibold">Caught by the built-in mail catcher</h2>
+      {box.isError && box.error instanceof ApiError && box.error.status === 404 ? (
+        <p className="rounded-xl border border-line bg-white p-5 text-sm text-muted">A real mail server is configured (SMTP_URL), so there is no catcher. Messages go out through it; failures are listed above.</p>
+      ) : box.isPending ? <Loading /> : box.isError ? <ErrorState error={box.error} retry={() => box.refetch()} /> : box.data.length === 0 ? (
         <EmptyState title="No e-mail caught yet">Reminders, alerts and digests appear here as they are sent.</EmptyState>
       ) : (
         <ul className="space-y-2">
@@ -27,6 +32,33 @@ export function MailboxPage() {
         </ul>
       )}
     </div>
+  );
+}
+
+/** Failed and waiting messages, so the owner sees a mail problem in production too. */
+function OutboxTrouble() {
+  const failed = useQuery(mailQueries.outbox('failed'));
+  const queued = useQuery(mailQueries.outbox('queued'));
+  if (failed.isPending || queued.isPending) return <Loading label="Loading the outbox…" />;
+  if (failed.isError) return <ErrorState error={failed.error} retry={() => failed.refetch()} />;
+  if (queued.isError) return <ErrorState error={queued.error} retry={() => queued.refetch()} />;
+  const rows = [...failed.data, ...queued.data];
+  return (
+    <Card>
+      <h2 className="mb-2 text-lg font-semibold">Outbox</h2>
+      {rows.length === 0 ? (
+        <p className="text-sm text-muted">Nothing failed and nothing is waiting: every message due has gone out.</p>
+      ) : (
+        <ul className="divide-y divide-line text-sm">
+          {rows.map((m) => (
+            <li key={m.id} className="py-2">
+              <span className={`mr-2 font-medium ${m.state === 'failed' ? 'text-stop-700' : 'text-warn-700'}`}>{m.state === 'failed' ? 'Failed' : 'Waiting'}</span>
+              {m.subject} <span className="text-muted">to {m.to.join(', ')} · {m.attempts} attempt{m.attempts === 1 ? '' : 's'}{m.lastError ? ` · last error: ${m.lastError}` : ''}</span>
+            </li>
+          ))}
+        </ul>
+      )}
+    </Card>
   );
 }
 
