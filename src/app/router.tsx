@@ -1,12 +1,10 @@
 import { lazy, Suspense, type ComponentType } from 'react';
 import { createBrowserRouter, Navigate } from 'react-router-dom';
-import { SignInPage } from '../features/auth/sign-in-page';
 import { SignedInLayout } from './signed-in-layout';
 import { Loading } from '../components/ui/states';
-import TodayRoute from './routes/today/today-route';
 import { paths } from '../lib/paths';
 
-// Today and sign-in load at once (instructors on phones); the rest load on first visit.
+// Every page loads on first visit, so sign-in does not carry Today's code nor Today the forms library.
 const page = (load: () => Promise<{ default: ComponentType }>) => {
   const Page = lazy(load);
   return (
@@ -17,12 +15,12 @@ const page = (load: () => Promise<{ default: ComponentType }>) => {
 };
 
 export const router = createBrowserRouter([
-  { path: paths.signIn, element: <SignInPage /> },
+  { path: paths.signIn, element: page(() => import('../features/auth/sign-in-page').then((m) => ({ default: m.SignInPage }))) },
   {
     element: <SignedInLayout />,
     children: [
       { index: true, element: <Navigate to={paths.today} replace /> },
-      { path: paths.today, element: <TodayRoute /> },
+      { path: paths.today, element: page(() => import('./routes/today/today-route')) },
       { path: paths.schedule, element: page(() => import('./routes/schedule/schedule-route')) },
       { path: `${paths.rig}/*`, element: page(() => import('./routes/rig/rig-route')) },
       { path: paths.inspections, element: page(() => import('./routes/inspections/inspections-route')) },

@@ -70,17 +70,19 @@ async function median(n: number, f: () => Promise<void>) {
   return Math.round(times[Math.floor(n / 2)] * 100) / 100;
 }
 
-function initialJsGzipKb(): number | null {
+const gzKb = (files: Iterable<string>) => Math.round(([...new Set(files)].reduce((sum, f) => sum + gzipSync(readFileSync(join('dist', f))).length, 0) / 1024) * 10) / 10;
+
+/** Without a browser: the entry script and what index.html preloads. */
+function entryJsGzipKb(): number | null {
   const html = join('dist', 'index.html');
   if (!existsSync(html)) return null;
   const text = readFileSync(html, 'utf8');
-  const files = [...text.matchAll(/<script[^>]+src="([^"]+\.js)"/g), ...text.matchAll(/<link[^>]+rel="modulepreload"[^>]+href="([^"]+\.js)"/g)].map((m) => m[1]);
-  const bytes = [...new Set(files)].reduce((sum, f) => sum + gzipSync(readFileSync(join('dist', f))).length, 0);
-  return Math.round((bytes / 1024) * 10) / 10;
+  return gzKb([...text.matchAll(/<script[^>]+src="\/([^"]+\.js)"/g), ...text.matchAll(/<link[^>]+rel="modulepreload"[^>]+href="\/([^"]+\.js)"/g)].map((m) => m[1]));
 }
 
-async function todayLcp(base: string): Promise<number | null> {
-  if (!existsSync(CHROMIUM)) return null;
+/** Today's LCP, and the JavaScript the sign-in page and the Today page actually load (gzip of each file). */
+async function browserFigures(base: string): Promise<{ lcp: number | null; signInKb: number | null; todayKb: number | null }> {
+  if (!existsSync(CHROMIUM)) return { lcp: null, signInKb: null, todayKb: null };
   const { chromium } = await import('playwright-core');
   const ctx = await chromium.launchPersistentContext(mkdtempSync(join(dir, 'chromium-')), {
     executablePath: CHROMIUM,
@@ -90,12 +92,21 @@ async function todayLcp(base: string): Promise<number | null> {
   });
   try {
     const page = await ctx.newPage();
-    await page.goto(`${base}/sign-in`);
+    let loaded: string[] = [];
+    page.on('response', (r) => {
+      const path = new URL(r.url()).pathname;
+      if (path.endsWith('.js')) loaded.push(path.slice(1));
+    });
+    await page.goto(`${base}/sign-in`, { waitUntil: 'networkidle' });
+    const signInKb = gzKb(loaded);
     await page.getByLabel('E-mail').fill('teacher0@bench.test');
     await page.getByLabel('Password').fill(BENCH_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL('**/today');
     const runs: number[] = [];
+    loaded = [];
+    await page.goto(`${base}/today`, { waitUntil: 'networkidle' });
+    const todayKb = gzKb(loaded);
     for (let i = 0; i < 3; i++) {
       await page.goto(`${base}/today`, { waitUntil: 'networkidle' });
       runs.push(
@@ -105,7 +116,7 @@ async function todayLcp(base: string): Promise<number | null> {
       );
     }
     runs.sort((a, b) => a - b);
-    return Math.round(runs[1]);
+    return { lcp: Math.round(runs[1]), signInKb, todayKb };
   } finally {
     await ctx.close();
   }
@@ -169,8 +180,10 @@ async function main() {
   const ms100k = await median(100, ask);
 
   log('bundle and Today LCP…');
-  const bundle = { initialJsGzipKb: initialJsGzipKb() };
-  const todayLcpMs = await todayLcp(base);
+  const figures = await browserFigures(base);
+  const initial = figures.signInKb !== null && figures.todayKb !== null ? Math.max(figures.signInKb, figures.todayKb) : entryJsGzipKb();
+  const bundle = { initialJsGzipKb: initial, signInJsGzipKb: figures.signInKb, todayJsGzipKb: figures.todayKb };
+  const todayLcpMs = figures.lcp;
 
   const rows = [
     ['endpoint', 'rps', 'p50 ms', 'p99 ms', 'baseline rps', 'ratio'],
@@ -179,7 +192,7 @@ async function main() {
   console.log(`\nLoftwise bench (${quick ? 'quick' : 'full'}; ${JSON.stringify(counts)}; 50 connections, ${seconds}s each)`);
   for (const r of rows) console.log(r.map((c, i) => String(c).padEnd(i === 0 ? 14 : 13)).join(''));
   console.log(`booking check: ${ms1k} ms with ${small.toLocaleString('en')} sessions, ${ms100k} ms with ${large.toLocaleString('en')} (ratio ${Math.round((ms100k / ms1k) * 100) / 100})`);
-  console.log(`initial JS (sign-in, Today): ${bundle.initialJsGzipKb} KB gzip; Today LCP: ${todayLcpMs ?? 'n/a (no Chromium)'} ms`);
+  console.log(`initial JS: sign-in page ${bundle.signInJsGzipKb ?? '?'} KB, Today page ${bundle.todayJsGzipKb ?? '?'} KB gzip (larger: ${bundle.initialJsGzipKb} KB); Today LCP: ${todayLcpMs ?? 'n/a (no Chromium)'} ms`);
   console.log(JSON.stringify({ endpoints, bookingCheck: { ms1k, ms100k, ratio: Math.round((ms100k / ms1k) * 100) / 100 }, bundle, todayLcpMs }));
 }
 
