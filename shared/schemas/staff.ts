@@ -30,3 +30,7 @@ export const resetPasswordSchema = z.object({ password: passwordSchema });
 
 export const signInSchema = z.object({ email, password: z.string().min(1, 'Enter your password').max(200) });
 export type SignIn = z.infer<typeof signInSchema>;
+
+/** What anyone may change about their own account. Safety alerts cannot be turned off. */
+export const myPreferencesSchema = z.object({ digestOptOut: z.boolean() }).strict();
+export type MyPreferences = z.infer<typeof myPreferencesSchema>;

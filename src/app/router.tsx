@@ -27,6 +27,7 @@ export const router = createBrowserRouter([
       { path: `${paths.faults}/*`, element: page(() => import('./routes/faults/faults-route')) },
       { path: paths.staff, element: page(() => import('./routes/staff/staff-route')) },
       { path: paths.settings, element: page(() => import('./routes/settings/settings-route')) },
+      { path: paths.account, element: page(() => import('./routes/account/account-route')) },
       { path: paths.mailbox, element: page(() => import('./routes/mailbox/mailbox-route')) },
       { path: '*', element: <p className="rounded-xl border border-line bg-white p-6">There is no page at this address. Use the menu to find your way.</p> },
     ],

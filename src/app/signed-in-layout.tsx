@@ -1,4 +1,4 @@
-import { Navigate, Outlet, useLocation, useNavigate } from 'react-router-dom';
+import { Link, Navigate, Outlet, useLocation, useNavigate } from 'react-router-dom';
 import { useQueryClient } from '@tanstack/react-query';
 import { AppShell } from '../components/layout/app-shell';
 import { ErrorState, Loading } from '../components/ui/states';
@@ -29,6 +29,7 @@ export function SignedInLayout() {
         <div className="px-3" data-testid="signed-in-as">
           <div className="font-medium text-white">{user.name}</div>
           <div className="text-xs text-pine-100">{roleLabel[user.role]}</div>
+          <Link to={paths.account} className="mt-1 inline-block text-xs text-white underline">Your account</Link>
         </div>
       }
     >

@@ -18,4 +18,5 @@ export const paths = {
   staff: '/staff',
   settings: '/settings',
   mailbox: '/mailbox',
+  account: '/account',
 } as const;

@@ -31,3 +31,72 @@ export async function signInAs(page: Page, baseUrl: string, email: string, passw
 }
 
 export const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
+
+/** A JSON call to the API with the page's cookies (and the Origin header the server wants on writes); throws with the body on any error. */
+export async function apiCall<T = unknown>(page: Page, baseUrl: string, method: 'GET' | 'POST' | 'PUT' | 'PATCH', path: string, data?: unknown): Promise<T> {
+  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { Origin: baseUrl } });
+  const text = await res.text();
+  if (!res.ok()) throw new Error(`${method} ${path} → ${res.status()}: ${text}`);
+  return (text ? JSON.parse(text) : undefined) as T;
+}
+
+/** The studio day `offset` days from today in `timeZone`, as 'YYYY-MM-DD'. */
+export function studioDate(offset: number, timeZone = 'Europe/London'): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(Date.now() + offset * 86_400_000));
+}
+
+// ---- Helpers for tests that set up their own data (additions; the exports above are unchanged).
+
+/** The JSON API with the signed-in page's cookies; writes carry the app's Origin, as a browser's would. */
+export function apiOf(page: Page, baseUrl: string) {
+  const url = (path: string) => `${baseUrl}/api${path}`;
+  const headers = { Origin: baseUrl };
+  const read = async <T>(res: Awaited<ReturnType<Page['request']['get']>>, what: string): Promise<T> => {
+    if (!res.ok()) throw new Error(`${what} answered ${res.status()}: ${await res.text()}`);
+    return (await res.json()) as T;
+  };
+  return {
+    get: async <T = any>(path: string) => read<T>(await page.request.get(url(path)), `GET ${path}`),
+    post: async <T = any>(path: string, data: unknown) => read<T>(await page.request.post(url(path), { data, headers }), `POST ${path}`),
+    put: async <T = any>(path: string, data: unknown) => read<T>(await page.request.put(url(path), { data, headers }), `PUT ${path}`),
+    /** The raw answer of a POST, for a caller ready to be refused (409 and the like). */
+    tryPost: (path: string, data: unknown) => page.request.post(url(path), { data, headers }),
+  };
+}
+
+/** A 16×16 chequered PNG: a real image, small enough for any upload limit. */
+export const TINY_PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAABAAAAAQCAIAAACQkWg2AAAAJElEQVR42mP48OAAHB0wUIAjXOIMg1ADMYqQxQejhtF4GBQaABS50BAryzEUAAAAAElFTkSuQmCC', 'base64');
+
+/** A short tag unique to this run, so labels and serials never clash with the seed or another file's data. */
+export const uniqueTag = () => `${Date.now().toString(36).slice(-4)}${Math.floor(Math.random() * 46656).toString(36).padStart(3, '0')}`.toUpperCase();
+
+/** What the screen shows right now (not the full page): for a modal dialog, which a full-page shot cuts off. */
+export const shotScreen = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`) });
+
+/**
+ * A rigging point of our own, for tests that change state: beam clamp, round sling, steel screwgate
+ * and a fabric (a solo silks class passes the default factor of 5), cleared by the rigger unless
+ * `clear` is false. `page` must be signed in as the rigger; serials are made from the label.
+ */
+export async function createFabricPoint(page: Page, baseUrl: string, { roomId, label, clear = true }: { roomId: number; label: string; clear?: boolean }): Promise<number> {
+  const today = studioDate(0);
+  const gear = (kind: string, serial: string, extra: Record<string, unknown>) =>
+    apiCall<{ id: number }>(page, baseUrl, 'POST', '/gear', { kind, serial: `${label}-${serial}`, maker: 'Test Forge', model: kind, inServiceOn: today, serviceLifeYears: 8, multiDirectional: false, ...extra });
+  const point = await apiCall<{ id: number }>(page, baseUrl, 'POST', '/points', { roomId, label, structure: 'beam', structuralRatingKn: 20, apparatus: ['fabric'], maxPerformers: 1 });
+  const chain = [
+    await gear('beam_clamp', 'BC', { material: 'steel', gate: 'none', majorKn: 50, wllKn: 10 }),
+    await gear('round_sling', 'RS', { material: 'polyester', gate: 'none', majorKn: 40, wllKn: 8 }),
+    await gear('carabiner', 'CS', { material: 'steel', gate: 'screw', majorKn: 45, minorKn: 14, gateOpenKn: 13 }),
+    await gear('fabric', 'FB', { material: 'nylon', gate: 'none', majorKn: 28 }),
+  ];
+  await apiCall(page, baseUrl, 'PUT', `/points/${point.id}/load-path`, { links: chain.map((g) => ({ gearId: g.id, mode: 'major', threeWay: false, basketOverHalf: false })) });
+  if (clear) {
+    const { items } = await apiCall<{ items: Array<{ key: string }> }>(page, baseUrl, 'GET', `/points/${point.id}/checklist`);
+    const r = await apiCall<{ cleared: boolean }>(page, baseUrl, 'POST', `/points/${point.id}/clearances`, { items: items.map((i) => ({ key: i.key, result: 'pass' })) });
+    if (!r.cleared) throw new Error(`point ${label} did not clear`);
+  }
+  return point.id;
+}
+
+/** What is on the screen only: for steps with a dialog or drawer open, which a full-page shot draws oddly. */
+export const shotViewport = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`) });

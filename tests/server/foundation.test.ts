@@ -201,3 +201,14 @@ describe('security headers', () => {
   });
 });
 
+
+describe('PATCH /api/me/preferences', () => {
+  it('lets anyone opt out of the daily digest for themselves, and nothing else', async () => {
+    const rigger = await as(ctx, 'rigger');
+    expect((await rigger.get('/api/me/preferences')).body).toEqual({ digestOptOut: false });
+    const res = await rigger.patch('/api/me/preferences').send({ digestOptOut: true });
+    expect(res.body).toEqual({ digestOptOut: true });
+    expect((await rigger.patch('/api/me/preferences').send({ digestOptOut: true, role: 'owner' })).status).toBe(400);
+    expect((await rigger.get('/api/me')).body.role).toBe('rigger');
+  });
+});

@@ -1,10 +1,12 @@
 import type { ApiRouter } from '../../http/route';
 import { idParams } from '../../../shared/schemas/common';
-import { createUserSchema, resetPasswordSchema, updateUserSchema } from '../../../shared/schemas/staff';
+import { createUserSchema, myPreferencesSchema, resetPasswordSchema, updateUserSchema } from '../../../shared/schemas/staff';
 import type { StaffService } from './staff.service';
 
 export function staffRoutes(api: ApiRouter, staff: StaffService) {
   api.get('/me', { access: 'signed_in', handler: ({ user }) => user });
+  api.get('/me/preferences', { access: 'signed_in', handler: async ({ user }) => ({ digestOptOut: (await staff.get(user.id)).digestOptOut }) });
+  api.patch('/me/preferences', { access: 'signed_in', body: myPreferencesSchema, handler: ({ body, user }) => staff.setPreferences(user.id, body) });
   api.get('/users', { access: ['owner', 'reception'], handler: () => staff.list() });
   api.post('/users', { access: ['owner'], body: createUserSchema, status: 201, handler: ({ body, user }) => staff.create(body, user.id) });
   api.patch('/users/:id', {

@@ -41,6 +41,11 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
       return this.get(id);
     },
 
+    async setPreferences(id: number, prefs: { digestOptOut: boolean }) {
+      await repo.update(id, { digestOptOut: prefs.digestOptOut }, clock.now());
+      return { digestOptOut: (await this.get(id)).digestOptOut };
+    },
+
     async resetPassword(id: number, password: string): Promise<void> {
       await this.get(id);
       await repo.update(id, { passwordHash: await hashPassword(password) }, clock.now());

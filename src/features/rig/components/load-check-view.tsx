@@ -71,10 +71,14 @@ function formatForceFine(kn: number, fmt: StudioFormat) {
   return fmt.unit === 'kN' ? `${kn.toFixed(2)} kN` : fmt.force(kn);
 }
 
-function figure(value: number | string | null, unit?: string): string {
+/**
+ * A figure of the working. Results read to four decimals; inputs keep six, so a constant such as
+ * standard gravity (9.80665 m/s², exact) reads as the figure the arithmetic used.
+ */
+function figure(value: number | string | null, unit?: string, digits = 4): string {
   if (value === null) return '—';
   if (typeof value === 'string') return value.replace(/_/g, ' ');
-  const text = Number.isInteger(value) ? String(value) : String(Number(value.toFixed(4)));
+  const text = Number.isInteger(value) ? String(value) : String(Number(value.toFixed(digits)));
   return unit ? `${text} ${unit}` : text;
 }
 
@@ -111,7 +115,7 @@ export function WorkingTable({ check, fmt }: { check: Pick<LoadCheck, 'working'>
                   <ul className="space-y-0.5">
                     {Object.entries(w.inputs).map(([k, v]) => {
                       const { name, unit } = inputName(k);
-                      return <li key={k}><span className="text-muted">{name}:</span> {figure(v, unit)}</li>;
+                      return <li key={k}><span className="text-muted">{name}:</span> {figure(v, unit, 6)}</li>;
                     })}
                   </ul>
                 </td>
