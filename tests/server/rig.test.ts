@@ -1,5 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { readdirSync } from 'node:fs';
+import request from 'supertest';
 import { join } from 'node:path';
 import { as, createTestApp, type TestContext } from '../helpers/app';
 import { makeGear, makePoint, makeRoom, makeStandardPath } from '../helpers/factories';
@@ -212,6 +213,32 @@ describe('documents', () => {
     expect(file.headers['x-content-type-options']).toBe('nosniff');
     expect(file.headers['content-disposition']).toMatch(/assessment\.pdf/);
     expect(file.headers['content-type']).toMatch(/application\/pdf/);
+  });
+
+  it('refuses an SVG with script and an executable named as a PDF, and types a double-extension file by its bytes', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const g = await makeGear(ctx.db);
+    const svg = await rigger.post(`/api/gear/${g}/documents`).attach('file', Buffer.from('<?xml version="1.0"?><svg xmlns="http://www.w3.org/2000/svg"><script>alert(1)</script></svg>'), 'label.svg');
+    expect(svg.status).toBe(415);
+    const elf = await rigger.post(`/api/gear/${g}/documents`).attach('file', Buffer.from('7f454c46020101000000000000000000', 'hex'), 'manual.pdf');
+    expect(elf.status).toBe(415);
+    const doubled = await rigger.post(`/api/gear/${g}/documents`).attach('file', PDF, 'certificate.png.pdf.exe');
+    expect(doubled.status).toBe(201);
+    expect(doubled.body.mime).toBe('application/pdf');
+    // Stored under a random name with the extension of its real type, never the one it came with.
+    const stored = readdirSync(join(ctx.dir, 'uploads'));
+    expect(stored).toHaveLength(1);
+    expect(stored[0]).toMatch(/^[0-9a-f-]{36}\.pdf$/);
+    const served = await rigger.get(doubled.body.url);
+    expect(served.headers['content-type']).toMatch(/application\/pdf/);
+  });
+
+  it('serves documents to signed-in staff only', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const p = await makePoint(ctx.db);
+    const up = await rigger.post(`/api/points/${p.id}/documents`).attach('file', PDF, 'a.pdf');
+    const anonymous = await request(ctx.app).get(up.body.url);
+    expect(anonymous.status).toBe(401);
   });
 
   it('refuses text posing as a PNG (415), an empty file (400) and a file over the limit (413), leaving nothing on disk', async () => {
