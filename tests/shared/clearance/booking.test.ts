@@ -4,78 +4,16 @@ import {
   instructorReasons,
   sessionRisk,
   type BookingSession,
-  type GearSnapshot,
-  type LinkSnapshot,
   type PointSnapshot,
 } from '../../../shared/clearance';
 import { checkLoadPath } from '../../../shared/rigging';
 import { defaultPolicy, type Policy } from '../../../shared/schemas/policy';
-import type { GearKind } from '../../../shared/schemas/vocabulary';
+import { clearedAt, gear, healthyPoint as point, link } from './fixtures';
 
 // Europe/London; textile 30 d, hardware 90 d, structure 365 d, warning 7 d, factor 5 [studio choice].
 const policy: Policy = defaultPolicy;
 
-let nextId = 1;
-function gear(kind: GearKind, over: Partial<GearSnapshot> = {}): GearSnapshot {
-  const id = nextId++;
-  return {
-    id,
-    kind,
-    material: 'steel',
-    gate: 'screw',
-    serial: `SN-${id}`,
-    majorKn: 40,
-    minorKn: 12,
-    gateOpenKn: 8,
-    wllKn: null,
-    multiDirectional: false,
-    status: 'in_service',
-    manufacturedOn: null,
-    inServiceOn: null,
-    serviceLifeYears: null,
-    inspectedUntil: null,
-    ...over,
-  };
-}
-function link(g: GearSnapshot, over: Partial<LinkSnapshot> = {}): LinkSnapshot {
-  return { gear: g, mode: 'major', threeWay: false, basketOverHalf: false, leg: null, includedAngleDeg: null, ...over };
-}
-
-// Cleared 2 June 2025, 10:00 BST; the round sling gives 30 days: cleared until 2 Jul 10:00.
-const clearedAt = new Date('2025-06-02T09:00:00Z');
 const now = new Date('2025-06-10T08:00:00Z');
-
-function point(over: Partial<PointSnapshot> = {}): PointSnapshot {
-  return {
-    id: 7,
-    label: 'B-2',
-    structure: 'beam',
-    structuralRatingKn: 12,
-    inService: true,
-    apparatus: ['fabric', 'hammock'],
-    maxPerformers: 1,
-    links: [
-      link(gear('beam_clamp')),
-      link(gear('round_sling', { material: 'polyester', gate: 'none', minorKn: null, gateOpenKn: null })),
-      link(gear('carabiner')),
-      link(gear('swivel', { serial: 'SW-0031', gate: 'none', gateOpenKn: null })),
-      link(gear('carabiner')),
-      link(
-        gear('fabric', {
-          material: 'nylon',
-          gate: 'none',
-          minorKn: null,
-          gateOpenKn: null,
-          serial: 'FB-12',
-          inspectedUntil: new Date('2025-12-01T10:00:00Z'),
-        }),
-      ),
-    ],
-    lastClearance: { at: clearedAt, voidedAt: null },
-    openFaults: [],
-    ...over,
-  };
-}
 
 // One performer on fabric: W = 1 × 90 kg × g × 5.6 = 4.94 kN [studio choice on published figures].
 function session(over: Partial<BookingSession> = {}): BookingSession {
