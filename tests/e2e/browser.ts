@@ -97,6 +97,3 @@ export async function createFabricPoint(page: Page, baseUrl: string, { roomId, l
   }
   return point.id;
 }
-
-/** What is on the screen only: for steps with a dialog or drawer open, which a full-page shot draws oddly. */
-export const shotViewport = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`) });

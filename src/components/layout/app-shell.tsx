@@ -59,12 +59,13 @@ export function AppShell({ nav, person, onSignOut, children }: { nav: ShellNavIt
         </nav>
         {footer}
       </aside>
-      <div className="no-print flex items-center justify-between bg-pine-700 px-4 py-2 md:hidden">
+      {/* A banner landmark, so the phone's top bar is not content outside every landmark. */}
+      <header className="no-print flex items-center justify-between bg-pine-700 px-4 py-2 md:hidden">
         <Logo />
         <button onClick={() => setOpen((o) => !o)} aria-expanded={open} aria-controls="phone-nav" className="flex size-11 items-center justify-center rounded-lg text-white" aria-label={open ? 'Close menu' : 'Open menu'}>
           {open ? <X aria-hidden /> : <Menu aria-hidden />}
         </button>
-      </div>
+      </header>
       {open ? (
         <nav id="phone-nav" aria-label="Main" className="no-print space-y-4 bg-pine-700 px-4 pb-4 md:hidden">
           {links}

@@ -1,4 +1,4 @@
-import { useEffect, useRef, type ReactNode } from 'react';
+import { useEffect, useId, useRef, type ReactNode } from 'react';
 import { Button } from './button';
 
 /** A modal question before anything destructive. Escape or Cancel closes it. */
@@ -24,6 +24,8 @@ export function ConfirmDialog({
   onCancel: () => void;
 }) {
   const ref = useRef<HTMLDialogElement>(null);
+  // One id per dialog: a page with a confirm per row (Staff) must not label them all with the first title.
+  const titleId = useId();
   useEffect(() => {
     const d = ref.current;
     if (!d) return;
@@ -31,9 +33,9 @@ export function ConfirmDialog({
     if (!open && d.open) d.close();
   }, [open]);
   return (
-    <dialog ref={ref} onCancel={(e) => { e.preventDefault(); onCancel(); }} className="m-auto w-full max-w-md rounded-2xl p-0 backdrop:bg-ink/40" aria-labelledby="confirm-title">
+    <dialog ref={ref} onCancel={(e) => { e.preventDefault(); onCancel(); }} className="m-auto w-full max-w-md rounded-2xl p-0 backdrop:bg-ink/40" aria-labelledby={titleId}>
       <div className="space-y-4 p-6">
-        <h2 id="confirm-title" className="text-lg font-semibold">{title}</h2>
+        <h2 id={titleId} className="text-lg font-semibold">{title}</h2>
         {children ? <div className="text-sm text-muted">{children}</div> : null}
         <div className="flex justify-end gap-2">
           <Button variant="secondary" onClick={onCancel}>{cancelLabel}</Button>

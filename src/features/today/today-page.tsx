@@ -35,9 +35,9 @@ export function TodayPage() {
         <p className="text-lg text-pine-800">{formatInZone(studioDay, timeZone, 'weekday')}</p>
         <p className="flex flex-wrap items-center gap-x-2 text-sm text-muted">
           <span>{mine ? 'Your classes' : 'Every class'} today · times in {timeZone.replace(/_/g, ' ')}</span>
-          <button type="button" onClick={() => board.refetch()} className="inline-flex min-h-11 items-center gap-1 rounded-lg px-2 font-medium text-pine-700 hover:bg-pine-50" aria-label="Refresh now">
+          <button type="button" onClick={() => board.refetch()} className="inline-flex min-h-11 items-center gap-1 rounded-lg px-2 font-medium text-pine-700 hover:bg-pine-50">
             <RefreshCw className={`size-4 ${board.isFetching ? 'animate-spin' : ''}`} aria-hidden />
-            Updated {formatInZone(new Date(board.dataUpdatedAt).toISOString(), timeZone, 'time')}
+            <span className="sr-only">Refresh now ·</span> Updated {formatInZone(new Date(board.dataUpdatedAt).toISOString(), timeZone, 'time')}
           </button>
         </p>
       </header>

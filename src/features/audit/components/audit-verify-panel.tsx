@@ -39,7 +39,7 @@ export function AuditVerifyPanel({ timeZone }: { timeZone: string }) {
       </div>
       <details onToggle={(e) => setShowRecent((e.target as HTMLDetailsElement).open)}>
         <summary className="flex min-h-11 cursor-pointer items-center font-medium">Latest entries</summary>
-        {recent.isPending ? <Loading /> : recent.isError ? <ErrorState error={recent.error} retry={() => recent.refetch()} /> : (
+        {recent.isLoading ? <Loading /> : recent.isPending ? null : recent.isError ? <ErrorState error={recent.error} retry={() => recent.refetch()} /> : (
           <ol className="divide-y divide-line text-sm">
             {recent.data.map((e) => (
               <li key={e.id} className="flex flex-wrap gap-x-3 py-1.5">

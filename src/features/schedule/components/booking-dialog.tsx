@@ -169,19 +169,22 @@ function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: Boo
             <option value="">{rooms.isPending ? 'Loading…' : 'Pick a room'}</option>
             {rooms.data?.map((r) => <option key={r.id} value={r.id}>{r.name}</option>)}
           </SelectField>
-          <div className="grid gap-3 sm:grid-cols-3">
-            <TextField
-              label={v.repeat === 'weekly' ? 'First day' : 'Day'}
-              type="date"
-              error={e.date?.message}
-              {...register('date', {
-                onChange: (ev) => {
-                  // A weekly class on one day follows the first day's weekday.
-                  const wd = weekdayIndex(ev.target.value);
-                  if (getValues('days').length === 1 && wd !== null) setValue('days', [weekdays[wd].code]);
-                },
-              })}
-            />
+          {/* The day on a line of its own: a third of the column cut the date off ("12/05/202"). */}
+          <div className="grid grid-cols-2 gap-3">
+            <div className="col-span-2">
+              <TextField
+                label={v.repeat === 'weekly' ? 'First day' : 'Day'}
+                type="date"
+                error={e.date?.message}
+                {...register('date', {
+                  onChange: (ev) => {
+                    // A weekly class on one day follows the first day's weekday.
+                    const wd = weekdayIndex(ev.target.value);
+                    if (getValues('days').length === 1 && wd !== null) setValue('days', [weekdays[wd].code]);
+                  },
+                })}
+              />
+            </div>
             <TextField
               label="Starts"
               type="time"

@@ -24,20 +24,19 @@ export function CancelSessionForm({ session, timeZone, onDone }: { session: Sess
   const e = form.formState.errors;
   const confirm = () => {
     if (!confirming) return;
-    cancel.mutate(
-      { id: session.id, reason: confirming.reason, scope },
-      {
-        onSuccess: () => {
-          setConfirming(null);
-          const text = `Cancelled${scope === 'following' ? ', with the following classes' : ''}. ${MAIL_NOTE}`;
-          toast.success(`${session.className} on ${whenShort(session.startsAt, session.endsAt, timeZone)}: ${text}`);
-          onDone(text);
-        },
-        onError: (err) => {
-          setConfirming(null);
-          if (err instanceof ApiError && err.fields.reason) form.setError('reason', { message: err.fields.reason });
-          toast.error(errorMessage(err));
-        },
+    // mutateAsync, not mutate's callbacks: once the class reads as cancelled this form is unmounted, and
+    // React Query skips mutate's callbacks once their component is gone (the desk would see no confirmation).
+    cancel.mutateAsync({ id: session.id, reason: confirming.reason, scope }).then(
+      () => {
+        setConfirming(null);
+        const text = `Cancelled${scope === 'following' ? ', with the following classes' : ''}. ${MAIL_NOTE}`;
+        toast.success(`${session.className} on ${whenShort(session.startsAt, session.endsAt, timeZone)}: ${text}`);
+        onDone(text);
+      },
+      (err: unknown) => {
+        setConfirming(null);
+        if (err instanceof ApiError && err.fields.reason) form.setError('reason', { message: err.fields.reason });
+        toast.error(errorMessage(err));
       },
     );
   };

@@ -32,6 +32,8 @@ export interface SlotRequest {
   allDay: boolean;
 }
 
+const narrowScreen = () => typeof window !== 'undefined' && window.matchMedia('(max-width: 639px)').matches;
+
 const hhmm = (h: number) => `${String(h).padStart(2, '0')}:00:00`;
 
 export default function ScheduleCalendar({
@@ -103,7 +105,8 @@ export default function ScheduleCalendar({
         locale={enGb}
         timeZone="UTC"
         now={() => floatingNow(timeZone)}
-        initialView="timeGridWeek"
+        // Seven columns do not fit a phone: it opens on the day, and the agenda lists it in full.
+        initialView={narrowScreen() ? 'timeGridDay' : 'timeGridWeek'}
         headerToolbar={{ left: 'prev,next today', center: 'title', right: 'dayGridMonth,timeGridWeek,timeGridDay' }}
         // Text, not FullCalendar's icon font: the app's content security policy serves fonts from 'self' only.
         buttonIcons={false}

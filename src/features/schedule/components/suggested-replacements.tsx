@@ -25,20 +25,19 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
     const map = new Map(risky.slice(0, replacements.length).map((id, i) => [id, replacements[i].pointId]));
     const pointIds = session.pointIds.map((id) => map.get(id) ?? id);
     setRefusal(null);
-    swapPoints.mutate(
-      { id: session.id, pointIds },
-      {
-        onSuccess: (s) => {
-          const what = [...map.entries()].map(([from, to]) => `${labelOf(from)} → ${labelOf(to)}`).join(', ');
-          const text = `Swapped ${what}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
-          toast.success(text);
-          onSwapped(text);
-        },
-        onError: (err) => {
-          const c = conflictOf(err);
-          if (c) setRefusal(conflictLines(c, labelOf));
-          else toast.error(errorMessage(err));
-        },
+    // mutateAsync, not mutate's callbacks: a swap that makes the class calm unmounts this panel when the
+    // schedule is re-read, and React Query skips mutate's callbacks once their component is gone.
+    swapPoints.mutateAsync({ id: session.id, pointIds }).then(
+      (s) => {
+        const what = [...map.entries()].map(([from, to]) => `${labelOf(from)} → ${labelOf(to)}`).join(', ');
+        const text = `Swapped ${what}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
+        toast.success(text);
+        onSwapped(text);
+      },
+      (err: unknown) => {
+        const c = conflictOf(err);
+        if (c) setRefusal(conflictLines(c, labelOf));
+        else toast.error(errorMessage(err));
       },
     );
   };
