@@ -177,7 +177,7 @@ describe('pre-use checks', () => {
     const p = await makePoint(ctx.db);
     await makeStandardPath(ctx.db, p.id);
     let today = await instructor.get('/api/today');
-    expect(today.body.points.find((x: { pointId: number }) => x.pointId === p.id).preuseDue).toBe(true);
+    expect(today.body.points.find((x: { pointId: number }) => x.pointId === p.id)).toMatchObject({ preuseDue: true, preuse_due: true });
     const list = await instructor.get(`/api/points/${p.id}/preuse`);
     const items = list.body.items.map((i: { key: string }) => ({ key: i.key, result: 'pass' }));
     expect((await instructor.post(`/api/points/${p.id}/preuse`).send({ items })).status).toBe(201);

@@ -225,3 +225,22 @@ describe('GET /api/sessions', () => {
   });
 });
 
+
+describe('GET /api/today', () => {
+  it('gives an instructor their own classes today with each point’s status, and the desk every class', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    // The test clock reads 10:00Z on 1 Dec: both classes are later the same London day.
+    expect((await desk.post('/api/sessions').send(body(s, { startsAt: '2026-12-01T18:00:00Z', endsAt: '2026-12-01T19:00:00Z', pointIds: [s.points[0]] }))).status).toBe(201);
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, startsAt: '2026-12-01T18:00:00Z', endsAt: '2026-12-01T19:00:00Z', pointIds: [s.points[1]] }))).status).toBe(201);
+    // Tomorrow's class is not today's.
+    expect((await desk.post('/api/sessions').send(body(s, { startsAt: '2026-12-02T18:00:00Z', endsAt: '2026-12-02T19:00:00Z', pointIds: [s.points[0]] }))).status).toBe(201);
+    const { agent } = await signIn(ctx.app, s.instructor.email);
+    const mine = await agent.get('/api/today');
+    expect(mine.body.sessions).toHaveLength(1);
+    expect(mine.body.sessions[0].points).toEqual([expect.objectContaining({ pointId: s.points[0], status: 'cleared', preuse_due: true })]);
+    const all = await desk.get('/api/today');
+    expect(all.body.sessions).toHaveLength(2);
+  });
+});

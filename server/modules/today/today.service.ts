@@ -40,7 +40,9 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
       const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
       const pointView = (id: number, at: Date) => {
         const b = byId.get(id)!;
-        return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(b.snapshot, policy, at)), preuseDue: !preuse.has(id), lastPreuseAt: preuse.get(id) ?? null };
+        const due = !preuse.has(id);
+        // `preuse_due` is the contract's word (PRODUCT.md §6.1); `preuseDue` is the client's.
+        return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(b.snapshot, policy, at)), preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
       };
       return {
         studioDay: studioDay(now, policy.timeZone),
