@@ -1,5 +1,5 @@
 import { lazy, Suspense, type ComponentType } from 'react';
-import { createBrowserRouter, Navigate } from 'react-router-dom';
+import { Navigate, useRoutes, type RouteObject } from 'react-router-dom';
 import { SignedInLayout } from './signed-in-layout';
 import { Loading } from '../components/ui/states';
 import { paths } from '../lib/paths';
@@ -14,7 +14,9 @@ const page = (load: () => Promise<{ default: ComponentType }>) => {
   );
 };
 
-export const router = createBrowserRouter([
+// Declarative routing (useRoutes) rather than a data router: we load data with TanStack Query, and
+// the data-router machinery would add to the JavaScript every page loads first.
+export const routes: RouteObject[] = [
   { path: paths.signIn, element: page(() => import('../features/auth/sign-in-page').then((m) => ({ default: m.SignInPage }))) },
   {
     element: <SignedInLayout />,
@@ -32,4 +34,8 @@ export const router = createBrowserRouter([
       { path: '*', element: <p className="rounded-xl border border-line bg-white p-6">There is no page at this address. Use the menu to find your way.</p> },
     ],
   },
-]);
+];
+
+export function AppRoutes() {
+  return useRoutes(routes);
+}
