@@ -31,16 +31,15 @@ export interface SnapshotBundle {
 }
 
 /**
- * Everything the status rules need for a set of points, in four queries whatever the number of
- * points: the points, their links, the gear in them, and the open faults on either.
+ * Everything the status rules need for a set of points, in three queries whatever the number of
+ * points: the points, their links with the gear in them, and the open faults on either.
  */
 export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: number[]; roomId?: number } = {}, trx: Db = db): Promise<SnapshotBundle[]> {
   const points = await rig.listPoints(filter, trx);
   if (!points.length) return [];
   const pointIds = points.map((p) => p.id);
-  const links = await rig.linksOf(filter.ids || filter.roomId ? pointIds : 'all', trx);
-  const gear = new Map((await rig.gearByIds([...new Set(links.map((l) => l.gearId))], trx)).map((g) => [g.id, g]));
-  const gearIds = [...gear.keys()];
+  const links = await rig.linksWithGear(filter.ids || filter.roomId ? pointIds : 'all', trx);
+  const gearIds = [...new Set(links.map((l) => l.gearId))];
   const faults = (await trx('faults')
     .where('status', 'open')
     .where((w) => {
@@ -51,10 +50,8 @@ export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: 
 
   const linksByPoint = new Map<number, Array<LinkRecord & { gear: GearRecord }>>();
   for (const l of links) {
-    const g = gear.get(l.gearId);
-    if (!g) continue;
     const list = linksByPoint.get(l.pointId) ?? [];
-    list.push({ ...l, gear: g });
+    list.push(l);
     linksByPoint.set(l.pointId, list);
   }
   return points.map((p) => {

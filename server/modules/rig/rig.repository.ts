@@ -298,6 +298,30 @@ export function rigRepository(db: Db) {
       if (pointIds !== 'all') q.whereIn('point_id', pointIds);
       return (await q).map(toLink);
     },
+    /** Links with their gear in one query (for status snapshots): each link knows its point. */
+    async linksWithGear(pointIds: number[] | 'all', trx: Db = db): Promise<Array<LinkRecord & { gear: GearRecord }>> {
+      const q = trx('load_path_links')
+        .join('gear_items', 'gear_items.id', 'load_path_links.gear_id')
+        .join('points', 'points.id', 'load_path_links.point_id')
+        .orderBy([{ column: 'load_path_links.point_id' }, { column: 'load_path_links.position' }])
+        .select(
+          'gear_items.*',
+          'load_path_links.point_id as point_id',
+          'points.label as point_label',
+          'load_path_links.position as link_position',
+          'load_path_links.mode as link_mode',
+          'load_path_links.three_way as link_three_way',
+          'load_path_links.basket_over_half as link_basket_over_half',
+          'load_path_links.leg as link_leg',
+          'load_path_links.included_angle_deg as link_included_angle_deg',
+        );
+      if (pointIds !== 'all') q.whereIn('load_path_links.point_id', pointIds);
+      const rows = (await q) as Array<GearRow & { point_id: number; link_position: number; link_mode: LoadingMode; link_three_way: number | boolean; link_basket_over_half: number | boolean; link_leg: BridleLeg | null; link_included_angle_deg: number | null }>;
+      return rows.map((r) => ({
+        ...toLink({ id: 0, point_id: r.point_id, position: r.link_position, gear_id: r.id, mode: r.link_mode, three_way: r.link_three_way, basket_over_half: r.link_basket_over_half, leg: r.link_leg, included_angle_deg: r.link_included_angle_deg }),
+        gear: toGear(r),
+      }));
+    },
     async replaceLinks(pointId: number, links: LoadPathBody['links'], trx: Db) {
       await trx('load_path_links').where({ point_id: pointId }).delete();
       if (!links.length) return;
