@@ -3,6 +3,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { TestProject } from 'vitest/node';
+import { freePort } from '../helpers/free-port';
 
 let server: ChildProcess | null = null;
 let dir = '';
@@ -10,7 +11,7 @@ let dir = '';
 /** Starts the real server as `npm start` would (after the build), on its own port and database. */
 export async function setup(project: TestProject) {
   dir = mkdtempSync(join(tmpdir(), 'loftwise-e2e-'));
-  const port = 3100 + Math.floor(Math.random() * 800);
+  const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     env: { ...process.env, PORT: String(port), APP_URL: url, LOFTWISE_DB: join(dir, 'e2e.sqlite'), UPLOAD_DIR: join(dir, 'uploads'), SMTP_URL: '' },

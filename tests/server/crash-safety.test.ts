@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { createDb, migrate } from '../../server/db/knex';
 import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_PASSWORD } from '../helpers/factories';
+import { freePort } from '../helpers/free-port';
 
 // The real server as a child process, killed with SIGKILL mid-load again and again, restarted on
 // the same database: every acknowledged write must survive and the file must stay sound.
@@ -71,7 +72,7 @@ describe('crash safety', () => {
   it(`keeps every acknowledged write through ${CYCLES} SIGKILLs under write load`, async () => {
     let slot = 0;
     for (let cycle = 0; cycle < CYCLES; cycle++) {
-      const port = 4100 + Math.floor(Math.random() * 800);
+      const port = await freePort();
       const base = `http://127.0.0.1:${port}`;
       const child = await start(port);
       const desk = await signIn(base, 'desk@crash.test');
@@ -113,7 +114,7 @@ describe('crash safety', () => {
     expect(acknowledged.faults.size + acknowledged.sessions.size + acknowledged.inspections.size).toBeGreaterThan(CYCLES);
 
     // One more clean start must succeed on the crashed file (migrations, WAL recovery).
-    const port = 4950;
+    const port = await freePort();
     const child = await start(port);
     child.kill('SIGTERM');
     await new Promise((r) => child.once('exit', r));
