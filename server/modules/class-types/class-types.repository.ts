@@ -1,4 +1,5 @@
 import type { Db } from '../../db/knex';
+import { valueTaken } from '../../db/queries';
 import type { ClassType, CreateClassType } from '../../../shared/schemas/class-types';
 
 interface Row {
@@ -33,9 +34,7 @@ export function classTypesRepository(db: Db) {
       const r = await trx<Row>('class_types').where({ id }).first();
       return r ? toClassType(r) : null;
     },
-    async nameTaken(name: string) {
-      return Boolean(await db('class_types').whereRaw('lower(name) = lower(?)', [name]).first('id'));
-    },
+    nameTaken: (name: string) => valueTaken(db, 'class_types', 'name', name),
     async insert(c: CreateClassType, at: Date, trx: Db = db): Promise<number> {
       const [row] = await trx('class_types')
         .insert({

@@ -1,4 +1,5 @@
 import type { Db } from '../../db/knex';
+import { valueTaken } from '../../db/queries';
 import type { ApparatusKind, BridleLeg, Gate, GearEventKind, GearKind, GearStatus, LoadingMode, Material, Structure } from '../../../shared/schemas/vocabulary';
 import type { CreateGear, CreatePoint, GearListQuery, LoadPathBody, UpdateGear, UpdatePoint } from '../../../shared/schemas/rig';
 
@@ -180,9 +181,7 @@ export function rigRepository(db: Db) {
     async roomById(id: number, trx: Db = db) {
       return (await trx('rooms').where({ id }).first('id', 'name')) as { id: number; name: string } | undefined;
     },
-    async roomNameTaken(name: string) {
-      return Boolean(await db('rooms').whereRaw('lower(name) = lower(?)', [name]).first('id'));
-    },
+    roomNameTaken: (name: string) => valueTaken(db, 'rooms', 'name', name),
     async insertRoom(name: string, at: Date, trx: Db = db) {
       const [row] = await trx('rooms').insert({ name, created_at: at.toISOString() }).returning(['id', 'name']);
       return row as { id: number; name: string };
@@ -199,11 +198,7 @@ export function rigRepository(db: Db) {
       const row = await trx<PointRow>('points').join('rooms', 'rooms.id', 'points.room_id').where('points.id', id).first('points.*', 'rooms.name as room_name');
       return row ? toPoint(row) : null;
     },
-    async pointLabelTaken(label: string, exceptId?: number) {
-      const q = db('points').whereRaw('lower(label) = lower(?)', [label]);
-      if (exceptId) q.whereNot('id', exceptId);
-      return Boolean(await q.first('id'));
-    },
+    pointLabelTaken: (label: string, exceptId?: number) => valueTaken(db, 'points', 'label', label, exceptId),
     async insertPoint(p: CreatePoint, at: Date, trx: Db = db): Promise<number> {
       const now = at.toISOString();
       const [row] = await trx('points')
@@ -264,11 +259,7 @@ export function rigRepository(db: Db) {
       if (!ids.length) return [];
       return (await gearSelect(trx).whereIn('gear_items.id', ids)).map((r: GearRow) => toGear(r));
     },
-    async serialTaken(serial: string, exceptId?: number) {
-      const q = db('gear_items').whereRaw('lower(serial) = lower(?)', [serial]);
-      if (exceptId) q.whereNot('id', exceptId);
-      return Boolean(await q.first('id'));
-    },
+    serialTaken: (serial: string, exceptId?: number) => valueTaken(db, 'gear_items', 'serial', serial, exceptId),
     async insertGear(g: CreateGear, at: Date, trx: Db = db): Promise<number> {
       const now = at.toISOString();
       const [row] = await trx('gear_items')
@@ -334,7 +325,7 @@ export function rigRepository(db: Db) {
           three_way: l.threeWay,
           basket_over_half: l.basketOverHalf,
           leg: l.leg ?? null,
-          included_angle_deg: l.leg ? (l.includedAngleDeg ?? null) : (l.includedAngleDeg ?? null),
+          included_angle_deg: l.includedAngleDeg ?? null,
         })),
       );
     },
