@@ -3,6 +3,12 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { z } from 'zod';
 
+/** A whole number of seconds within bounds, with one message naming the variable for every way it can be wrong. */
+const seconds = (name: string, min: number, max: number, fallback: number) => {
+  const message = `${name} must be a whole number of seconds from ${min} to ${max}`;
+  return z.coerce.number({ message }).int(message).min(min, message).max(max, message).default(fallback);
+};
+
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
@@ -14,6 +20,10 @@ const envSchema = z.object({
   APP_URL: z.url({ message: 'APP_URL must be a full URL such as http://localhost:3000' }).optional(),
   TRUST_PROXY: z.coerce.number().int().min(0).max(5).default(0),
   LOFTWISE_SEED: z.enum(['demo', 'none']).default('demo'),
+  // How long a message being sent stays claimed (it goes again after a crash once this runs out),
+  // and how often the mail worker runs. Tests shorten both; the defaults suit a studio.
+  OUTBOX_LEASE_SECONDS: seconds('OUTBOX_LEASE_SECONDS', 1, 86_400, 300),
+  OUTBOX_INTERVAL_SECONDS: seconds('OUTBOX_INTERVAL_SECONDS', 1, 3_600, 15),
 });
 
 export interface Config {
@@ -27,6 +37,8 @@ export interface Config {
   appUrl: string;
   seed: 'demo' | 'none';
   trustProxyHops: number;
+  outboxLeaseMs: number;
+  outboxIntervalMs: number;
 }
 
 /** Reads the environment once, failing fast with every problem named. */
@@ -52,6 +64,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     appUrl,
     seed: e.LOFTWISE_SEED,
     trustProxyHops: e.TRUST_PROXY,
+    outboxLeaseMs: e.OUTBOX_LEASE_SECONDS * 1000,
+    outboxIntervalMs: e.OUTBOX_INTERVAL_SECONDS * 1000,
   };
 }
 

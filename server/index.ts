@@ -33,7 +33,7 @@ async function main() {
     if (fakeSmtp) console.log(`Built-in mail catcher on ${fakeSmtp.url}; read it on the Mailbox page.`);
   });
   // The mail worker: reminders, at-risk alerts, the digest, and sending the outbox (PRODUCT.md §5).
-  const mailWorker = startMailWorker({ db, mailer, clock: systemClock, appUrl: config.appUrl });
+  const mailWorker = startMailWorker({ db, mailer, clock: systemClock, appUrl: config.appUrl, intervalMs: config.outboxIntervalMs, leaseMs: config.outboxLeaseMs });
 
   let stopping = false;
   const stop = async (signal: string) => {

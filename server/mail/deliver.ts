@@ -1,10 +1,14 @@
+import { createHash } from 'node:crypto';
 import type { Mailer } from './transport';
 import type { MailCycleContext } from './context';
 import type { OutboxMessage } from '../modules/outbox/outbox.repository';
 import type { MailSession } from './mail-data.repository';
 import type { Clock } from '../clock';
 
-/** How long a claimed row stays ours; nodemailer gives up on a send well within it (10 + 10 + 20 s). */
+/**
+ * How long a claimed row stays ours by default (OUTBOX_LEASE_SECONDS); nodemailer gives up on a
+ * send well within it (10 + 10 + 20 s).
+ */
 export const LEASE_MS = 5 * 60_000;
 const BATCH = 25;
 /** nodemailer's codes for a server that cannot be reached or spoken to, as opposed to one message refused. */
@@ -20,6 +24,17 @@ function staleBecause(m: OutboxMessage, s: MailSession | undefined, now: Date): 
   return null;
 }
 
+/**
+ * The Message-ID a row goes out with, the same at every attempt: the row's id and a digest of its
+ * unique key (a key may hold characters a Message-ID may not), at the app's host name (without the
+ * port, so a restart on another port keeps it). A message sent again after a crash is therefore
+ * recognisably the same message to the receiving server and to a mail client.
+ */
+export function outboxMessageId(m: Pick<OutboxMessage, 'id' | 'uniqueKey'>, appUrl: string): string {
+  const key = createHash('sha256').update(m.uniqueKey).digest('hex').slice(0, 16);
+  return `<outbox.${m.id}.${key}@${new URL(appUrl).hostname}>`;
+}
+
 export interface DeliverySummary {
   sent: number;
   retrying: number;
@@ -27,15 +42,24 @@ export interface DeliverySummary {
   dropped: number;
 }
 
+export interface DeliverOptions {
+  /** Set while the server shuts down: the rest of the batch is handed back untried. */
+  stopping?: () => boolean;
+  /** How long a claimed row stays ours (default LEASE_MS). */
+  leaseMs?: number;
+}
+
 /**
- * Sends what is due. Each row is claimed (state `sending` with a lease) before the SMTP call and
- * marked sent right after it. A crash between the server accepting a message and `markSent` leaves
- * the row `sending`; once the lease runs out it is sent again, so such a message may arrive twice.
- * The window is one local SQLite write long, and no transaction is held open across the SMTP call.
+ * Sends what is due, one message at a time. Each row is claimed (state `sending` with a lease)
+ * before the SMTP call and marked sent right after it. A crash between the server accepting a
+ * message and `markSent` leaves the row `sending`; once the lease runs out it is sent again, so such
+ * a message may arrive twice (at-least-once), under the same Message-ID. The window is one local
+ * SQLite write long, and no transaction is held open across the SMTP call.
  */
-export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: Clock, stopping: () => boolean = () => false): Promise<DeliverySummary> {
+export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: Clock, options: DeliverOptions = {}): Promise<DeliverySummary> {
+  const { stopping = () => false, leaseMs = LEASE_MS } = options;
   const summary: DeliverySummary = { sent: 0, retrying: 0, failed: 0, dropped: 0 };
-  const claimed = await ctx.outbox.claimDue(ctx.now, BATCH, LEASE_MS);
+  const claimed = await ctx.outbox.claimDue(ctx.now, BATCH, leaseMs);
   if (!claimed.length) return summary;
   const watched = claimed.filter((m) => (m.kind === 'reminder' || m.kind === 'at_risk') && m.sessionId !== null);
   const sessions = await ctx.data.sessionsByIds([...new Set(watched.map((m) => m.sessionId!))]);
@@ -56,7 +80,7 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
     }
     let error: { message: string; serverDown: boolean } | null = null;
     try {
-      await mailer.send({ to: m.to, subject: m.subject, text: m.text, html: m.html });
+      await mailer.send({ messageId: outboxMessageId(m, ctx.appUrl), to: m.to, subject: m.subject, text: m.text, html: m.html });
     } catch (err) {
       const code = (err as { code?: unknown } | null)?.code;
       error = { message: err instanceof Error ? err.message : String(err), serverDown: typeof code === 'string' && SERVER_DOWN.has(code) };

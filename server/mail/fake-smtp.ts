@@ -3,6 +3,8 @@ import { simpleParser, type AddressObject } from 'mailparser';
 import type { AddressInfo } from 'node:net';
 
 export interface CaughtMessage {
+  /** The Message-ID header as sent, angle brackets included ('' when there was none). */
+  messageId: string;
   to: string[];
   subject: string;
   text: string;
@@ -17,14 +19,20 @@ export interface FakeSmtp {
   close(): Promise<void>;
 }
 
+/** Messages the Mailbox page keeps by default; older ones are forgotten. */
 const KEEP = 500;
 
 function addresses(a: AddressObject | AddressObject[] | undefined): string[] {
   return ([] as AddressObject[]).concat(a ?? []).flatMap((o) => o.value.map((v) => v.address ?? '')).filter(Boolean);
 }
 
-/** The built-in mail catcher: a real SMTP server on loopback that keeps what it receives, newest first. */
-export async function startFakeSmtp(port = 0): Promise<FakeSmtp> {
+/**
+ * The built-in mail catcher: a real SMTP server on loopback that keeps what it receives, newest
+ * first (the last `keep`). A message is kept only once received in full, before the sender is told
+ * it was accepted; one cut off mid-transfer is not.
+ */
+export async function startFakeSmtp(port = 0, options: { keep?: number } = {}): Promise<FakeSmtp> {
+  const keep = options.keep ?? KEEP;
   const caught: CaughtMessage[] = [];
   const server = new SMTPServer({
     // Mail clients may send empty credentials; this server accepts any and offers no TLS.
@@ -36,13 +44,14 @@ export async function startFakeSmtp(port = 0): Promise<FakeSmtp> {
       simpleParser(stream)
         .then((mail) => {
           caught.unshift({
+            messageId: mail.messageId ?? '',
             to: addresses(mail.to),
             subject: mail.subject ?? '',
             text: mail.text ?? '',
             html: typeof mail.html === 'string' ? mail.html : '',
             receivedAt: new Date().toISOString(),
           });
-          caught.length = Math.min(caught.length, KEEP);
+          caught.length = Math.min(caught.length, keep);
           callback();
         })
         .catch((err: Error) => callback(err));
@@ -50,7 +59,13 @@ export async function startFakeSmtp(port = 0): Promise<FakeSmtp> {
   });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
-    server.listen(port, '127.0.0.1', () => resolve());
+    server.listen(port, '127.0.0.1', () => {
+      server.off('error', reject);
+      // Once listening, errors are one client's connection (a sender that hung up or died mid-message):
+      // that connection closes, and an unheard 'error' event must not take the whole process down.
+      server.on('error', () => undefined);
+      resolve();
+    });
   });
   const actual = (server.server.address() as AddressInfo).port;
   return {

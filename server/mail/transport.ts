@@ -1,6 +1,8 @@
 import nodemailer from 'nodemailer';
 
 export interface OutgoingMail {
+  /** `<…@host>`, the same at every attempt to send one outbox row (see outboxMessageId). */
+  messageId: string;
   to: string[];
   subject: string;
   text: string;
@@ -27,7 +29,7 @@ export function smtpMailer(smtpUrl: string, from: string): Mailer {
   });
   return {
     async send(mail) {
-      await transport.sendMail({ from, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html });
+      await transport.sendMail({ from, messageId: mail.messageId, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html });
     },
     close: () => transport.close(),
   };

@@ -35,6 +35,8 @@ export interface MailWorkerDeps {
   /** Read every cycle, so a policy the owner edits applies at once. */
   studio?: Pick<StudioRepository, 'get'>;
   appUrl: string;
+  /** How long a message being sent stays claimed (OUTBOX_LEASE_SECONDS; default LEASE_MS, 5 min). */
+  leaseMs?: number;
   log?: (err: unknown) => void;
 }
 
@@ -81,7 +83,7 @@ export async function runMailCycle(deps: MailWorkerDeps, stopping: () => boolean
     summary.digestsSkipped = r.skipped;
   });
   await step('send', async () => {
-    Object.assign(summary, await deliverDue(ctx, deps.mailer, deps.clock, stopping));
+    Object.assign(summary, await deliverDue(ctx, deps.mailer, deps.clock, { stopping, leaseMs: deps.leaseMs }));
   });
   return summary;
 }
@@ -99,8 +101,8 @@ export interface MailWorker {
 
 /**
  * The mail worker inside the server process (PRODUCT.md §5): a cycle at start and every
- * `intervalMs`. Cycles never overlap: a tick that finds one running is skipped. Everything it
- * decides is in the database, so a restart picks up where it stopped.
+ * `intervalMs` (OUTBOX_INTERVAL_SECONDS; default 15 s). Cycles never overlap: a tick that finds one
+ * running is skipped. Everything it decides is in the database, so a restart picks up where it stopped.
  */
 export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number }): MailWorker {
   const intervalMs = deps.intervalMs ?? 15_000;

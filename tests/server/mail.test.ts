@@ -4,7 +4,8 @@ import { makeGear, makePoint, makeRoom, makeStandardPath, makeUser } from '../he
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { smtpMailer, type Mailer } from '../../server/mail/transport';
 import { startMailWorker, type MailWorker } from '../../server/mail/worker';
-import { LEASE_MS } from '../../server/mail/deliver';
+import { LEASE_MS, outboxMessageId } from '../../server/mail/deliver';
+import { loadConfig } from '../../server/config';
 import { outboxRepository, retryDelayMs, MAX_ATTEMPTS } from '../../server/modules/outbox/outbox.repository';
 import { outboxService } from '../../server/modules/outbox/outbox.service';
 import { studioRepository } from '../../server/modules/studio/studio.repository';
@@ -207,6 +208,30 @@ describe('instructor reminders', () => {
     await w.runOnce();
     await w.runOnce();
     expect(received().map((m) => m.subject)).toEqual(['Hello']);
+  });
+
+  it('sends a message again under the same Message-ID when a crash came between the SMTP server taking it and the row being marked sent', async () => {
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    await outbox.enqueue(ctx.db, { kind: 'digest', uniqueKey: 'test:twice', to: ['someone@example.test'], subject: 'Hello', text: 'Body', html: '<p>Body</p>' });
+    await outbox.enqueue(ctx.db, { kind: 'digest', uniqueKey: 'test:other', to: ['someone@example.test'], subject: 'Other', text: 'Body', html: '<p>Body</p>' });
+    const w = worker();
+    await w.runOnce();
+    const [twice, other] = await rows();
+    // The row as a worker killed right after the SMTP reply leaves it: still `sending`, under its lease.
+    await ctx.db('outbox_messages').where({ id: twice.id }).update({ state: 'sending', sent_at: null, lease_until: new Date(ctx.clock.now().getTime() + LEASE_MS).toISOString() });
+    ctx.clock.advance(LEASE_MS);
+    await w.runOnce();
+
+    const id = outboxMessageId({ id: twice.id, uniqueKey: 'test:twice' }, APP_URL);
+    expect(id).toMatch(/^<outbox\.\d+\.[0-9a-f]{16}@127\.0\.0\.1>$/);
+    expect(received().map((m) => [m.subject, m.messageId])).toEqual([
+      ['Hello', id],
+      ['Other', outboxMessageId({ id: other.id, uniqueKey: 'test:other' }, APP_URL)],
+      ['Hello', id],
+    ]);
+    expect(new Set(received().map((m) => m.messageId)).size).toBe(2);
+    // A restart on another port keeps it.
+    expect(outboxMessageId({ id: twice.id, uniqueKey: 'test:twice' }, 'http://127.0.0.1:4123')).toBe(id);
   });
 
   it('keeps a message queued with its attempts and error while the SMTP server is down, and sends it once it is back', async () => {
@@ -454,5 +479,22 @@ describe('mail templates', () => {
     expect(mail.html).toContain('&quot;frayed&quot; &amp; worn');
     expect(mail.html).not.toMatch(/<img|<link|url\(|src=/i);
     expect(mail.text).toContain('P<1>  blocked  Open fault on point P<1>: "frayed" & worn');
+  });
+});
+
+describe('mail worker settings (OUTBOX_LEASE_SECONDS, OUTBOX_INTERVAL_SECONDS)', () => {
+  const env = { AUTH_SECRET: 'x'.repeat(32), LOFTWISE_DB: ':memory:' };
+
+  it('defaults to a 5-minute lease and a cycle every 15 seconds, and reads both in seconds', () => {
+    expect(loadConfig(env)).toMatchObject({ outboxLeaseMs: LEASE_MS, outboxIntervalMs: 15_000 });
+    expect(loadConfig({ ...env, OUTBOX_LEASE_SECONDS: '2', OUTBOX_INTERVAL_SECONDS: '1' })).toMatchObject({ outboxLeaseMs: 2_000, outboxIntervalMs: 1_000 });
+  });
+
+  it('refuses to start on a value that is not a whole number of seconds in range, naming each variable', () => {
+    for (const [lease, interval] of [['0', '1.5'], ['soon', '3601'], ['86401', '-1']]) {
+      expect(() => loadConfig({ ...env, OUTBOX_LEASE_SECONDS: lease, OUTBOX_INTERVAL_SECONDS: interval })).toThrow(
+        /OUTBOX_LEASE_SECONDS: OUTBOX_LEASE_SECONDS must be a whole number of seconds from 1 to 86400\n.*OUTBOX_INTERVAL_SECONDS: OUTBOX_INTERVAL_SECONDS must be a whole number of seconds from 1 to 3600/,
+      );
+    }
   });
 });
