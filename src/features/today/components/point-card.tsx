@@ -1,11 +1,14 @@
-import { useRef, useState } from 'react';
+import { lazy, Suspense, useRef, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { paths } from '../../../lib/paths';
 import { CircleCheck, ClipboardCheck, Clock, TriangleAlert } from 'lucide-react';
 import { StatusBadge } from '../../../components/ui/status-badge';
+import { Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
 import type { TodayPoint } from '../api';
-import { PreuseCheck } from './preuse-check';
+
+// The checklist loads when a check is opened, so the board's first paint on a phone stays small.
+const PreuseCheck = lazy(() => import('./preuse-check').then((m) => ({ default: m.PreuseCheck })));
 
 const big = 'flex min-h-12 items-center justify-center gap-2 rounded-lg px-4 py-2 text-base font-medium';
 
@@ -48,7 +51,9 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
       </p>
       {blocked ? <p className="mt-2 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; a rigger has to clear the point first.</p> : null}
       {checking ? (
-        <PreuseCheck pointId={point.pointId} label={point.label} sessionId={sessionId} onClose={close} onDone={close} />
+        <Suspense fallback={<div className="mt-4"><Loading label="Opening the pre-use check…" /></div>}>
+          <PreuseCheck pointId={point.pointId} label={point.label} sessionId={sessionId} onClose={close} onDone={close} />
+        </Suspense>
       ) : (
         <div className="mt-4 grid gap-2 sm:grid-cols-2">
           {canCheck && !blocked ? (
