@@ -98,13 +98,39 @@ export function authRoutes(config: ExpressAuthConfig): RequestHandler {
 }
 
 /**
+ * Decoding a session cookie (key derivation and decryption) costs about a millisecond, and a
+ * browser sends the same cookie with every request; the decoded token is kept per Cookie header
+ * until the token's own expiry. Only the token is kept: the person is still read on every request.
+ */
+export function tokenCache(max = 2_000, nowSeconds = () => Date.now() / 1000) {
+  const cache = new Map<string, { sub?: string; exp?: number } | null>();
+  return async (cookieHeader: string | undefined, decode: () => Promise<{ sub?: string; exp?: number } | null>) => {
+    if (!cookieHeader) return null;
+    const hit = cache.get(cookieHeader);
+    if (hit !== undefined) {
+      if (hit && typeof hit.exp === 'number' && hit.exp > nowSeconds()) return hit;
+      cache.delete(cookieHeader);
+    }
+    const token = await decode();
+    if (token && typeof token.exp === 'number' && token.exp > nowSeconds()) {
+      if (cache.size >= max) cache.delete(cache.keys().next().value as string);
+      cache.set(cookieHeader, { sub: token.sub, exp: token.exp });
+    }
+    return token;
+  };
+}
+
+/**
  * Reads the session cookie and loads the person from the database on every request, so a
  * deactivated account or a changed role takes effect at once.
  */
-export function authenticate(config: ExpressAuthConfig, staff: StaffRepository): RequestHandler {
+export function authenticate(config: ExpressAuthConfig, staff: Pick<StaffRepository, 'byId'>): RequestHandler {
   const secureCookie = Boolean(config.useSecureCookies);
+  const tokens = tokenCache();
   return async (req, _res, next) => {
-    const token = await getToken({ req: { headers: req.headers as Record<string, string> }, secret: config.secret as string, secureCookie }).catch(() => null);
+    const token = await tokens(req.headers.cookie, () =>
+      getToken({ req: { headers: req.headers as Record<string, string> }, secret: config.secret as string, secureCookie }).catch(() => null),
+    );
     const id = token?.sub ? Number(token.sub) : NaN;
     if (Number.isInteger(id) && id > 0) {
       const user = await staff.byId(id);
