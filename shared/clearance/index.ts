@@ -4,3 +4,4 @@ export * from './voiding';
 export * from './booking';
 export * from './preuse';
 export * from './checklist';
+export * from './validity';

@@ -8,15 +8,52 @@ import type { GearSnapshot, LinkSnapshot, PointSnapshot, PointStatus, PointStatu
 import { reasonCodes } from './types';
 
 // ---------------------------------------------------------------------------------------------
-// The rigging rules depend only on the path (and the unit its messages quote); a request checks
-// the same snapshot at many instants, so the findings are kept per links array.
+// Memoised work. A request or a mail cycle asks about the same point many times (every class at
+// "now", each class's start for its status and for its inspections). Results are pure in the
+// snapshot, the policy and the instant, so they are kept per snapshot object — but only for
+// snapshots sealed by `freezeSnapshot`: a sealed snapshot cannot change under the cache (writing
+// to it throws), and a snapshot anyone may still change is always worked out afresh.
+
+const sealed = new WeakSet<object>();
+
+function freezeDeep<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const v of Object.values(value as object)) freezeDeep(v);
+  }
+  return value;
+}
+
+/** Freezes a snapshot whole, so the status rules may remember what they found for it. */
+export function freezeSnapshot<T extends PointSnapshot>(snapshot: T): T {
+  freezeDeep(snapshot);
+  sealed.add(snapshot);
+  sealed.add(snapshot.links);
+  return snapshot;
+}
+
+// The rigging rules depend only on the path (and the unit its messages quote).
 const rulesCache = new WeakMap<LinkSnapshot[], Map<string, ReturnType<typeof checkRules>>>();
 function rulesOf(links: LinkSnapshot[], unit: Policy['units']) {
+  if (!sealed.has(links)) return checkRules(links, { displayUnit: unit });
   let byUnit = rulesCache.get(links);
   if (!byUnit) rulesCache.set(links, (byUnit = new Map()));
   let found = byUnit.get(unit);
   if (!found) byUnit.set(unit, (found = checkRules(links, { displayUnit: unit })));
   return found;
+}
+
+/** A per-policy, per-sealed-snapshot memo. */
+function snapshotMemo<V>() {
+  const cache = new WeakMap<Policy, WeakMap<PointSnapshot, V>>();
+  return (snapshot: PointSnapshot, policy: Policy, make: () => V): V => {
+    if (!sealed.has(snapshot)) return make();
+    let bySnapshot = cache.get(policy);
+    if (!bySnapshot) cache.set(policy, (bySnapshot = new WeakMap()));
+    let found = bySnapshot.get(snapshot);
+    if (found === undefined) bySnapshot.set(snapshot, (found = make()));
+    return found;
+  };
 }
 
 // Studio-zone dates. Intervals are counted in the studio's calendar days, so a point cleared at
@@ -118,8 +155,14 @@ export function pointClearanceEnd(snapshot: PointSnapshot, policy: Policy): Date
   return addStudioDays(clearance.at, days, policy.timeZone);
 }
 
-/** The point's own clearance end and the capped `clearedUntil`, computed once. */
+const timesMemo = snapshotMemo<{ own: Date | null; until: Date | null }>();
+
+/** The point's own clearance end and the capped `clearedUntil`, computed once per sealed snapshot. */
 function clearanceTimes(snapshot: PointSnapshot, policy: Policy): { own: Date | null; until: Date | null } {
+  return timesMemo(snapshot, policy, () => clearanceTimesUncached(snapshot, policy));
+}
+
+function clearanceTimesUncached(snapshot: PointSnapshot, policy: Policy): { own: Date | null; until: Date | null } {
   const own = pointClearanceEnd(snapshot, policy);
   if (!own) return { own, until: null };
   const { apparatus } = splitPath(snapshot.links);
@@ -164,7 +207,21 @@ export function blockingReasonsAt(snapshot: PointSnapshot, policy: Policy, t: Da
   return evaluateAt(snapshot, policy, t, clearanceTimes(snapshot, policy));
 }
 
-function evaluateAt(
+const reasonsMemo = snapshotMemo<Map<number, TaggedReason[]>>();
+const INSTANTS_PER_SNAPSHOT = 256;
+
+function evaluateAt(snapshot: PointSnapshot, policy: Policy, t: Date, times: { own: Date | null; until: Date | null }): TaggedReason[] {
+  const byInstant = reasonsMemo(snapshot, policy, () => new Map());
+  const at = t.getTime();
+  let found = byInstant.get(at);
+  if (!found) {
+    if (byInstant.size >= INSTANTS_PER_SNAPSHOT) byInstant.clear();
+    byInstant.set(at, (found = evaluateAtUncached(snapshot, policy, t, times)));
+  }
+  return found;
+}
+
+function evaluateAtUncached(
   snapshot: PointSnapshot,
   policy: Policy,
   t: Date,

@@ -1,5 +1,5 @@
 import type { Db } from '../../db/knex';
-import type { OpenFault, PointSnapshot, GearSnapshot } from '../../../shared/clearance';
+import { freezeSnapshot, type OpenFault, type PointSnapshot, type GearSnapshot } from '../../../shared/clearance';
 import type { GearRecord, LinkRecord, PointRecord, RigRepository } from './rig.repository';
 
 const toDate = (s: string | null) => (s ? new Date(s) : null);
@@ -60,7 +60,8 @@ export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: 
     const openFaults: OpenFault[] = faults
       .filter((f) => f.point_id === p.id || (f.gear_id !== null && inPath.has(f.gear_id)))
       .map((f) => ({ id: f.id, pointId: f.point_id, gearId: f.gear_id, severity: f.severity, description: f.description }));
-    const snapshot: PointSnapshot = {
+    // Sealed: the status rules may then remember what they found for it (shared/clearance/status.ts).
+    const snapshot: PointSnapshot = freezeSnapshot({
       id: p.id,
       label: p.label,
       structure: p.structure,
@@ -78,7 +79,7 @@ export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: 
       })),
       lastClearance: p.lastClearedAt ? { at: new Date(p.lastClearedAt), voidedAt: toDate(p.clearanceVoidedAt) } : null,
       openFaults,
-    };
+    });
     return { point: p, links: pl, snapshot };
   });
 }
