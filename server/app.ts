@@ -40,6 +40,8 @@ import { sessionsRepository } from './modules/sessions/sessions.repository';
 import { sessionsService } from './modules/sessions/sessions.service';
 import { sessionsRoutes } from './modules/sessions/sessions.router';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
+import { dataVersion } from './db/data-version';
+import { derivedCache, noDerivedCache } from './db/derived-cache';
 
 export interface AppDeps {
   db: Db;
@@ -57,10 +59,12 @@ export interface AppDeps {
   benchBaselineDbFile?: string | null;
   /** Proxy hops in front of the server (TRUST_PROXY); 0 when it serves browsers directly. */
   trustProxyHops?: number;
+  /** Keep derived statuses per data version (default true); false works every answer out afresh. */
+  cacheDerived?: boolean;
 }
 
 export interface LoftwiseApp extends Express {
-  locals: Express['locals'] & { routes: RouteDeclaration[] };
+  locals: Express['locals'] & { routes: RouteDeclaration[]; close(): void };
 }
 
 export function createApp(deps: AppDeps): LoftwiseApp {
@@ -99,13 +103,17 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   app.use('/auth', authRoutes(auth));
 
   const { db, clock } = deps;
+  // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
+  const version = dataVersion(db);
+  const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
+  app.locals.close = () => version.close();
   const audit = auditRepository(db);
   const studioRepo = studioRepository(db);
   const rigRepo = rigRepository(db);
   const docs = documentsService({ db, clock, uploadDir: deps.uploadDir });
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
-  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes });
+  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
   const inspectionsRepo = inspectionsRepository(db);
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock });
@@ -124,8 +132,8 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   faultsRoutes(api, faults);
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit);
-  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock }));
-  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox }));
+  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
+  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox, derived }));
 
   if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);
 
@@ -133,7 +141,9 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   app.use(
     '/api',
     express.json({ limit: '200kb' }),
-    authenticate(auth, staffRepo),
+    // The person is read for every request; the read is kept per data version, so a role change or a
+    // deactivation (a write) applies to the very next request.
+    authenticate(auth, { byId: (id) => derived.get(`user|${id}`, async () => ({ value: await staffRepo.byId(id), holdsAt: () => true })) }),
     requireSignedIn,
     requireSameOrigin(deps.appUrl),
     api.router,

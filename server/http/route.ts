@@ -1,3 +1,4 @@
+import { sharedJson } from '../db/derived-cache';
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import type { z, ZodType } from 'zod';
 import type { Role } from '../../shared/schemas/vocabulary';
@@ -92,7 +93,12 @@ export class ApiRouter {
       const result = await def.handler(ctx);
       if (res.headersSent) return;
       if (result === undefined) res.status(def.status ?? 204).end();
-      else res.status(def.status ?? 200).json(result);
+      else {
+        // An answer from the derived cache is serialised once for every request that gets it.
+        const json = sharedJson(result);
+        if (json === undefined) res.status(def.status ?? 200).json(result);
+        else res.status(def.status ?? 200).type('application/json').set('ETag', json.etag).send(json.text);
+      }
     };
     this.router[method](path, checkRole, ...(def.before ?? []), run);
   }

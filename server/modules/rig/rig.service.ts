@@ -10,6 +10,7 @@ import { isApparatusKind } from '../../../shared/schemas/vocabulary';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { GearRecord, RigRepository } from './rig.repository';
 import { loadSnapshots, type SnapshotBundle } from './point-snapshots';
+import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
 export const statusWire = (s: PointStatus) => ({ status: s.status, clearedUntil: s.clearedUntil?.toISOString() ?? null, reasons: s.reasons.map((r) => ({ code: r.code, message: r.message })) });
 
@@ -17,8 +18,9 @@ export interface ClassProfileSource {
   profileOf(classTypeId: number, policy: Policy): Promise<LoadProfile & { name: string }>;
 }
 
-export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource }) {
+export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource; derived?: DerivedCache }) {
   const { db, rig, audit, studio, clock } = deps;
+  const derived = deps.derived ?? noDerivedCache;
 
   const gearWire = (g: GearRecord, timeZone: string) => ({ ...g, serviceLifeEndsOn: serviceLifeEnd(g, timeZone)?.toISOString() ?? null });
 
@@ -65,10 +67,17 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     },
 
     // ---- points
-    async listPoints(filter: { roomId?: number }) {
-      const { policy } = await studio.get();
-      const now = clock.now();
-      return (await loadSnapshots(db, rig, filter)).map((b) => pointWire(b, policy, now, false));
+    listPoints(filter: { roomId?: number }) {
+      return derived.get(`points|${filter.roomId ?? ''}`, async () => {
+        const { policy } = await studio.get();
+        const bundles = await loadSnapshots(db, rig, filter);
+        return deriveAt(policy, clock.now(), (track) =>
+          bundles.map((b) => {
+            track.snapshot(b.snapshot);
+            return pointWire(b, policy, track.now, false);
+          }),
+        );
+      });
     },
     async getPoint(id: number) {
       const { policy } = await studio.get();

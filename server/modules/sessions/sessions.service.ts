@@ -14,6 +14,7 @@ import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
 import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, UpdateSession } from '../../../shared/schemas/sessions';
 import type { SessionRecord, SessionsRepository } from './sessions.repository';
+import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
 export type SessionChangeKind = 'moved' | 'points_swapped' | 'cancelled' | 'instructor_changed';
 /** Told inside the change's transaction, so the instructor's e-mail is queued with it or not at all. */
@@ -28,8 +29,9 @@ interface Occurrence {
 
 const MAX_RANGE_DAYS = 100;
 
-export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier }) {
+export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
+  const derived = deps.derived ?? noDerivedCache;
 
   async function classTypeOrThrow(id: number, trx: Db = db): Promise<ClassType> {
     const c = await classTypes.byId(id, trx);
@@ -106,11 +108,19 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const to = new Date(q.to);
       if (to <= from) throw new HttpError(400, 'invalid_request', '“to” must be after “from”.', { source: 'query', fields: { to: 'Must be after from' } });
       if (to.getTime() - from.getTime() > MAX_RANGE_DAYS * 86_400_000) throw new HttpError(400, 'invalid_request', `Ask for at most ${MAX_RANGE_DAYS} days at a time.`, { source: 'query', fields: { to: 'Range too long' } });
-      const { policy } = await studio.get();
-      const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
-      const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
-      const now = clock.now();
-      return sessions.map((s) => view(s, bundles, policy, now));
+      // The calendar's week is asked for again and again; the answer holds until a record changes
+      // or the clock passes an instant it depends on (a class starting, a clearance running out).
+      return derived.get(`sessions|${from.toISOString()}|${to.toISOString()}|${q.roomId ?? ''}|${q.instructorId ?? ''}`, async () => {
+        const { policy } = await studio.get();
+        const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
+        const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
+        return deriveAt(policy, clock.now(), (track) =>
+          sessions.map((s) => {
+            track.session({ startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt), points: s.pointIds.flatMap((id) => bundles.get(id)?.snapshot ?? []) });
+            return view(s, bundles, policy, track.now);
+          }),
+        );
+      });
     },
 
     async get(id: number) {

@@ -9,6 +9,7 @@ import { statusWire } from '../rig/rig.service';
 import type { InspectionsRepository } from '../inspections/inspections.repository';
 import { pointStatusAt, sessionRisk, studioDay } from '../../../shared/clearance';
 import type { CurrentUser } from '../../http/auth';
+import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
 /** The studio day [start, end) that contains `now`, in the studio's zone. */
 export function studioDayRange(now: Date, timeZone: string) {
@@ -16,40 +17,45 @@ export function studioDayRange(now: Date, timeZone: string) {
   return { start: new Date(start.getTime()), end: new Date(addDays(start, 1).getTime()) };
 }
 
-export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock }) {
+export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache }) {
   const { db, rig, studio, inspections, clock } = deps;
-  return {
-    /** The signed-in instructor's sessions today (everyone's for the other roles), and every point's status now. */
-    async today(user: CurrentUser) {
-      const { policy } = await studio.get();
-      const now = clock.now();
-      const { start, end } = studioDayRange(now, policy.timeZone);
-      const q = db('sessions')
-        .join('class_types', 'class_types.id', 'sessions.class_type_id')
-        .join('rooms', 'rooms.id', 'sessions.room_id')
-        .join('users', 'users.id', 'sessions.instructor_id')
-        .where('sessions.starts_at', '<', end.toISOString())
-        .where('sessions.ends_at', '>', start.toISOString())
-        .orderBy('sessions.starts_at')
-        .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'rooms.name as room_name', 'users.name as instructor_name');
-      if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
-      const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
-      const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
-      const bundles = await loadSnapshots(db, rig);
-      const byId = new Map(bundles.map((b) => [b.point.id, b]));
-      const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
-      const pointView = (id: number, at: Date) => {
-        const b = byId.get(id)!;
-        const due = !preuse.has(id);
-        // `preuse_due` is the contract's word (PRODUCT.md §6.1); `preuseDue` is the client's.
-        return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(b.snapshot, policy, at)), preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
-      };
+  const derived = deps.derived ?? noDerivedCache;
+
+  /** Worked out once per data version and kept while it holds (see server/db/derived-cache.ts). */
+  async function compute(user: CurrentUser) {
+    const { policy } = await studio.get();
+    const now = clock.now();
+    const { start, end } = studioDayRange(now, policy.timeZone);
+    const q = db('sessions')
+      .join('class_types', 'class_types.id', 'sessions.class_type_id')
+      .join('rooms', 'rooms.id', 'sessions.room_id')
+      .join('users', 'users.id', 'sessions.instructor_id')
+      .where('sessions.starts_at', '<', end.toISOString())
+      .where('sessions.ends_at', '>', start.toISOString())
+      .orderBy('sessions.starts_at')
+      .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'rooms.name as room_name', 'users.name as instructor_name');
+    if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
+    const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
+    const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
+    const bundles = await loadSnapshots(db, rig);
+    const byId = new Map(bundles.map((b) => [b.point.id, b]));
+    const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
+    const pointView = (id: number, at: Date) => {
+      const b = byId.get(id)!;
+      const due = !preuse.has(id);
+      // `preuse_due` is the contract's word (PRODUCT.md §6.1); `preuseDue` is the client's.
+      return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(b.snapshot, policy, at)), preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
+    };
+    return deriveAt(policy, now, (track) => {
+      // The studio day turns at midnight in the studio's zone: a new day, new sessions, pre-use due.
+      track.instant(end);
       return {
         studioDay: studioDay(now, policy.timeZone),
         timeZone: policy.timeZone,
         sessions: sessions.map((s) => {
           const pointIds = booked.filter((b) => b.session_id === s.id).map((b) => b.point_id).filter((id) => byId.has(id));
           const startsAt = new Date(s.starts_at);
+          track.session({ startsAt, endsAt: new Date(s.ends_at), points: pointIds.map((id) => byId.get(id)!.snapshot) });
           const risk = sessionRisk({ points: pointIds.map((id) => byId.get(id)!.snapshot), policy, now, startsAt, endsAt: new Date(s.ends_at), cancelled: Boolean(s.cancelled) });
           return {
             id: s.id,
@@ -69,9 +75,17 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
             points: pointIds.map((id) => pointView(id, startsAt > now ? startsAt : now)),
           };
         }),
-        points: bundles.map((b) => pointView(b.point.id, now)),
+        points: bundles.map((b) => {
+          track.snapshot(b.snapshot);
+          return pointView(b.point.id, now);
+        }),
       };
-    },
+    });
+  }
+
+  return {
+    /** The signed-in instructor's sessions today (everyone's for the other roles), and every point's status now. */
+    today: (user: CurrentUser) => derived.get(`today|${user.role === 'instructor' ? `instructor:${user.id}` : 'studio'}`, () => compute(user)),
   };
 }
 export type TodayService = ReturnType<typeof todayService>;

@@ -1,0 +1,110 @@
+import { createHash } from 'node:crypto';
+import type { Clock } from '../clock';
+import type { DataVersion } from './data-version';
+import type { Policy } from '../../shared/schemas/policy';
+import { stillValid, validityTracker, type ValidityTracker } from '../../shared/clearance/validity';
+
+/** What a cached computation returns: the answer, and until when it holds with the data unchanged. */
+export interface Derived<T> {
+  value: T;
+  /** Whether the answer still holds at `now` (see shared/clearance/validity.ts). */
+  holdsAt(now: Date): boolean;
+}
+
+export interface DerivedCache {
+  /**
+   * The answer for `key`: from the cache when it was worked out under the current data version and
+   * still holds at the clock's now, otherwise from `compute` (one computation for many callers).
+   */
+  get<T>(key: string, compute: () => Promise<Derived<T>>): Promise<T>;
+}
+
+interface Entry {
+  version: string;
+  derived: Derived<unknown>;
+}
+
+// Answers handed out by the cache are shared between requests, so their JSON text can be too.
+const jsonTexts = new WeakMap<object, { text: string; etag: string }>();
+const shared = new WeakSet<object>();
+
+/** Shared answers are frozen: a caller that tried to change one would change it for everyone. */
+function freezeDeep<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const v of Object.values(value as object)) freezeDeep(v);
+  }
+  return value;
+}
+
+/** The JSON text and its entity tag for an answer the cache handed out, made once; undefined for anything else. */
+export function sharedJson(value: unknown): { text: string; etag: string } | undefined {
+  if (!value || typeof value !== 'object' || !shared.has(value)) return undefined;
+  let json = jsonTexts.get(value);
+  if (json === undefined) {
+    const text = JSON.stringify(value);
+    json = { text, etag: `W/"${Buffer.byteLength(text).toString(16)}-${createHash('sha1').update(text).digest('base64').slice(0, 27)}"` };
+    jsonTexts.set(value, json);
+  }
+  return json;
+}
+
+/**
+ * Statuses derived from the rig and the calendar, kept per data version (PRODUCT.md's rules are
+ * pure functions of the records and the time, so an answer holds until either changes). Bounded;
+ * the oldest entry goes first.
+ */
+export function derivedCache(deps: { version: DataVersion; clock: Clock; maxEntries?: number }): DerivedCache {
+  const max = deps.maxEntries ?? 500;
+  const entries = new Map<string, Entry>();
+  const pending = new Map<string, Promise<Derived<unknown>>>();
+  let lastVersion = '';
+  return {
+    async get<T>(key: string, compute: () => Promise<Derived<T>>): Promise<T> {
+      const version = await deps.version.current();
+      if (version !== lastVersion) {
+        entries.clear();
+        pending.clear();
+        lastVersion = version;
+      }
+      const hit = entries.get(key);
+      if (hit && hit.version === version && hit.derived.holdsAt(deps.clock.now())) return hit.derived.value as T;
+      const flightKey = `${version}\u0000${key}`;
+      let flight = pending.get(flightKey);
+      if (!flight) {
+        flight = compute();
+        pending.set(flightKey, flight);
+        flight
+          .then((derived) => {
+            if (lastVersion !== version) return;
+            entries.delete(key);
+            if (entries.size >= max) entries.delete(entries.keys().next().value as string);
+            if (derived.value && typeof derived.value === 'object') shared.add(freezeDeep(derived.value));
+            entries.set(key, { version, derived });
+          })
+          .catch(() => undefined)
+          .finally(() => pending.delete(flightKey));
+      }
+      const derived = await flight;
+      return derived.value as T;
+    },
+  };
+}
+
+/** For tests and tools that want every answer worked out afresh. */
+export const noDerivedCache: DerivedCache = { get: async (_key, compute) => (await compute()).value };
+
+/**
+ * Defence in depth: whatever the validity says, an answer is worked out afresh at least this
+ * often. The status rules are exact about their instants; this bounds the cost of a mistake there.
+ */
+export const DERIVED_MAX_AGE_MS = 10_000;
+
+/** Builds an answer at `now` while `build` names what it depends on in time. */
+export function deriveAt<T>(policy: Policy, now: Date, build: (track: ValidityTracker) => T): Derived<T> {
+  const track = validityTracker(policy, now);
+  track.atMost(DERIVED_MAX_AGE_MS);
+  const value = build(track);
+  const validity = track.result();
+  return { value, holdsAt: (t) => stillValid(validity, t, policy) };
+}

@@ -1,0 +1,136 @@
+import Database from 'better-sqlite3';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createApp, type LoftwiseApp } from '../../server/app';
+import { seedDemoIfEmpty } from '../../seeds';
+import { DEMO_PASSWORD } from '../../seeds/01-studio-and-staff';
+import { APP_URL, createTestApp, signIn, withOrigin, type TestContext } from '../helpers/app';
+
+/*
+ * The calendar, Today and the rig list keep what they derive per data version (server/db/
+ * derived-cache.ts). A second app on the same database works every answer out afresh; through
+ * time passing and records changing, both must answer alike, byte for byte.
+ */
+
+const HOUR = 3_600_000;
+
+let ctx: TestContext;
+let fresh: LoftwiseApp;
+type Agent = ReturnType<typeof withOrigin>;
+const cached: Record<string, Agent> = {};
+const uncached: Record<string, Agent> = {};
+
+async function agent(app: LoftwiseApp, email: string) {
+  const { agent, ok } = await signIn(app, email, DEMO_PASSWORD);
+  if (!ok) throw new Error(`sign-in failed for ${email}`);
+  return withOrigin(agent);
+}
+
+beforeAll(async () => {
+  ctx = await createTestApp({ now: '2026-12-01T08:30:00Z' });
+  await seedDemoIfEmpty(ctx.db, ctx.clock.now());
+  fresh = createApp({ db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', uploadDir: join(ctx.dir, 'uploads'), log: () => undefined, cacheDerived: false });
+  for (const role of ['reception', 'instructor', 'rigger']) {
+    cached[role] = await agent(ctx.app, `${role}@loftwise.test`);
+    uncached[role] = await agent(fresh, `${role}@loftwise.test`);
+  }
+}, 60_000);
+
+afterAll(async () => {
+  fresh?.locals.close();
+  await ctx?.close();
+});
+
+/** The reads a studio makes all day: the week's calendar, Today for two roles, the rig list. */
+function reads(now: Date): Array<[role: string, url: string]> {
+  const monday = new Date(now);
+  monday.setUTCDate(monday.getUTCDate() - ((monday.getUTCDay() + 6) % 7));
+  monday.setUTCHours(0, 0, 0, 0);
+  const week = `from=${monday.toISOString()}&to=${new Date(monday.getTime() + 7 * 24 * HOUR).toISOString()}`;
+  return [
+    ['reception', `/api/sessions?${week}`],
+    ['instructor', '/api/today'],
+    ['reception', '/api/today'],
+    ['rigger', '/api/points'],
+  ];
+}
+
+async function expectAlike(step: string) {
+  for (const [role, url] of reads(ctx.clock.now())) {
+    // Twice through the cached app: the second answer comes from the cache when it holds.
+    await cached[role].get(url);
+    const a = await cached[role].get(url);
+    const b = await uncached[role].get(url);
+    expect(a.status, `${step}: ${url}`).toBe(200);
+    expect(a.text, `${step}: ${role} ${url}`).toBe(b.text);
+  }
+}
+
+/** A small deterministic generator, so a failure replays. */
+function lcg(seed: number) {
+  let x = seed;
+  return () => ((x = (x * 1_103_515_245 + 12_345) % 2 ** 31) / 2 ** 31);
+}
+
+describe('derived answers kept per data version', () => {
+  it('sees a change committed by another connection to the same file at once', async () => {
+    const list = async () => (await cached.rigger.get('/api/points')).body as Array<{ id: number; label: string; status: { status: string; reasons: Array<{ code: string }> } }>;
+    const target = (await list()).find((p) => p.status.status !== 'blocked');
+    expect(target, 'an unblocked point').toBeDefined();
+    await list();
+    const other = new Database(join(ctx.dir, 'test.sqlite'));
+    try {
+      other.prepare('UPDATE points SET in_service = 0 WHERE id = ?').run(target!.id);
+    } finally {
+      other.close();
+    }
+    const after = (await list()).find((p) => p.id === target!.id)!;
+    expect(after.status.status).toBe('blocked');
+    expect(after.status.reasons.map((r) => r.code)).toContain('out_of_service');
+  });
+  it('serves a point as blocked the instant its clearance runs out', async () => {
+    const before = (await cached.rigger.get('/api/points')).body as Array<{ id: number; status: { status: string; clearedUntil: string | null; reasons: Array<{ code: string }> } }>;
+    const open = before.find((p) => p.status.status !== 'blocked' && p.status.clearedUntil);
+    expect(open, 'a cleared point to watch').toBeDefined();
+    ctx.clock.set(new Date(Date.parse(open!.status.clearedUntil!) - 1));
+    await cached.rigger.get('/api/points');
+    const still = ((await cached.rigger.get('/api/points')).body as typeof before).find((p) => p.id === open!.id)!;
+    expect(still.status.status).not.toBe('blocked');
+    ctx.clock.set(open!.status.clearedUntil!);
+    const after = ((await cached.rigger.get('/api/points')).body as typeof before).find((p) => p.id === open!.id)!;
+    expect(after.status.status).toBe('blocked');
+    expect(after.status.reasons.map((r) => r.code)).toContain('inspection_lapsed');
+  });
+
+  it('answer as a fresh computation would, through time passing and records changing', async () => {
+    const random = lcg(20261202);
+    await expectAlike('start');
+    for (let step = 1; step <= 40; step++) {
+      const roll = random();
+      const points = (await cached.rigger.get('/api/points')).body as Array<{ id: number; status: { status: string; clearedUntil: string | null } }>;
+      if (roll < 0.45) {
+        // Time passes: minutes, hours or days; sometimes exactly up to a clearance's end.
+        const ends = points.map((p) => p.status.clearedUntil).filter((u): u is string => u !== null && Date.parse(u) > ctx.clock.now().getTime());
+        if (random() < 0.3 && ends.length) ctx.clock.set(ends[Math.floor(random() * ends.length)]);
+        else ctx.clock.advance(Math.floor(random() ** 3 * 72 * HOUR) + 60_000);
+      } else if (roll < 0.65) {
+        const p = points[Math.floor(random() * points.length)];
+        expect((await cached.rigger.post('/api/faults').send({ pointId: p.id, severity: 'medium', description: `Checked at step ${step}: clamp bolt loose` })).status).toBe(201);
+      } else if (roll < 0.8) {
+        const open = (await cached.rigger.get('/api/faults?status=open')).body as Array<{ id: number }>;
+        if (open.length) {
+          const f = open[Math.floor(random() * open.length)];
+          expect((await cached.rigger.post(`/api/faults/${f.id}/resolve`).send({ resolution: 'no_fault_found', note: 'Looked again; sound' })).status).toBe(200);
+        }
+      } else {
+        const week = (await cached.reception.get(reads(ctx.clock.now())[0][1])).body as Array<{ id: number; cancelled: boolean; startsAt: string }>;
+        const live = week.filter((s) => !s.cancelled && Date.parse(s.startsAt) > ctx.clock.now().getTime());
+        if (live.length) {
+          const s = live[Math.floor(random() * live.length)];
+          expect((await cached.reception.post(`/api/sessions/${s.id}/cancel`).send({ reason: 'Instructor unwell', scope: 'this' })).status).toBe(200);
+        }
+      }
+      await expectAlike(`step ${step} at ${ctx.clock.now().toISOString()}`);
+    }
+  }, 120_000);
+});
