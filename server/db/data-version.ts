@@ -1,56 +1,76 @@
-import Database from 'better-sqlite3';
-import type { Db } from './knex';
+import { rawConnectionOf, type Db } from './knex';
 
 /**
- * A token that changes whenever the database may have changed: a counter of our own statements
- * that are not reads (every COMMIT and ROLLBACK included), joined with SQLite's
- * `PRAGMA data_version`, which moves when a connection other than the one asking commits — a
- * second server on the same file, a maintenance script. Derived answers cached under one token
- * are never served under another.
+ * A token that changes whenever the records a kept answer reads may have changed:
  *
- * The pragma is asked on a read-only connection of its own, so it also moves with our commits and
- * costs a few microseconds instead of a trip through the query pool.
+ * - our own writes, counted from the statements through this knex: a write to any table but the
+ *   ones no kept answer reads (`UNREAD_TABLES`) counts when it starts and when it has run, and so
+ *   does the COMMIT or ROLLBACK of a transaction that made one;
+ * - anyone else's commits (a second server on the same file, a maintenance script), from SQLite's
+ *   `PRAGMA data_version` on our own connection, which moves only when another connection commits.
+ *
+ * Derived answers kept under one token are never served under another.
  */
 export interface DataVersion {
   current(): Promise<string>;
   close(): void;
 }
 
+/** Mail bookkeeping: written every worker cycle, read by no kept answer (sessions, Today, points, people). */
+export const UNREAD_TABLES = new Set(['outbox_messages']);
+
 const READ = /^\s*(select\b|pragma\s+data_version\b)/i;
+const TX_START = /^\s*(begin|savepoint)\b/i;
+const TX_END = /^\s*(commit|rollback|release)\b/i;
+const TARGET = /^\s*(?:insert\s+(?:or\s+\w+\s+)?into|update(?:\s+or\s+\w+)?|delete\s+from|replace\s+into)\s+[`"[]?(\w+)/i;
+
+interface Statement {
+  sql?: string;
+  __knexTxId?: string;
+}
 
 export function dataVersion(db: Db): DataVersion {
   let writes = 0;
-  const onStatement = (q: { sql?: string }) => {
-    if (!READ.test(q.sql ?? '')) writes++;
+  const dirty = new Set<string>();
+  const onStatement = (q: Statement) => {
+    const sql = q.sql ?? '';
+    if (READ.test(sql) || TX_START.test(sql)) return;
+    if (TX_END.test(sql)) {
+      // A transaction's end counts when it wrote something that matters (or is not knex's own).
+      if (!q.__knexTxId || dirty.delete(q.__knexTxId)) writes++;
+      return;
+    }
+    const table = TARGET.exec(sql)?.[1];
+    if (table && UNREAD_TABLES.has(table)) return;
+    writes++;
+    if (q.__knexTxId) dirty.add(q.__knexTxId);
   };
   db.on('query', onStatement);
-  // Counted again when the statement has run, so a read that started meanwhile sees a new token.
-  db.on('query-response', (_r: unknown, q: { sql?: string }) => onStatement(q));
-  db.on('query-error', (_e: unknown, q: { sql?: string }) => onStatement(q));
+  // Counted again once the statement has run, so an answer begun while it ran is never served after.
+  db.on('query-response', (_r: unknown, q: Statement) => onStatement(q));
+  db.on('query-error', (_e: unknown, q: Statement) => onStatement(q));
 
-  const file = (db.client.config.connection as { filename?: string } | undefined)?.filename;
-  let watcher: Database.Database | null = null;
-  let pragma: Database.Statement | null = null;
-  const external = async (): Promise<number> => {
-    if (file && file !== ':memory:') {
-      try {
-        watcher ??= new Database(file, { readonly: true, fileMustExist: true });
-        pragma ??= watcher.prepare('PRAGMA data_version').pluck();
-        return pragma.get() as number;
-      } catch {
-        // Not readable on its own (yet): ask through the pool instead.
+  const raw = rawConnectionOf(db);
+  let pragma: { get(): unknown } | null = null;
+  let preparedFor = -1;
+  const others = async (): Promise<string> => {
+    if (raw?.conn) {
+      // Synchronous and read-only; on the pool's one connection it sees other connections' commits.
+      if (preparedFor !== raw.generation) {
+        pragma = raw.conn.prepare('PRAGMA data_version').pluck();
+        preparedFor = raw.generation;
       }
+      return `${raw.generation}.${String(pragma!.get())}`;
     }
     const rows = (await db.raw('PRAGMA data_version')) as Array<{ data_version: number }>;
-    return rows[0]?.data_version ?? 0;
+    return `p.${rows[0]?.data_version ?? 0}`;
   };
   return {
     async current() {
-      return `${writes}:${await external()}`;
+      return `${writes}:${await others()}`;
     },
     close() {
-      watcher?.close();
-      watcher = pragma = null;
+      pragma = null;
     },
   };
 }

@@ -25,7 +25,7 @@ interface Entry {
 }
 
 // Answers handed out by the cache are shared between requests, so their JSON text can be too.
-const jsonTexts = new WeakMap<object, { text: string; etag: string }>();
+const jsonTexts = new WeakMap<object, { body: Buffer; etag: string }>();
 const shared = new WeakSet<object>();
 
 /** Shared answers are frozen: a caller that tried to change one would change it for everyone. */
@@ -37,13 +37,13 @@ function freezeDeep<T>(value: T): T {
   return value;
 }
 
-/** The JSON text and its entity tag for an answer the cache handed out, made once; undefined for anything else. */
-export function sharedJson(value: unknown): { text: string; etag: string } | undefined {
+/** The JSON body (UTF-8) and its entity tag for an answer the cache handed out, made once; undefined for anything else. */
+export function sharedJson(value: unknown): { body: Buffer; etag: string } | undefined {
   if (!value || typeof value !== 'object' || !shared.has(value)) return undefined;
   let json = jsonTexts.get(value);
   if (json === undefined) {
-    const text = JSON.stringify(value);
-    json = { text, etag: `W/"${Buffer.byteLength(text).toString(16)}-${createHash('sha1').update(text).digest('base64').slice(0, 27)}"` };
+    const body = Buffer.from(JSON.stringify(value), 'utf8');
+    json = { body, etag: `W/"${body.length.toString(16)}-${createHash('sha1').update(body).digest('base64').slice(0, 27)}"` };
     jsonTexts.set(value, json);
   }
   return json;

@@ -5,6 +5,14 @@ import { migrationSource } from '../../migrations';
 
 export type Db = Knex;
 
+/** The SQLite connection behind a knex made by `createDb`, and how many times it was (re)opened. */
+export interface RawConnection {
+  conn: { prepare(sql: string): { pluck(): { get(): unknown } } } | null;
+  generation: number;
+}
+const rawConnections = new WeakMap<Db, RawConnection>();
+export const rawConnectionOf = (db: Db): RawConnection | undefined => rawConnections.get(db);
+
 /**
  * One connection: SQLite has one writer, and a single connection serialises our transactions.
  * synchronous=FULL so an acknowledged inspection or fault survives a crash or power loss
@@ -12,7 +20,8 @@ export type Db = Knex;
  */
 export function createDb(file: string): Db {
   if (file !== ':memory:') mkdirSync(dirname(file), { recursive: true });
-  return knexFactory({
+  const raw: RawConnection = { conn: null, generation: 0 };
+  const db = knexFactory({
     client: 'better-sqlite3',
     connection: { filename: file },
     useNullAsDefault: true,
@@ -25,6 +34,8 @@ export function createDb(file: string): Db {
           conn.pragma('synchronous = FULL');
           conn.pragma('foreign_keys = ON');
           conn.pragma('busy_timeout = 5000');
+          raw.conn = conn as unknown as RawConnection['conn'];
+          raw.generation++;
           done(null, conn);
         } catch (err) {
           done(err as Error, conn);
@@ -33,6 +44,8 @@ export function createDb(file: string): Db {
     },
     migrations: { migrationSource },
   });
+  rawConnections.set(db, raw);
+  return db;
 }
 
 export async function migrate(db: Db): Promise<void> {

@@ -97,7 +97,7 @@ export class ApiRouter {
         // An answer from the derived cache is serialised once for every request that gets it.
         const json = sharedJson(result);
         if (json === undefined) res.status(def.status ?? 200).json(result);
-        else res.status(def.status ?? 200).type('application/json').set('ETag', json.etag).send(json.text);
+        else res.status(def.status ?? 200).set({ 'Content-Type': 'application/json; charset=utf-8', ETag: json.etag }).send(json.body);
       }
     };
     this.router[method](path, checkRole, ...(def.before ?? []), run);

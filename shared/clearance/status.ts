@@ -173,6 +173,29 @@ function clearanceTimesUncached(snapshot: PointSnapshot, policy: Policy): { own:
   return { own, until: inspected.getTime() < own.getTime() ? new Date(inspected.getTime()) : own };
 }
 
+const instantsMemo = snapshotMemo<{ until: Date | null; instants: number[] }>();
+
+/**
+ * The instants at which the status rules' answer for this point can change with the records as
+ * they are: its clearance end (own and capped), the apparatus's inspection end, each item's
+ * service-life end. Also `until`, for the warning-window question (see validity.ts).
+ */
+export function statusInstants(snapshot: PointSnapshot, policy: Policy): { until: Date | null; instants: number[] } {
+  return instantsMemo(snapshot, policy, () => {
+    const { own, until } = clearanceTimes(snapshot, policy);
+    const instants: number[] = [];
+    if (until) instants.push(until.getTime());
+    if (own) instants.push(own.getTime());
+    const inspected = splitPath(snapshot.links).apparatus?.gear.inspectedUntil;
+    if (inspected) instants.push(inspected.getTime());
+    for (const link of snapshot.links) {
+      const end = serviceLifeEnd(link.gear, policy.timeZone);
+      if (end) instants.push(end.getTime());
+    }
+    return { until, instants };
+  });
+}
+
 /** PRODUCT.md §4.1 `clearedUntil`: the point's clearance, never later than the apparatus's own inspection. */
 export function clearedUntil(snapshot: PointSnapshot, policy: Policy): Date | null {
   return clearanceTimes(snapshot, policy).until;

@@ -1,5 +1,5 @@
 import type { Policy } from '../schemas/policy';
-import { addStudioDays, clearedUntil, pointClearanceEnd, serviceLifeEnd, splitPath } from './status';
+import { addStudioDays, statusInstants } from './status';
 import type { PointSnapshot } from './types';
 
 /*
@@ -75,13 +75,9 @@ export function validityTracker(policy: Policy, now: Date): ValidityTracker {
       // Otherwise it is inside the window and stays inside as time goes on.
     },
     snapshot(s) {
-      const until = clearedUntil(s, policy);
-      tracker.instant(until);
-      tracker.instant(pointClearanceEnd(s, policy));
+      const { until, instants } = statusInstants(s, policy);
+      for (const t of instants) tracker.instant(t);
       tracker.window(until);
-      const { apparatus } = splitPath(s.links);
-      tracker.instant(apparatus?.gear.inspectedUntil);
-      for (const link of s.links) tracker.instant(serviceLifeEnd(link.gear, policy.timeZone));
     },
     session({ startsAt, endsAt, points }) {
       tracker.instant(startsAt);

@@ -134,3 +134,29 @@ describe('derived answers kept per data version', () => {
     }
   }, 120_000);
 });
+
+describe('the data version', () => {
+  it('moves with a write that matters and with another connection’s commit, not with mail bookkeeping', async () => {
+    const { dataVersion } = await import('../../server/db/data-version');
+    const version = dataVersion(ctx.db);
+    const v0 = await version.current();
+    expect(await version.current()).toBe(v0);
+    await ctx.db.transaction(async (trx) => {
+      await trx('outbox_messages').where('id', -1).update({ last_error: null });
+    });
+    expect(await version.current(), 'an outbox-only transaction').toBe(v0);
+    await ctx.db.transaction(async (trx) => {
+      await trx('points').where('id', -1).update({ updated_at: 'x' });
+    });
+    const v1 = await version.current();
+    expect(v1, 'a write to points').not.toBe(v0);
+    const other = new Database(join(ctx.dir, 'test.sqlite'));
+    try {
+      other.prepare("UPDATE users SET name = name || ' ' WHERE id = (SELECT min(id) FROM users)").run();
+    } finally {
+      other.close();
+    }
+    expect(await version.current(), 'any commit by another connection').not.toBe(v1);
+    version.close();
+  });
+});
