@@ -9,6 +9,8 @@ export interface Derived<T> {
   value: T;
   /** Whether the answer still holds at `now` (see shared/clearance/validity.ts). */
   holdsAt(now: Date): boolean;
+  /** Roughly how many rows the answer carries (sessions, points); what the cache's bound counts. */
+  weight?: number;
 }
 
 export interface DerivedCache {
@@ -22,6 +24,7 @@ export interface DerivedCache {
 interface Entry {
   version: string;
   derived: Derived<unknown>;
+  weight: number;
 }
 
 // Answers handed out by the cache are shared between requests, so their JSON text can be too.
@@ -51,12 +54,21 @@ export function sharedJson(value: unknown): { body: Buffer; etag: string } | und
 
 /**
  * Statuses derived from the rig and the calendar, kept per data version (PRODUCT.md's rules are
- * pure functions of the records and the time, so an answer holds until either changes). Bounded;
- * the oldest entry goes first.
+ * pure functions of the records and the time, so an answer holds until either changes). Bounded by
+ * the rows it holds, since anyone signed in can ask for many different date ranges; the oldest
+ * entry goes first, and an answer larger than the whole bound is not kept.
  */
-export function derivedCache(deps: { version: DataVersion; clock: Clock; maxEntries?: number }): DerivedCache {
-  const max = deps.maxEntries ?? 500;
+export function derivedCache(deps: { version: DataVersion; clock: Clock; maxWeight?: number }): DerivedCache {
+  const maxWeight = deps.maxWeight ?? 5_000;
   const entries = new Map<string, Entry>();
+  let weight = 0;
+  const drop = (key: string) => {
+    const e = entries.get(key);
+    if (e) {
+      weight -= e.weight;
+      entries.delete(key);
+    }
+  };
   const pending = new Map<string, Promise<Derived<unknown>>>();
   let lastVersion = '';
   return {
@@ -64,6 +76,7 @@ export function derivedCache(deps: { version: DataVersion; clock: Clock; maxEntr
       const version = await deps.version.current();
       if (version !== lastVersion) {
         entries.clear();
+        weight = 0;
         pending.clear();
         lastVersion = version;
       }
@@ -77,10 +90,13 @@ export function derivedCache(deps: { version: DataVersion; clock: Clock; maxEntr
         flight
           .then((derived) => {
             if (lastVersion !== version) return;
-            entries.delete(key);
-            if (entries.size >= max) entries.delete(entries.keys().next().value as string);
+            drop(key);
+            const w = Math.max(1, derived.weight ?? 1);
+            if (w > maxWeight) return;
+            while (weight + w > maxWeight) drop(entries.keys().next().value as string);
             if (derived.value && typeof derived.value === 'object') shared.add(freezeDeep(derived.value));
-            entries.set(key, { version, derived });
+            entries.set(key, { version, derived, weight: w });
+            weight += w;
           })
           .catch(() => undefined)
           .finally(() => pending.delete(flightKey));
@@ -106,5 +122,6 @@ export function deriveAt<T>(policy: Policy, now: Date, build: (track: ValidityTr
   track.atMost(DERIVED_MAX_AGE_MS);
   const value = build(track);
   const validity = track.result();
-  return { value, holdsAt: (t) => stillValid(validity, t, policy) };
+  const weight = Array.isArray(value) ? value.length : 1 + Object.values(value as object).reduce<number>((n, v) => n + (Array.isArray(v) ? v.length : 0), 0);
+  return { value, holdsAt: (t) => stillValid(validity, t, policy), weight };
 }

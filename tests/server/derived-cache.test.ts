@@ -160,3 +160,51 @@ describe('the data version', () => {
     version.close();
   });
 });
+
+describe('the derived cache itself', () => {
+  const clock = { now: () => new Date('2026-12-01T10:00:00Z') };
+  const fixedVersion = { current: async () => 'v', close: () => undefined };
+  const answer = (n: number) => async () => ({ value: Array.from({ length: n }, (_, i) => i), holdsAt: () => true, weight: n });
+
+  it('works an answer out once for many callers at the same moment, then keeps it', async () => {
+    const { derivedCache } = await import('../../server/db/derived-cache');
+    const cache = derivedCache({ version: fixedVersion, clock });
+    let computed = 0;
+    const compute = async () => (computed++, { value: { n: 1 }, holdsAt: () => true });
+    await Promise.all(Array.from({ length: 10 }, () => cache.get('k', compute)));
+    await cache.get('k', compute);
+    expect(computed).toBe(1);
+  });
+
+  it('holds at most its bound in rows, oldest out first, and never an answer larger than the bound', async () => {
+    const { derivedCache } = await import('../../server/db/derived-cache');
+    const cache = derivedCache({ version: fixedVersion, clock, maxWeight: 10 });
+    let computed = 0;
+    const counted = (n: number) => async () => (computed++, await answer(n)());
+    await cache.get('a', counted(4));
+    await cache.get('b', counted(4));
+    await cache.get('c', counted(4)); // a goes
+    await cache.get('b', counted(4));
+    await cache.get('c', counted(4));
+    expect(computed).toBe(3);
+    await cache.get('a', counted(4));
+    expect(computed).toBe(4);
+    await cache.get('huge', counted(11));
+    await cache.get('huge', counted(11));
+    expect(computed).toBe(6);
+  });
+
+  it('drops an answer the moment it no longer holds', async () => {
+    const { derivedCache } = await import('../../server/db/derived-cache');
+    let t = 0;
+    const cache = derivedCache({ version: fixedVersion, clock: { now: () => new Date(t) } });
+    let computed = 0;
+    const compute = async () => (computed++, { value: { at: t }, holdsAt: (now: Date) => now.getTime() < 100 });
+    await cache.get('k', compute);
+    t = 99;
+    await cache.get('k', compute);
+    t = 100;
+    await cache.get('k', compute);
+    expect(computed).toBe(2);
+  });
+});
