@@ -18,6 +18,11 @@ export type User = z.infer<typeof userSchema>;
 export const meSchema = userSchema.pick({ id: true, email: true, name: true, role: true });
 export type Me = z.infer<typeof meSchema>;
 
+/** An active instructor as everyone signed in may see them (`GET /api/instructors`): a name to pick, nothing of staff administration. */
+export const instructorSchema = userSchema.pick({ id: true, name: true });
+export type Instructor = z.infer<typeof instructorSchema>;
+export const instructorListSchema = z.array(instructorSchema);
+
 export const createUserSchema = z.object({ email, name, role: roleSchema, password: passwordSchema });
 export type CreateUser = z.infer<typeof createUserSchema>;
 

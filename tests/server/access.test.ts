@@ -47,6 +47,12 @@ describe('access declarations', () => {
     expect(ctx.app.locals.routes.length).toBeGreaterThan(5);
   });
 
+  it('lets everyone signed in read the instructors, and keeps the staff list to the desk', () => {
+    const access = (key: string) => ctx.app.locals.routes.find((r) => `${r.method} ${r.path}` === key)?.access;
+    expect(access('get /api/instructors')).toBe('signed_in');
+    expect(access('get /api/users')).toEqual(['owner', 'reception']);
+  });
+
   it('answers every declared route 401 when signed out', async () => {
     for (const r of ctx.app.locals.routes) {
       const path = r.path.replace(/:\w+/g, '1');

@@ -1,6 +1,6 @@
 import type { Db } from '../../db/knex';
 import type { Role } from '../../../shared/schemas/vocabulary';
-import type { User } from '../../../shared/schemas/staff';
+import type { Instructor, User } from '../../../shared/schemas/staff';
 
 interface UserRow {
   id: number;
@@ -25,6 +25,10 @@ export function staffRepository(db: Db) {
   return {
     async list(): Promise<User[]> {
       return (await db<UserRow>('users').orderBy('name')).map(toUser);
+    },
+    /** Only the two columns anyone may see: the query itself cannot leak an e-mail. */
+    async activeInstructors(): Promise<Instructor[]> {
+      return db<UserRow>('users').where({ role: 'instructor', active: true }).select('id', 'name');
     },
     async byId(id: number): Promise<User | null> {
       const row = await db<UserRow>('users').where({ id }).first();

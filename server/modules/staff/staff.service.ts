@@ -1,14 +1,21 @@
 import type { Clock } from '../../clock';
-import type { CreateUser, UpdateUser, User } from '../../../shared/schemas/staff';
+import type { CreateUser, Instructor, UpdateUser, User } from '../../../shared/schemas/staff';
 import { conflict, notFound } from '../../http/errors';
 import type { StaffRepository } from './staff.repository';
 import { hashPassword } from './passwords';
 import type { Db } from '../../db/knex';
 import type { AuditRepository } from '../audit/audit.repository';
 
+// People sort as a reader expects: "bea" after "Adam", "Émile" among the E's (SQLite's ORDER BY compares bytes).
+const byName = new Intl.Collator('en', { sensitivity: 'base', numeric: true });
+
 export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db; audit: AuditRepository }) {
   return {
     list: () => repo.list(),
+
+    async activeInstructors(): Promise<Instructor[]> {
+      return (await repo.activeInstructors()).sort((a, b) => byName.compare(a.name, b.name) || a.id - b.id);
+    },
 
     async get(id: number): Promise<User> {
       const user = await repo.byId(id);

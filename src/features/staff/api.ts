@@ -1,11 +1,13 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
-import { userSchema, type CreateUser, type UpdateUser } from '../../../shared/schemas/staff';
+import { instructorListSchema, userSchema, type CreateUser, type UpdateUser } from '../../../shared/schemas/staff';
 
 export const staffQueries = {
   all: ['staff'] as const,
   list: () => queryOptions({ queryKey: [...staffQueries.all, 'list'], queryFn: () => api('/users', { schema: z.array(userSchema) }) }),
+  /** Active instructors, name-sorted by the server: for every role (the staff list is the desk's only). */
+  instructors: () => queryOptions({ queryKey: [...staffQueries.all, 'instructors'], queryFn: () => api('/instructors', { schema: instructorListSchema }) }),
 };
 
 export function useStaffMutations() {
