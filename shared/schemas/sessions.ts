@@ -44,7 +44,12 @@ export const updateSessionSchema = z
   .refine((v) => v.startsAt !== undefined || v.endsAt !== undefined || v.instructorId !== undefined, { message: 'Change the time or the instructor' });
 export type UpdateSession = z.infer<typeof updateSessionSchema>;
 
-export const swapPointsSchema = z.object({ pointIds: ids });
+/**
+ * Replace the booked points. With `roomId` (another room), the class moves to that room with
+ * those points; every point must hang there. Without it the class keeps its room.
+ */
+export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional() });
+export type SwapPoints = z.infer<typeof swapPointsSchema>;
 export const cancelSessionSchema = z.object({ reason: z.string().trim().min(1, 'Say why the class is cancelled').max(500), scope: scopeSchema });
 export type CancelSession = z.infer<typeof cancelSessionSchema>;
 

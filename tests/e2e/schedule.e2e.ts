@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
-import { apiCall, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, studioDate } from './browser';
+import { apiCall, createFabricPoint, DEMO_PASSWORD, DESKTOP, openBrowser, shot, shotScreen, signInAs, studioDate, uniqueTag } from './browser';
 
 /*
  * The reception journey (JOURNEYS.md, Reception 1–3; PRODUCT.md §4.4) on the desk's screen, in a
@@ -243,5 +243,117 @@ describe('reception books and fixes classes on the schedule', () => {
     await expect.poll(() => agendaItemOn(desk, seriesDay).innerText()).toContain('All clear');
     await expect.poll(() => calendarEvents(desk).filter({ hasText: 'All clear' }).count()).toBeGreaterThan(0);
     await shot(desk, 'schedule-3-calm');
+  });
+});
+
+describe('reception moves an at-risk class to another room', () => {
+  // Rooms of its own: a one-point loft whose point gets a fault, and an annex with a free cleared point.
+  const LOFT = 'Schedule Move Loft';
+  const ANNEX = 'Schedule Move Annex';
+  const moveDay = studioDate(5);
+
+  /** The instant of a wall-clock time on a studio day in London (the demo studio's zone). */
+  function londonInstant(day: string, time: string) {
+    const guess = new Date(`${day}T${time}:00Z`);
+    const hour = Number(new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: '2-digit', hourCycle: 'h23' }).format(guess));
+    return new Date(guess.getTime() - (hour - guess.getUTCHours()) * 3_600_000).toISOString();
+  }
+
+  it('offers a free point in another room, says the class changes room, and moves it there: calm, in the new room', async () => {
+    const loftId = (await apiCall<{ id: number }>(riggerPage, baseUrl, 'POST', '/rooms', { name: LOFT })).id;
+    const annexId = (await apiCall<{ id: number }>(riggerPage, baseUrl, 'POST', '/rooms', { name: ANNEX })).id;
+    const loftPoint = await createFabricPoint(riggerPage, baseUrl, { roomId: loftId, label: 'SM-1' });
+    const annexPoint = await createFabricPoint(riggerPage, baseUrl, { roomId: annexId, label: 'SA-1' });
+    const classTypeId = (await apiCall<Array<{ id: number; name: string }>>(desk, baseUrl, 'GET', '/class-types')).find((c) => c.name === CLASS)!.id;
+    const instructorId = (await apiCall<Array<{ id: number; name: string }>>(desk, baseUrl, 'GET', '/users')).find((u) => u.name === INSTRUCTOR)!.id;
+    const startsAt = londonInstant(moveDay, START);
+    const booked = await apiCall<{ id: number }>(desk, baseUrl, 'POST', '/sessions', {
+      classTypeId, instructorId, roomId: loftId, pointIds: [loftPoint], startsAt, endsAt: new Date(Date.parse(startsAt) + 3_600_000).toISOString(),
+    });
+    await apiCall(riggerPage, baseUrl, 'POST', '/faults', { pointId: loftPoint, severity: 'medium', description: 'Beam clamp bolt backing out' });
+
+    await desk.goto(`${baseUrl}/schedule`);
+    await desk.getByRole('heading', { name: 'Schedule', level: 1 }).waitFor();
+    await desk.getByRole('search', { name: 'Filter the schedule' }).getByLabel('Room').selectOption({ label: LOFT });
+    const item = agenda(desk).getByRole('listitem').filter({ has: desk.getByRole('heading', { name: longDay(moveDay) }) }).getByRole('button').filter({ hasText: LOFT });
+    for (let i = 0; i < 6 && !(await item.count()); i++) {
+      await desk.getByRole('button', { name: 'Next ›' }).click();
+      await waitForAgenda(desk);
+    }
+    await expect.poll(() => item.innerText()).toContain('At risk');
+    await item.click();
+
+    const drawer = desk.getByRole('dialog', { name: CLASS });
+    const suggestions = drawer.getByRole('region', { name: 'Suggested replacements' });
+    // No other point hangs in the loft, so the free points are in other rooms, each a move of the class.
+    await suggestions.getByText('No point in this class’s room is free.').waitFor();
+    const moveButton = suggestions.getByRole('button', { name: `Move to ${ANNEX} on SA-1` });
+    await moveButton.waitFor();
+    await moveButton.click();
+
+    const confirm = desk.getByRole('dialog', { name: `Move ${CLASS} to ${ANNEX}?` });
+    await confirm.waitFor();
+    const said = await confirm.innerText();
+    expect(said).toContain(`The class changes room: from ${LOFT} to ${ANNEX}, on point SA-1`);
+    expect(said).toContain('The instructor is e-mailed about the change.');
+    await shotScreen(desk, 'schedule-4-move-room-confirm');
+    // Nothing changes before the desk confirms.
+    expect((await apiCall<{ roomId: number }>(desk, baseUrl, 'GET', `/sessions/${booked.id}`)).roomId).toBe(loftId);
+    await confirm.getByRole('button', { name: `Move to ${ANNEX}` }).click();
+
+    await expect.poll(() => drawer.getByRole('status').innerText(), { timeout: 20_000 }).toContain(`Moved to ${ANNEX} on point SA-1.`);
+    expect(await drawer.getByRole('status').innerText()).toContain('The class is all clear.');
+    await expect.poll(() => drawer.getByText('All clear', { exact: true }).count()).toBeGreaterThan(0);
+    expect(await drawer.locator('dl').first().innerText()).toMatch(new RegExp(`Room\\s+${ANNEX}`));
+    const points = await drawer.getByRole('region', { name: 'Booked points' }).getByRole('link').allInnerTexts();
+    expect(points).toEqual(['Point SA-1']);
+    await shotScreen(desk, 'schedule-4-moved-room');
+    const after = await apiCall<{ roomId: number; pointIds: number[] }>(desk, baseUrl, 'GET', `/sessions/${booked.id}`);
+    expect(after).toMatchObject({ roomId: annexId, pointIds: [annexPoint] });
+    await drawer.getByRole('button', { name: 'Close' }).click();
+  });
+});
+
+describe('an instructor filters the schedule by instructor', () => {
+  it('lists every active instructor, not only those on the calendar, and no deactivated one', async () => {
+    const tag = uniqueTag();
+    const fresh = `Aerin Filter ${tag}`; // active, teaches nothing: never seen on any calendar
+    const gone = `Bram Filter ${tag}`; // deactivated: never offered
+    const owner = await openBrowser(DESKTOP);
+    const instructor = await openBrowser(DESKTOP);
+    const ownerPage = await owner.newPage();
+    let freshId = 0;
+    try {
+      await signInAs(ownerPage, baseUrl, 'owner@loftwise.test');
+      const make = (name: string) =>
+        apiCall<{ id: number }>(ownerPage, baseUrl, 'POST', '/users', { email: `${name.replace(/\W+/g, '.').toLowerCase()}@loftwise.test`, name, role: 'instructor', password: DEMO_PASSWORD });
+      freshId = (await make(fresh)).id;
+      await apiCall(ownerPage, baseUrl, 'PATCH', `/users/${(await make(gone)).id}`, { active: false });
+      // What the staff administration (the owner's view) says is an active instructor.
+      const staff = await apiCall<Array<{ name: string; role: string; active: boolean }>>(ownerPage, baseUrl, 'GET', '/users');
+      const active = staff.filter((u) => u.role === 'instructor' && u.active).map((u) => u.name).sort((a, b) => a.localeCompare(b));
+      expect(active).toContain(fresh);
+      expect(active).toContain(INSTRUCTOR);
+
+      const page = await instructor.newPage();
+      await signInAs(page, baseUrl, 'instructor@loftwise.test');
+      await page.goto(`${baseUrl}/schedule`);
+      await page.getByRole('heading', { name: 'Schedule', level: 1 }).waitFor();
+      const select = page.getByRole('search', { name: 'Filter the schedule' }).getByLabel('Instructor');
+      await expect.poll(() => select.locator('option').allInnerTexts()).toEqual(['All instructors', ...active]);
+      expect(active).not.toContain(gone);
+
+      // The one who teaches nothing can be chosen, and Clear filters goes back to all.
+      await select.selectOption({ label: fresh });
+      await expect.poll(() => select.inputValue()).toBe(String(freshId));
+      await shot(page, 'schedule-4-instructor-filter');
+      await page.getByRole('button', { name: 'Clear filters' }).click();
+      await expect.poll(() => select.inputValue()).toBe('');
+    } finally {
+      // Leave the shared database's active instructors as the other files expect them.
+      if (freshId) await apiCall(ownerPage, baseUrl, 'PATCH', `/users/${freshId}`, { active: false }).catch(() => undefined);
+      await instructor.close();
+      await owner.close();
+    }
   });
 });

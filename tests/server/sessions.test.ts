@@ -199,6 +199,193 @@ describe('changing and cancelling', () => {
   });
 });
 
+/** Cleared points (cleared yesterday, gear inspected) in a room of their own, or in `roomId`. */
+async function clearedPoints(n: number, o: { roomId?: number; name?: string } = {}) {
+  const roomId = o.roomId ?? (await makeRoom(ctx.db, o.name));
+  const points: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const p = await makePoint(ctx.db, { roomId, clearedAt: '2026-11-30T10:00:00Z', structuralRatingKn: 30 });
+    for (const g of await makeStandardPath(ctx.db, p.id)) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
+    points.push(p.id);
+  }
+  return { roomId, points };
+}
+
+/** What a refused request must leave as it was: the sessions, their points, the outbox and the audit chain. */
+async function records() {
+  return {
+    sessions: await ctx.db('sessions').orderBy('id').select('id', 'room_id', 'starts_at', 'ends_at', 'instructor_id', 'updated_at'),
+    points: await ctx.db('session_points').orderBy(['session_id', 'point_id']).select('*'),
+    outbox: await ctx.db('outbox_messages').count({ n: '*' }),
+    audit: await ctx.db('audit_entries').count({ n: '*' }),
+  };
+}
+
+describe('PUT /api/sessions/:id/points with roomId: moving a class to another room', () => {
+  it('moves the class to free cleared points in another room: the session shows the new room and points, the instructor is e-mailed, the old point is freed', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const annex = await clearedPoints(2, { name: 'Annex Loft' });
+    const booked = await desk.post('/api/sessions').send(body(s));
+    const oldRoom = booked.body.roomName;
+
+    const moved = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [annex.points[1]], roomId: annex.roomId });
+    expect(moved.status).toBe(200);
+    expect(moved.body).toMatchObject({ id: booked.body.id, roomId: annex.roomId, roomName: 'Annex Loft', pointIds: [annex.points[1]], atRisk: false, places: 1 });
+    expect(moved.body.points).toEqual([expect.objectContaining({ pointId: annex.points[1], status: 'cleared' })]);
+    const reread = await desk.get(`/api/sessions/${booked.body.id}`);
+    expect(reread.body).toMatchObject({ roomId: annex.roomId, roomName: 'Annex Loft', pointIds: [annex.points[1]] });
+    expect(await ctx.db('sessions').where({ id: booked.body.id }).first('room_id')).toEqual({ room_id: annex.roomId });
+
+    // The instructor's e-mail is queued in the same transaction and names the new room and the old one.
+    const told = await ctx.db('outbox_messages').where({ session_id: booked.body.id, kind: 'session_change' }).select('recipients_json', 'subject', 'text_body');
+    expect(told).toHaveLength(1);
+    expect(JSON.parse(told[0].recipients_json)).toEqual([s.instructor.email]);
+    expect(told[0].subject).toMatch(/^Room changed: .* is now in Annex Loft$/);
+    expect(told[0].text_body).toContain('Room: Annex Loft');
+    expect(told[0].text_body).toContain(`Room before: ${oldRoom}`);
+    // Audited, with the room and points before and after.
+    const entry = await ctx.db('audit_entries').orderBy('id', 'desc').first('action', 'entity_id', 'before_json', 'after_json');
+    expect(entry).toMatchObject({ action: 'session.room_changed', entity_id: booked.body.id });
+    expect(JSON.parse(entry.before_json)).toEqual({ roomId: s.roomId, pointIds: s.points });
+    expect(JSON.parse(entry.after_json)).toEqual({ roomId: annex.roomId, pointIds: [annex.points[1]] });
+
+    // The point it left is free again at that time; the one it took is not.
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id }))).status).toBe(201);
+    const taken = await desk.post('/api/sessions').send(body(s, { instructorId: other.id, roomId: annex.roomId, pointIds: [annex.points[1]] }));
+    expect(taken.status).toBe(409);
+    expect(codes(taken.body.error.details.points[0].reasons)).toContain('point_double_booked');
+  });
+
+  it('refuses a blocked point in the other room with its reason, per point, and changes nothing', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const instructor = await as(ctx, 'instructor');
+    const annex = await clearedPoints(2);
+    const [free, faulted] = annex.points;
+    expect((await instructor.post('/api/faults').send({ pointId: faulted, severity: 'medium', description: 'Beam clamp bolt loose' })).status).toBe(201);
+    const booked = await desk.post('/api/sessions').send(body(s));
+    const before = await records();
+
+    const refused = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [free, faulted], roomId: annex.roomId });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe('points_unavailable');
+    // Only the point that cannot take the class is named, with its reason in words.
+    expect(refused.body.error.details.points).toEqual([{ pointId: faulted, reasons: expect.any(Array), warnings: expect.any(Array) }]);
+    expect(codes(refused.body.error.details.points[0].reasons)).toContain('fault_open');
+    expect(refused.body.error.details.points[0].reasons.find((r: { code: string }) => r.code === 'fault_open').message).toContain('Beam clamp bolt loose');
+    expect(refused.body.error.details.reasons).toEqual([]);
+    expect(await records()).toEqual(before);
+    const still = await desk.get(`/api/sessions/${booked.body.id}`);
+    expect(still.body).toMatchObject({ roomId: s.roomId, pointIds: s.points });
+  });
+
+  it('refuses points of a room other than the one named, and points elsewhere without a roomId, as before', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const annex = await clearedPoints(1);
+    const third = await clearedPoints(1);
+    const booked = await desk.post('/api/sessions').send(body(s));
+    const before = await records();
+
+    const wrongRoom = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [annex.points[0]], roomId: third.roomId });
+    expect(wrongRoom.status).toBe(409);
+    expect(wrongRoom.body.error.details.points[0]).toMatchObject({ pointId: annex.points[0] });
+    expect(codes(wrongRoom.body.error.details.points[0].reasons)).toEqual(['point_not_in_room']);
+
+    const noRoom = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [annex.points[0]] });
+    expect(noRoom.status).toBe(409);
+    expect(codes(noRoom.body.error.details.points[0].reasons)).toEqual(['point_not_in_room']);
+    expect(await records()).toEqual(before);
+  });
+
+  it('answers 400 naming the field for a room that does not exist, and changes nothing', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]] }));
+    const before = await records();
+    const res = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [s.points[1]], roomId: 999_999 });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.fields.roomId).toEqual(expect.any(String));
+    const malformed = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [s.points[1]], roomId: 'annex' });
+    expect(malformed.status).toBe(400);
+    expect(await records()).toEqual(before);
+  });
+
+  it('treats the class’s own roomId as a plain swap of points', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]] }));
+    const res = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [s.points[1]], roomId: s.roomId });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ roomId: s.roomId, pointIds: [s.points[1]] });
+    expect((await ctx.db('audit_entries').orderBy('id', 'desc').first('action')).action).toBe('session.points_swapped');
+    expect((await ctx.db('outbox_messages').where({ session_id: booked.body.id }).first('subject')).subject).toMatch(/^Points changed:/);
+  });
+});
+
+describe('a refused change to “this and the following”', () => {
+  it('lists every class of the series that cannot be moved, with its reasons, and moves none', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=4' }));
+    expect(series.body.sessionIds).toHaveLength(4);
+    const [first, second, , fourth] = series.body.sessionIds;
+    // Someone else has the point an hour later on 10 and 24 Dec.
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    for (const day of ['10', '24']) expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, startsAt: `2026-12-${day}T19:00:00Z`, endsAt: `2026-12-${day}T20:00:00Z` }))).status).toBe(201);
+    const before = await records();
+
+    const refused = await desk.patch(`/api/sessions/${first}`).send({ startsAt: '2026-12-03T19:00:00Z', endsAt: '2026-12-03T20:00:00Z', scope: 'following' });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe('points_unavailable');
+    const d = refused.body.error.details;
+    expect(d).toMatchObject({ bookable: 2, total: 4 });
+    expect(d.occurrences).toEqual([
+      { sessionId: second, startsAt: '2026-12-10T19:00:00.000Z', endsAt: '2026-12-10T20:00:00.000Z', points: [expect.objectContaining({ pointId: s.points[0] })], reasons: [] },
+      { sessionId: fourth, startsAt: '2026-12-24T19:00:00.000Z', endsAt: '2026-12-24T20:00:00.000Z', points: [expect.objectContaining({ pointId: s.points[0] })], reasons: [] },
+    ]);
+    for (const o of d.occurrences) expect(codes(o.points[0].reasons)).toEqual(['point_double_booked']);
+    // The first refused class keeps the fields a single refusal has always had.
+    expect(d).toMatchObject({ sessionId: second, startsAt: '2026-12-10T19:00:00.000Z', points: [expect.objectContaining({ pointId: s.points[0] })], reasons: [] });
+    expect(await records()).toEqual(before);
+  });
+
+  it('lists every class whose new instructor is busy, naming the session-wide reason', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=3', pointIds: [s.points[0]] }));
+    const [first, , third] = series.body.sessionIds;
+    const substitute = await makeUser(ctx.db, { role: 'instructor' });
+    for (const day of ['03', '17']) expect((await desk.post('/api/sessions').send(body(s, { instructorId: substitute.id, pointIds: [s.points[1]], startsAt: `2026-12-${day}T18:30:00Z`, endsAt: `2026-12-${day}T19:30:00Z` }))).status).toBe(201);
+    const before = await records();
+
+    const refused = await desk.patch(`/api/sessions/${first}`).send({ instructorId: substitute.id, scope: 'following' });
+    expect(refused.status).toBe(409);
+    const d = refused.body.error.details;
+    expect(d.occurrences.map((o: { sessionId: number }) => o.sessionId)).toEqual([first, third]);
+    for (const o of d.occurrences) {
+      expect(o.points).toEqual([]);
+      expect(codes(o.reasons)).toEqual(['instructor_double_booked']);
+    }
+    expect(d).toMatchObject({ bookable: 1, total: 3 });
+    expect(await records()).toEqual(before);
+  });
+
+  it('still refuses a single class without an occurrence list', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=2' }));
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    await desk.post('/api/sessions').send(body(s, { instructorId: other.id, startsAt: '2026-12-03T19:00:00Z', endsAt: '2026-12-03T20:00:00Z' }));
+    const refused = await desk.patch(`/api/sessions/${series.body.sessionIds[0]}`).send({ startsAt: '2026-12-03T19:00:00Z', endsAt: '2026-12-03T20:00:00Z', scope: 'this' });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.details.occurrences).toBeUndefined();
+    expect(codes(refused.body.error.details.points[0].reasons)).toEqual(['point_double_booked']);
+  });
+});
+
 describe('GET /api/sessions', () => {
   it('answers the sessions overlapping the range, and 400 for a backwards range', async () => {
     const reader = await as(ctx, 'instructor');

@@ -1,7 +1,7 @@
 import { button, clockTime, esc, facts, heading, oneLine, page, paragraph, shortDay, textFooter, when, type RenderedMail } from './layout';
 import { blockedNote, pointItems, pointLines, type MailPoint } from './points';
 
-export type SessionChangeKind = 'moved' | 'points_swapped' | 'cancelled' | 'instructor_changed';
+export type SessionChangeKind = 'moved' | 'points_swapped' | 'room_changed' | 'cancelled' | 'instructor_changed';
 
 export interface SessionChangeInput {
   kind: SessionChangeKind;
@@ -18,8 +18,10 @@ export interface SessionChangeInput {
   previous?: { startsAt: Date; endsAt: Date };
   /** The points booked now, each with its status at the session's start. */
   points?: MailPoint[];
-  /** `points_swapped`: the labels booked before the swap. */
+  /** `points_swapped`, `room_changed`: the labels booked before the change. */
   previousPointLabels?: string[];
+  /** `room_changed`: the room the class was in before (`roomName` is the new one). */
+  previousRoomName?: string;
   /** `cancelled`: the reason reception gave. */
   reason?: string | null;
   /** `instructor_changed`: whether the recipient now teaches the class or no longer does. */
@@ -28,7 +30,7 @@ export interface SessionChangeInput {
 
 const at = (d: Date, tz: string) => `${shortDay(d, tz)} at ${clockTime(d, tz)}`;
 
-/** PRODUCT.md §5: the instructor is told when a session is moved, has its points swapped, or is cancelled. */
+/** PRODUCT.md §5: the instructor is told when a session is moved (in time or to another room), has its points swapped, or is cancelled. */
 export function sessionChangeMessage(i: SessionChangeInput): RenderedMail {
   const tz = i.timeZone;
   const link = `${i.appUrl}/today`;
@@ -43,6 +45,12 @@ export function sessionChangeMessage(i: SessionChangeInput): RenderedMail {
     case 'points_swapped':
       subject = `Points changed: ${i.className} on ${at(i.startsAt, tz)}`;
       lead = `The rigging points booked for your class ${i.className} on ${when(i.startsAt, tz)} have changed.`;
+      break;
+    case 'room_changed':
+      subject = `Room changed: ${i.className} on ${at(i.startsAt, tz)} is now in ${i.roomName}`;
+      lead = i.previousRoomName
+        ? `Your class ${i.className} on ${when(i.startsAt, tz)} has moved from ${i.previousRoomName} to ${i.roomName}, on new rigging points.`
+        : `Your class ${i.className} on ${when(i.startsAt, tz)} has moved to ${i.roomName}, on new rigging points.`;
       break;
     case 'cancelled':
       subject = `Cancelled: ${i.className} on ${at(i.startsAt, tz)}`;
@@ -64,7 +72,8 @@ export function sessionChangeMessage(i: SessionChangeInput): RenderedMail {
     ['Ends', when(i.endsAt, tz)],
   ];
   if (i.kind === 'moved' && i.previous) rows.push(['Was', `${when(i.previous.startsAt, tz)} to ${when(i.previous.endsAt, tz)}`]);
-  if (i.kind === 'points_swapped' && i.previousPointLabels) rows.push(['Points before', i.previousPointLabels.join(', ') || 'none']);
+  if (i.kind === 'room_changed' && i.previousRoomName) rows.push(['Room before', i.previousRoomName]);
+  if ((i.kind === 'points_swapped' || i.kind === 'room_changed') && i.previousPointLabels) rows.push(['Points before', i.previousPointLabels.join(', ') || 'none']);
   if (i.kind === 'cancelled' && i.reason) rows.push(['Reason', i.reason]);
   const note = showPoints ? blockedNote(points) : null;
 

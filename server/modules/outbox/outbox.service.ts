@@ -32,7 +32,7 @@ export interface EnqueueInput {
 export interface SessionChange {
   kind: SessionChangeKind;
   sessionId: number;
-  before: { startsAt: Date | string; endsAt: Date | string; instructorId: number; pointIds: number[] };
+  before: { startsAt: Date | string; endsAt: Date | string; instructorId: number; pointIds: number[]; roomId?: number; roomName?: string };
   /** When the change was made (default: the clock's now); part of the message's unique key. */
   at?: Date;
   /** `cancelled`: the reason given, when it is not yet on the session's row. */
@@ -60,7 +60,7 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
   }
 
   /**
-   * Tells the instructor about a move, a points swap, a cancellation or a change of instructor
+   * Tells the instructor about a move (in time or to another room), a points swap, a cancellation or a change of instructor
    * (both the new and the previous one). Writes in the caller's transaction, so the message exists
    * exactly when the change does. Returns how many messages were queued.
    */
@@ -83,7 +83,9 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     if (!recipients.length) return 0;
 
     const points = change.kind === 'cancelled' ? [] : await pointsAt(trx, pointIds, statusTime);
-    const previousPointLabels = change.kind === 'points_swapped' ? await data.pointLabels(change.before.pointIds, trx) : undefined;
+    const previousPointLabels = change.kind === 'points_swapped' || change.kind === 'room_changed' ? await data.pointLabels(change.before.pointIds, trx) : undefined;
+    const previousRoomName =
+      change.kind === 'room_changed' ? (change.before.roomName ?? (change.before.roomId ? (await rig.roomById(change.before.roomId, trx))?.name : undefined)) : undefined;
     // The key names the change and the state it led to, so two different changes in the same
     // millisecond (a test clock) both go out, while a replay of the same one cannot.
     const state = createHash('sha256')
@@ -106,6 +108,7 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
         previous: change.kind === 'moved' ? { startsAt: new Date(change.before.startsAt), endsAt: new Date(change.before.endsAt) } : undefined,
         points,
         previousPointLabels,
+        previousRoomName,
         reason: change.kind === 'cancelled' ? (change.reason ?? session.cancelReason) : undefined,
         assignment: r.assignment,
       });

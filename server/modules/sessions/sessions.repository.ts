@@ -134,12 +134,13 @@ export function sessionsRepository(db: Db) {
       await trx('session_points').insert(s.pointIds.map((p) => ({ session_id: id, point_id: p, starts_at: s.startsAt.toISOString(), ends_at: s.endsAt.toISOString(), cancelled: false })));
       return id;
     },
-    async update(id: number, patch: { startsAt?: Date; endsAt?: Date; instructorId?: number; cancelled?: boolean; cancelReason?: string }, at: Date, trx: Db) {
+    async update(id: number, patch: { startsAt?: Date; endsAt?: Date; instructorId?: number; roomId?: number; cancelled?: boolean; cancelReason?: string }, at: Date, trx: Db) {
       const row: Record<string, unknown> = { updated_at: at.toISOString() };
       const sp: Record<string, unknown> = {};
       if (patch.startsAt) row.starts_at = sp.starts_at = patch.startsAt.toISOString();
       if (patch.endsAt) row.ends_at = sp.ends_at = patch.endsAt.toISOString();
       if (patch.instructorId !== undefined) row.instructor_id = patch.instructorId;
+      if (patch.roomId !== undefined) row.room_id = patch.roomId;
       if (patch.cancelled !== undefined) row.cancelled = sp.cancelled = patch.cancelled;
       if (patch.cancelReason !== undefined) row.cancel_reason = patch.cancelReason;
       await trx('sessions').where({ id }).update(row);

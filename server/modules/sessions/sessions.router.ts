@@ -12,6 +12,6 @@ export function sessionsRoutes(api: ApiRouter, sessions: SessionsService) {
   api.get('/sessions/:id/alternatives', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.alternatives(params.id) });
   api.post('/sessions', { access: DESK, body: createSessionSchema, status: 201, handler: ({ body, user }) => sessions.create(body, user.id) });
   api.patch('/sessions/:id', { access: DESK, params: idParams, body: updateSessionSchema, handler: ({ params, body, user }) => sessions.update(params.id, body, user.id) });
-  api.put('/sessions/:id/points', { access: DESK, params: idParams, body: swapPointsSchema, handler: ({ params, body, user }) => sessions.swapPoints(params.id, body.pointIds, user.id) });
+  api.put('/sessions/:id/points', { access: DESK, params: idParams, body: swapPointsSchema, handler: ({ params, body, user }) => sessions.swapPoints(params.id, body, user.id) });
   api.post('/sessions/:id/cancel', { access: DESK, params: idParams, body: cancelSessionSchema, handler: ({ params, body, user }) => sessions.cancel(params.id, body, user.id) });
 }

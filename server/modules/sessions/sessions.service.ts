@@ -12,11 +12,11 @@ import { bookingReasons, instructorReasons, pointStatusAt, pointStatusOver, sess
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
-import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, UpdateSession } from '../../../shared/schemas/sessions';
+import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, SwapPoints, UpdateSession } from '../../../shared/schemas/sessions';
 import type { SessionRecord, SessionsRepository } from './sessions.repository';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
-export type SessionChangeKind = 'moved' | 'points_swapped' | 'cancelled' | 'instructor_changed';
+export type SessionChangeKind = 'moved' | 'points_swapped' | 'room_changed' | 'cancelled' | 'instructor_changed';
 /** Told inside the change's transaction, so the instructor's e-mail is queued with it or not at all. */
 export interface SessionNotifier {
   sessionChanged(trx: Db, change: { kind: SessionChangeKind; sessionId: number; before: SessionRecord; after: SessionRecord; at: Date }): Promise<void>;
@@ -75,6 +75,11 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
   function refuse(points: Array<{ pointId: number; reasons: Reason[] }>, reasons: Reason[], extra: Record<string, unknown> = {}): never {
     const named = points.filter((p) => p.reasons.length);
     throw conflict('points_unavailable', 'Some points cannot take this class at that time.', { points: named, reasons, ...extra });
+  }
+
+  /** A refused occurrence of a series, as a 409 lists it (creating a series, or changing "this and the following"). */
+  function occurrenceOf(c: { occ: Occurrence; points: Array<{ pointId: number; reasons: Reason[] }>; reasons: Reason[] }) {
+    return { startsAt: c.occ.startsAt.toISOString(), endsAt: c.occ.endsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons };
   }
 
   /** The wire view: each point's status at the session's time, at risk, inspection due, places. */
@@ -181,7 +186,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           if (!body.rrule) refuse(refused[0].points, refused[0].reasons);
           // A series books nothing until reception chooses: book the rest, or change points.
           refuse(refused[0].points, refused[0].reasons, {
-            occurrences: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), endsAt: c.occ.endsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons })),
+            occurrences: refused.map(occurrenceOf),
             bookable: checks.length - refused.length,
             total: checks.length,
           });
@@ -213,11 +218,20 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const classType = await classTypeOrThrow(s.classTypeId, trx);
         const bundles = await bundlesFor([...new Set(targets.flatMap((t) => t.pointIds))], trx);
         const exclude = targets.map((t) => t.id);
+        // Every class is checked before any is written: a refusal names each one that cannot take the change.
+        const checks = [];
         for (const t of targets) {
           const occ = { startsAt: new Date(new Date(t.startsAt).getTime() + dStart), endsAt: new Date(new Date(t.endsAt).getTime() + dEnd) };
           if (occ.endsAt <= occ.startsAt) throw new HttpError(400, 'invalid_request', 'The class must end after it starts.', { source: 'body', fields: { endsAt: 'Must be after the start' } });
-          const c = await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude });
-          if (!c.ok) refuse(c.points, c.reasons, { sessionId: t.id, startsAt: occ.startsAt.toISOString() });
+          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude })) });
+        }
+        const refused = checks.filter((c) => !c.ok);
+        if (refused.length) {
+          const [first] = refused;
+          const series = patch.scope === 'following' && s.seriesId ? { occurrences: refused.map((c) => ({ sessionId: c.t.id, ...occurrenceOf(c) })), bookable: checks.length - refused.length, total: checks.length } : {};
+          refuse(first.points, first.reasons, { sessionId: first.t.id, startsAt: first.occ.startsAt.toISOString(), ...series });
+        }
+        for (const { t, occ } of checks) {
           await repo.update(t.id, { startsAt: occ.startsAt, endsAt: occ.endsAt, instructorId: patch.instructorId }, now, trx);
           const after = (await repo.byId(t.id, trx))!;
           if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
@@ -228,20 +242,31 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       return this.get(id);
     },
 
-    async swapPoints(id: number, pointIds: number[], actorId: number) {
+    /** Replace the points; with another `roomId` the class moves to that room on them. Same §4.4 checks either way. */
+    async swapPoints(id: number, body: SwapPoints, actorId: number) {
+      const { pointIds } = body;
       const { policy } = await studio.get();
       await db.transaction(async (trx) => {
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
+        const roomId = body.roomId ?? s.roomId;
+        const changesRoom = roomId !== s.roomId;
+        if (changesRoom && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
         const classType = await classTypeOrThrow(s.classTypeId, trx);
         const bundles = await bundlesFor(pointIds, trx);
-        const c = await checkOccurrence(trx, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id] });
+        const c = await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id] });
         if (!c.ok) refuse(c.points, c.reasons);
         await repo.replacePoints(id, pointIds, s.startsAt, s.endsAt, trx);
-        await repo.update(id, {}, now, trx);
-        await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: id, before: s, after: (await repo.byId(id, trx))!, at: now });
-        await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: s.pointIds, after: pointIds }, now);
+        await repo.update(id, changesRoom ? { roomId } : {}, now, trx);
+        const after = (await repo.byId(id, trx))!;
+        if (changesRoom) {
+          await deps.notifier?.sessionChanged(trx, { kind: 'room_changed', sessionId: id, before: s, after, at: now });
+          await audit.record(trx, { actorId, action: 'session.room_changed', entity: 'session', entityId: id, before: { roomId: s.roomId, pointIds: s.pointIds }, after: { roomId, pointIds } }, now);
+        } else {
+          await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: id, before: s, after, at: now });
+          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: s.pointIds, after: pointIds }, now);
+        }
       });
       return this.get(id);
     },

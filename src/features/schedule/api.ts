@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api, ApiError } from '../../lib/api-client';
-import { pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession } from '../../../shared/schemas/sessions';
+import { pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession, type SwapPoints } from '../../../shared/schemas/sessions';
 import { classTypeSchema, type CreateClassType } from '../../../shared/schemas/class-types';
 import { reasonSchema, roomSchema } from '../../../shared/schemas/rig';
 
@@ -25,12 +25,14 @@ const pointReasons = z.object({ pointId: z.number(), reasons: z.array(reasonSche
 export const conflictSchema = z.object({
   points: z.array(pointReasons).default([]),
   reasons: z.array(reasonSchema).default([]),
-  occurrences: z.array(z.object({ startsAt: z.string(), points: z.array(pointReasons), reasons: z.array(reasonSchema) })).optional(),
+  /** A series booked, or changed "this and the following": every class that cannot be, with its reasons. */
+  occurrences: z.array(z.object({ sessionId: z.number().optional(), startsAt: z.string(), endsAt: z.string().optional(), points: z.array(pointReasons), reasons: z.array(reasonSchema) })).optional(),
   bookable: z.number().optional(),
   total: z.number().optional(),
   startsAt: z.string().optional(),
 });
 export type Conflict = z.infer<typeof conflictSchema>;
+export type ConflictOccurrence = NonNullable<Conflict['occurrences']>[number];
 
 /** The details of a 409 `points_unavailable`, or null for any other error. */
 export function conflictOf(err: unknown): Conflict | null {
@@ -85,7 +87,8 @@ export function useScheduleMutations() {
       onSettled: invalidate,
     }),
     swapPoints: useMutation({
-      mutationFn: ({ id, pointIds }: { id: number; pointIds: number[] }) => api(`/sessions/${id}/points`, { method: 'PUT', body: { pointIds }, schema: sessionSchema }),
+      // With `roomId` the class moves to that room on those points.
+      mutationFn: ({ id, ...body }: SwapPoints & { id: number }) => api(`/sessions/${id}/points`, { method: 'PUT', body, schema: sessionSchema }),
       onSettled: invalidate,
     }),
     cancel: useMutation({

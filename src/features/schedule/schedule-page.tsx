@@ -1,9 +1,10 @@
-import { useCallback, useMemo, useRef, useState } from 'react';
+import { useCallback, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { toast } from 'sonner';
 import { CalendarPlus, X } from 'lucide-react';
 import type { Me } from '../../../shared/schemas/staff';
 import { studioQueries } from '../settings/api';
+import { staffQueries } from '../staff/api';
 import { Button } from '../../components/ui/button';
 import { ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { errorMessage } from '../../lib/api-client';
@@ -11,7 +12,7 @@ import { conflictOf, scheduleQueries, useScheduleMutations, type CreatedSessions
 import { stateOf } from './session-state';
 import { whenShort, zoneAbbrev } from './format';
 import { toFloating, wallParts } from './zone';
-import { useInstructors, useRooms } from './use-schedule-lists';
+import { useRooms } from './use-schedule-lists';
 import ScheduleCalendar, { type MoveRequest, type SlotRequest, type VisibleRange } from './components/schedule-calendar';
 import { ScheduleFilters, type ScheduleFilter } from './components/schedule-filters';
 import { ScheduleLegend } from './components/schedule-legend';
@@ -20,7 +21,7 @@ import { AtRiskSummary } from './components/at-risk-summary';
 import { BookingDialog, type BookingPrefill } from './components/booking-dialog';
 import { SessionDrawer } from './components/session-drawer';
 import { MoveScopeDialog } from './components/move-scope-dialog';
-import { conflictLines, ConflictView } from './components/conflict-view';
+import { ConflictView, refusalLines, refusedCount } from './components/conflict-view';
 import { MAIL_NOTE, type Scope } from './components/scope-choice';
 
 const DESK = new Set(['reception', 'owner']);
@@ -37,7 +38,8 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
   const qc = useQueryClient();
   const { update } = useScheduleMutations();
   const rooms = useRooms();
-  const staffInstructors = useInstructors(canEdit);
+  // Every role may read the active instructors (the staff list itself is the desk's only).
+  const instructors = useQuery(staffQueries.instructors());
   const [filter, setFilter] = useState<ScheduleFilter>({});
   const [range, setRange] = useState<VisibleRange | null>(null);
   const [calendarBusy, setCalendarBusy] = useState(false);
@@ -63,13 +65,6 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
   );
   const visible = useQuery({ ...scheduleQueries.range({ from: range?.from ?? '', to: range?.to ?? '', roomId, instructorId }), enabled: range !== null });
   const shown = visible.data?.filter(matches);
-
-  // Instructors for the filter: the staff list for the desk; for others, those seen on the schedule.
-  const seen = useRef(new Map<number, string>());
-  for (const s of visible.data ?? []) seen.current.set(s.instructorId, s.instructorName);
-  const instructorOptions = canEdit
-    ? (staffInstructors.data ?? [])
-    : [...seen.current.entries()].map(([id, name]) => ({ id, name })).sort((a, b) => a.name.localeCompare(b.name));
 
   const hours = useMemo(() => {
     let min = 8;
@@ -98,7 +93,9 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
           m.revert();
           const c = conflictOf(err);
           if (c) {
-            const refused = { title: `${m.session.className} was not moved to ${whenShort(m.startsAt, m.endsAt, timeZone)}.`, lines: conflictLines(c, (id) => m.session.points.find((p) => p.pointId === id)?.label) };
+            const count = refusedCount(c);
+            const title = `${m.session.className} was not moved to ${whenShort(m.startsAt, m.endsAt, timeZone)}${count ? `: ${count} cannot run then. Nothing was moved` : ''}.`;
+            const refused = { title, lines: refusalLines(c, (id) => m.session.points.find((p) => p.pointId === id)?.label, timeZone) };
             setNotice(refused);
             // The notice sits above the calendar, maybe out of view: say it where the eye is too.
             toast.error(refused.title, { description: refused.lines.join(' · '), duration: 10_000 });
@@ -134,7 +131,7 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
       >
         Classes booked onto rigging points. Times are the studio’s: {timeZone} ({zoneAbbrev(new Date().toISOString(), timeZone)}).
       </PageHeader>
-      <ScheduleFilters value={filter} onChange={setFilter} rooms={rooms.data ?? []} instructors={instructorOptions} />
+      <ScheduleFilters value={filter} onChange={setFilter} rooms={rooms.data ?? []} instructors={instructors} />
       {visible.data ? <AtRiskSummary sessions={visible.data} timeZone={timeZone} onOpen={setOpenId} /> : null}
       {notice ? (
         <ConflictView title={notice.title} lines={notice.lines}>

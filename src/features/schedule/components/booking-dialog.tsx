@@ -1,6 +1,7 @@
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import type { ClassType } from '../../../../shared/schemas/class-types';
 import { useForm } from 'react-hook-form';
+import { useQuery } from '@tanstack/react-query';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { toast } from 'sonner';
 import { Plus } from 'lucide-react';
@@ -13,7 +14,8 @@ import { bookingBody, bookingFormSchema, firstTimes, rruleOf, type BookingForm }
 import { previewSeries, weekdays } from '../recurrence';
 import { apparatusLabel, whenShort, zoneAbbrev } from '../format';
 import { addMinutes, minutesOf, weekdayIndex } from '../zone';
-import { useClassTypes, useInstructors, useRooms } from '../use-schedule-lists';
+import { staffQueries } from '../../staff/api';
+import { useClassTypes, useRooms } from '../use-schedule-lists';
 import { ClassTypeForm } from './class-type-form';
 import { PointPicker } from './point-picker';
 import { RepeatFields } from './repeat-fields';
@@ -49,7 +51,7 @@ export function BookingDialog({ prefill, timeZone, onClose, onBooked }: { prefil
 function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: BookingPrefill; timeZone: string; onBooked: (s: CreatedSessions) => void; onChoosing: (on: boolean) => void }) {
   const classTypes = useClassTypes();
   const rooms = useRooms();
-  const instructors = useInstructors(true);
+  const instructors = useQuery(staffQueries.instructors());
   const { book } = useScheduleMutations();
   const [addingType, setAddingType] = useState(false);
   const [series, setSeriesState] = useState<Conflict | null>(null);

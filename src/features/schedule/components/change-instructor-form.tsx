@@ -3,17 +3,17 @@ import { toast } from 'sonner';
 import { Button } from '../../../components/ui/button';
 import { SelectField } from '../../../components/ui/field';
 import { errorMessage } from '../../../lib/api-client';
-import { conflictOf, useScheduleMutations, type Session } from '../api';
+import { conflictOf, useScheduleMutations, type Conflict, type Session } from '../api';
 import { useInstructors } from '../use-schedule-lists';
-import { conflictLines, ConflictView } from './conflict-view';
+import { RefusalView } from './conflict-view';
 import { MAIL_NOTE, ScopeChoice, type Scope } from './scope-choice';
 
-export function ChangeInstructorForm({ session, onDone }: { session: Session; onDone: (message?: string) => void }) {
+export function ChangeInstructorForm({ session, timeZone, onDone }: { session: Session; timeZone: string; onDone: (message?: string) => void }) {
   const instructors = useInstructors(true);
   const { update } = useScheduleMutations();
   const [instructorId, setInstructorId] = useState(String(session.instructorId));
   const [scope, setScope] = useState<Scope>('this');
-  const [refusal, setRefusal] = useState<string[] | null>(null);
+  const [refusal, setRefusal] = useState<Conflict | null>(null);
   const [error, setError] = useState<string | undefined>();
   const submit = (ev: React.FormEvent) => {
     ev.preventDefault();
@@ -30,7 +30,7 @@ export function ChangeInstructorForm({ session, onDone }: { session: Session; on
         },
         onError: (err) => {
           const c = conflictOf(err);
-          if (c) return setRefusal(conflictLines(c, (id) => session.points.find((p) => p.pointId === id)?.label));
+          if (c) return setRefusal(c);
           toast.error(errorMessage(err));
         },
       },
@@ -39,7 +39,15 @@ export function ChangeInstructorForm({ session, onDone }: { session: Session; on
   return (
     <form onSubmit={submit} noValidate className="space-y-4" aria-labelledby="instructor-title">
       <h3 id="instructor-title" className="font-semibold">Change the instructor</h3>
-      {refusal ? <ConflictView title="Not changed." lines={refusal} /> : null}
+      {refusal ? (
+        <RefusalView
+          title="Not changed."
+          seriesTitle={(n) => `Not changed: ${n} cannot take this instructor. Nothing was changed.`}
+          conflict={refusal}
+          labelOf={(id) => session.points.find((p) => p.pointId === id)?.label}
+          timeZone={timeZone}
+        />
+      ) : null}
       <SelectField label="Instructor" value={instructorId} error={error} hint={instructors.isError ? errorMessage(instructors.error) : undefined} onChange={(e) => setInstructorId(e.target.value)}>
         {instructors.data?.some((u) => u.id === session.instructorId) ? null : <option value={session.instructorId}>{session.instructorName}</option>}
         {instructors.data?.map((u) => <option key={u.id} value={u.id}>{u.name}</option>)}

@@ -6,11 +6,11 @@ import { toast } from 'sonner';
 import { Button } from '../../../components/ui/button';
 import { TextField } from '../../../components/ui/field';
 import { ApiError, errorMessage } from '../../../lib/api-client';
-import { conflictOf, useScheduleMutations, type Session } from '../api';
+import { conflictOf, useScheduleMutations, type Conflict, type Session } from '../api';
 import { firstTimes } from '../booking-form';
 import { whenShort } from '../format';
 import { minutesOf, wallParts } from '../zone';
-import { conflictLines, ConflictView } from './conflict-view';
+import { RefusalView } from './conflict-view';
 import { MAIL_NOTE, ScopeChoice, type Scope } from './scope-choice';
 
 const moveSchema = z
@@ -22,7 +22,7 @@ type MoveForm = z.infer<typeof moveSchema>;
 export function MoveSessionForm({ session, timeZone, onDone }: { session: Session; timeZone: string; onDone: (message?: string) => void }) {
   const { update } = useScheduleMutations();
   const [scope, setScope] = useState<Scope>('this');
-  const [refusal, setRefusal] = useState<string[] | null>(null);
+  const [refusal, setRefusal] = useState<Conflict | null>(null);
   const start = wallParts(session.startsAt, timeZone);
   const form = useForm<MoveForm>({ resolver: zodResolver(moveSchema), defaultValues: { date: start.date, start: start.time, end: wallParts(session.endsAt, timeZone).time } });
   const e = form.formState.errors;
@@ -41,7 +41,7 @@ export function MoveSessionForm({ session, timeZone, onDone }: { session: Sessio
         },
         onError: (err) => {
           const c = conflictOf(err);
-          if (c) return setRefusal(conflictLines(c, labelOf));
+          if (c) return setRefusal(c);
           if (err instanceof ApiError) {
             if (err.fields.startsAt) form.setError('start', { message: err.fields.startsAt });
             if (err.fields.endsAt) form.setError('end', { message: err.fields.endsAt });
@@ -54,7 +54,9 @@ export function MoveSessionForm({ session, timeZone, onDone }: { session: Sessio
   return (
     <form onSubmit={submit} noValidate className="space-y-4" aria-labelledby="move-title">
       <h3 id="move-title" className="font-semibold">Move the class</h3>
-      {refusal ? <ConflictView title="Not moved: the class cannot run then." lines={refusal} /> : null}
+      {refusal ? (
+        <RefusalView title="Not moved: the class cannot run then." seriesTitle={(n) => `Not moved: ${n} cannot run then. Nothing was moved.`} conflict={refusal} labelOf={labelOf} timeZone={timeZone} />
+      ) : null}
       <div className="grid gap-3 sm:grid-cols-3">
         <TextField label="Day" type="date" error={e.date?.message} {...form.register('date')} />
         <TextField label="Starts" type="time" step={300} error={e.start?.message} {...form.register('start')} />

@@ -1,7 +1,6 @@
 import { Button } from '../../../components/ui/button';
 import type { Conflict } from '../api';
-import { clock, shortDay } from '../format';
-import { conflictLines, ConflictView } from './conflict-view';
+import { ConflictView, OccurrenceList } from './conflict-view';
 
 /**
  * A series some of whose classes cannot be booked: nothing is booked yet. Reception either books
@@ -31,16 +30,7 @@ export function SeriesConflict({
         title={`${occurrences.length} of ${total} classes in this series cannot be booked. Nothing is booked yet.`}
         lines={[]}
       >
-        <ol className="space-y-3">
-          {occurrences.map((o) => (
-            <li key={o.startsAt} className="rounded-lg bg-white p-3 text-ink">
-              <p className="font-medium">{shortDay(o.startsAt, timeZone)}, {clock(o.startsAt, timeZone)}</p>
-              <ul className="mt-1 list-disc space-y-0.5 pl-5 text-sm text-stop-700">
-                {conflictLines(o, labelOf).map((l) => <li key={l}>{l}</li>)}
-              </ul>
-            </li>
-          ))}
-        </ol>
+        <OccurrenceList occurrences={occurrences} labelOf={labelOf} timeZone={timeZone} />
       </ConflictView>
       <div className="flex flex-wrap gap-2">
         {bookable > 0 ? (

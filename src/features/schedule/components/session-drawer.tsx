@@ -104,7 +104,7 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
             <div className="rounded-xl border border-line bg-white p-4" hidden={action === null}>
               {action === 'points' ? <ChangePointsForm session={s} onDone={done} /> : null}
               {action === 'move' ? <MoveSessionForm session={s} timeZone={timeZone} onDone={done} /> : null}
-              {action === 'instructor' ? <ChangeInstructorForm session={s} onDone={done} /> : null}
+              {action === 'instructor' ? <ChangeInstructorForm session={s} timeZone={timeZone} onDone={done} /> : null}
               {action === 'cancel' ? <CancelSessionForm session={s} timeZone={timeZone} onDone={done} /> : null}
             </div>
           </section>

@@ -1,22 +1,50 @@
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { toast } from 'sonner';
-import { ArrowLeftRight, CalendarClock } from 'lucide-react';
+import { ArrowLeftRight, CalendarClock, DoorOpen } from 'lucide-react';
 import { Button } from '../../../components/ui/button';
+import { ConfirmDialog } from '../../../components/ui/confirm';
 import { ErrorState, Loading } from '../../../components/ui/states';
 import { errorMessage } from '../../../lib/api-client';
 import { conflictOf, scheduleQueries, useScheduleMutations, type Alternative, type Session } from '../api';
 import { conflictLines, ConflictView } from './conflict-view';
 import { MAIL_NOTE } from './scope-choice';
 
+/** A move of the whole class to another room, on free points there. */
+interface RoomMove {
+  roomId: number;
+  roomName: string;
+  points: Alternative[];
+}
+
+/**
+ * A class moves to another room whole (each point belongs to one room), so it needs a point there
+ * for each of its own: a one-point class may take any free point elsewhere, a larger one the best
+ * free points of each room, as many as it has (fewer where the room has fewer; the desk is told).
+ */
+function roomMoves(elsewhere: Alternative[], points: number): RoomMove[] {
+  if (points <= 1) return elsewhere.map((a) => ({ roomId: a.roomId, roomName: a.roomName, points: [a] }));
+  const byRoom = new Map<number, RoomMove>();
+  for (const a of elsewhere) {
+    const m = byRoom.get(a.roomId) ?? { roomId: a.roomId, roomName: a.roomName, points: [] };
+    if (m.points.length < points) m.points.push(a);
+    byRoom.set(a.roomId, m);
+  }
+  return [...byRoom.values()];
+}
+
+const pointsText = (points: Alternative[]) => `${points.length === 1 ? 'point' : 'points'} ${points.map((a) => a.label).join(' and ')}`;
+
 /**
  * Free, allowed, passing points to replace the at-risk ones, best first (same room first).
- * One click swaps a point in for the first at-risk point; the server re-checks it.
+ * One click swaps a point of the same room in for the first at-risk point; a point in another room
+ * moves the class to that room, after a confirmation. The server re-checks either.
  */
 export function SuggestedReplacements({ session, onSwapped }: { session: Session; onSwapped: (message: string) => void }) {
   const alts = useQuery(scheduleQueries.alternatives(session.id));
   const { swapPoints } = useScheduleMutations();
-  const [refusal, setRefusal] = useState<string[] | null>(null);
+  const [refusal, setRefusal] = useState<{ title: string; lines: string[] } | null>(null);
+  const [confirming, setConfirming] = useState<RoomMove | null>(null);
   const risky = [...new Set(session.riskReasons.map((r) => r.pointId))].filter((id) => session.pointIds.includes(id));
   const labelOf = (id: number) => session.points.find((p) => p.pointId === id)?.label ?? alts.data?.find((a) => a.pointId === id)?.label;
   if (risky.length === 0) return null;
@@ -36,7 +64,26 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
       },
       (err: unknown) => {
         const c = conflictOf(err);
-        if (c) setRefusal(conflictLines(c, labelOf));
+        if (c) setRefusal({ title: 'Not swapped: the point cannot take this class now.', lines: conflictLines(c, labelOf) });
+        else toast.error(errorMessage(err));
+      },
+    );
+  };
+
+  const moveRoom = (m: RoomMove) => {
+    setRefusal(null);
+    // mutateAsync, as for a swap: a move that makes the class calm unmounts this panel.
+    swapPoints.mutateAsync({ id: session.id, pointIds: m.points.map((a) => a.pointId), roomId: m.roomId }).then(
+      (s) => {
+        setConfirming(null);
+        const text = `Moved to ${s.roomName} on ${pointsText(m.points)}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
+        toast.success(text);
+        onSwapped(text);
+      },
+      (err: unknown) => {
+        setConfirming(null);
+        const c = conflictOf(err);
+        if (c) setRefusal({ title: `Not moved to ${m.roomName}: the class cannot run there now.`, lines: conflictLines(c, labelOf) });
         else toast.error(errorMessage(err));
       },
     );
@@ -44,13 +91,15 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
 
   const sameRoom = alts.data?.filter((a) => a.sameRoom) ?? [];
   const elsewhere = alts.data?.filter((a) => !a.sameRoom) ?? [];
+  const moves = roomMoves(elsewhere, session.pointIds.length);
+  const freed = session.points.map((p) => p.label).join(', ');
   return (
     <section aria-labelledby="replacements" className="space-y-3 rounded-xl border border-pine-600/40 bg-pine-50 p-4">
       <h3 id="replacements" className="font-semibold">Suggested replacements</h3>
       <p className="text-sm text-muted">
         For {risky.map((id) => `point ${labelOf(id)}`).join(' and ')}. Free at this time, allowed for the apparatus and passing the load check; same room first. {MAIL_NOTE}
       </p>
-      {refusal ? <ConflictView title="Not swapped: the point cannot take this class now." lines={refusal} /> : null}
+      {refusal ? <ConflictView title={refusal.title} lines={refusal.lines} /> : null}
       {alts.isPending ? <Loading label="Finding free points…" /> : alts.isError ? <ErrorState error={alts.error} retry={() => alts.refetch()} /> : alts.data.length === 0 ? (
         <p className="rounded-lg bg-white p-3 text-sm">No point is free for this class at this time. Move the class to another time, or cancel it.</p>
       ) : (
@@ -80,17 +129,50 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
           ) : (
             <p className="rounded-lg bg-white p-3 text-sm">No point in this class’s room is free. Those below hang in other rooms.</p>
           )}
-          {elsewhere.length ? (
-            <div className="text-sm">
-              <p className="font-medium">Free in other rooms</p>
-              <p className="text-muted">A class keeps its room, so these cannot be swapped in here: book the class in that room instead, or move it.</p>
-              <ul className="mt-1 list-disc pl-5">
-                {elsewhere.map((a) => <li key={a.pointId}>Point {a.label} · {a.roomName}{a.warnings.length ? ` · ${a.warnings.map((w) => w.message).join('; ')}` : ''}</li>)}
+          {moves.length ? (
+            <div className="space-y-2 text-sm">
+              <p className="font-medium" id="other-rooms">Free in other rooms</p>
+              <p className="text-muted">Taking one of these moves the whole class to that room, on {session.pointIds.length === 1 ? 'that point' : 'those points'}; you confirm first.</p>
+              <ul aria-labelledby="other-rooms" className="divide-y divide-line overflow-hidden rounded-lg border border-line bg-white">
+                {moves.map((m) => (
+                  <li key={`${m.roomId}:${m.points.map((a) => a.pointId).join(',')}`} className="flex flex-wrap items-center justify-between gap-3 px-3 py-2">
+                    <span>
+                      <span className="font-medium">{m.points.length === 1 ? 'Point' : 'Points'} {m.points.map((a) => a.label).join(' and ')}</span>
+                      <span className="text-muted"> · {m.roomName}</span>
+                      {m.points.flatMap((a) => a.warnings).map((w) => (
+                        <span key={w.code + w.message} className="flex items-center gap-1 text-warn-700"><CalendarClock className="size-4 shrink-0" aria-hidden />{w.message}</span>
+                      ))}
+                    </span>
+                    <Button type="button" variant="secondary" disabled={swapPoints.isPending} onClick={() => { setRefusal(null); setConfirming(m); }}>
+                      <DoorOpen className="size-4" aria-hidden /> Move to {m.roomName} on {m.points.map((a) => a.label).join(' and ')}
+                    </Button>
+                  </li>
+                ))}
               </ul>
             </div>
           ) : null}
         </>
       )}
+      <ConfirmDialog
+        open={confirming !== null}
+        title={confirming ? `Move ${session.className} to ${confirming.roomName}?` : 'Move the class to another room?'}
+        confirmLabel={confirming ? `Move to ${confirming.roomName}` : 'Move'}
+        cancelLabel="Keep the room"
+        danger={false}
+        busy={swapPoints.isPending}
+        onCancel={() => setConfirming(null)}
+        onConfirm={() => { if (confirming) moveRoom(confirming); }}
+      >
+        {confirming ? (
+          <>
+            The class changes room: from {session.roomName} to {confirming.roomName}, on {pointsText(confirming.points)}, at the same time. Its points in {session.roomName} ({freed}) are freed.
+            {confirming.points.length < session.pointIds.length
+              ? ` ${confirming.roomName} has only ${confirming.points.length} free ${confirming.points.length === 1 ? 'point' : 'points'} for it, so the class will have at most ${confirming.points.length} ${confirming.points.length === 1 ? 'place' : 'places'}.`
+              : ''}{' '}
+            {MAIL_NOTE}
+          </>
+        ) : null}
+      </ConfirmDialog>
     </section>
   );
 }
