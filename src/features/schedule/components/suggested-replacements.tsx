@@ -19,11 +19,23 @@ interface RoomMove {
 
 /**
  * A class moves to another room whole (each point belongs to one room), so it needs a point there
- * for each of its own: a one-point class may take any free point elsewhere, a larger one the best
+ * for each of its own: a one-point class may take one of the best free points of each room, a larger one the best
  * free points of each room, as many as it has (fewer where the room has fewer; the desk is told).
  */
+/** A one-point class is offered at most this many points per other room, best first, to keep the list short. */
+const CHOICES_PER_ROOM = 3;
+
 function roomMoves(elsewhere: Alternative[], points: number): RoomMove[] {
-  if (points <= 1) return elsewhere.map((a) => ({ roomId: a.roomId, roomName: a.roomName, points: [a] }));
+  if (points <= 1) {
+    const offered = new Map<number, number>();
+    return elsewhere
+      .filter((a) => {
+        const n = offered.get(a.roomId) ?? 0;
+        offered.set(a.roomId, n + 1);
+        return n < CHOICES_PER_ROOM;
+      })
+      .map((a) => ({ roomId: a.roomId, roomName: a.roomName, points: [a] }));
+  }
   const byRoom = new Map<number, RoomMove>();
   for (const a of elsewhere) {
     const m = byRoom.get(a.roomId) ?? { roomId: a.roomId, roomName: a.roomName, points: [] };
