@@ -1,8 +1,9 @@
 import * as rruleModule from 'rrule';
 import type { Options } from 'rrule';
 
-// rrule ships CommonJS to Node (named exports only under `default`) and ES modules to bundlers.
-const { RRule } = ((rruleModule as unknown as { default?: typeof rruleModule }).default ?? rruleModule) as typeof rruleModule;
+// rrule ships CommonJS to Node (named exports only under `default`) and ES modules to bundlers;
+// `default` is read dynamically so the bundler does not warn about an export its build lacks.
+const { RRule } = ((Reflect.get(rruleModule, 'default') as typeof rruleModule | undefined) ?? rruleModule) as typeof rruleModule;
 import { TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
 
