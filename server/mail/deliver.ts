@@ -4,6 +4,7 @@ import type { MailCycleContext } from './context';
 import type { OutboxMessage } from '../modules/outbox/outbox.repository';
 import type { MailSession } from './mail-data.repository';
 import type { Clock } from '../clock';
+import { reminderFor } from './reminders';
 
 /**
  * How long a claimed row stays ours by default (OUTBOX_LEASE_SECONDS); nodemailer gives up on a
@@ -21,6 +22,7 @@ function staleBecause(m: OutboxMessage, s: MailSession | undefined, now: Date): 
   if (m.sessionStartsAt && s.startsAt !== m.sessionStartsAt) return 'Not sent: the session moved.';
   if (new Date(s.startsAt).getTime() <= now.getTime()) return 'Not sent: the session had begun.';
   if (m.kind === 'at_risk' && !s.atRisk) return 'Not sent: the session is no longer at risk.';
+  if (m.kind === 'reminder' && !s.instructor.active) return 'Not sent: the instructor’s account is no longer active.';
   return null;
 }
 
@@ -70,17 +72,28 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
       await ctx.outbox.release(claimed.slice(index).map((r) => r.id));
       break;
     }
+    let mail = { to: m.to, subject: m.subject, text: m.text, html: m.html };
     if (watched.includes(m)) {
-      const why = staleBecause(m, sessions.get(m.sessionId!), clock.now());
+      const session = sessions.get(m.sessionId!);
+      const why = staleBecause(m, session, clock.now());
       if (why) {
         await ctx.outbox.markSkipped(m.id, why);
         summary.dropped += 1;
         continue;
       }
+      if (m.kind === 'reminder' && session) {
+        // Written afresh: a reminder that waited (an SMTP server down, a busy cycle) must not tell
+        // of points, a room or an instructor as they were when it was queued.
+        const fresh = { to: [session.instructor.email], ...(await reminderFor(ctx, session, (await ctx.data.pointIdsOf([session.id])).get(session.id) ?? [])) };
+        if (fresh.subject !== mail.subject || fresh.text !== mail.text || fresh.html !== mail.html || fresh.to.join() !== mail.to.join()) {
+          await ctx.outbox.rewrite(m.id, fresh);
+          mail = fresh;
+        }
+      }
     }
     let error: { message: string; serverDown: boolean } | null = null;
     try {
-      await mailer.send({ messageId: outboxMessageId(m, ctx.appUrl), to: m.to, subject: m.subject, text: m.text, html: m.html });
+      await mailer.send({ messageId: outboxMessageId(m, ctx.appUrl), ...mail });
     } catch (err) {
       const code = (err as { code?: unknown } | null)?.code;
       error = { message: err instanceof Error ? err.message : String(err), serverDown: typeof code === 'string' && SERVER_DOWN.has(code) };

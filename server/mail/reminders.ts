@@ -39,18 +39,7 @@ export async function scheduleReminders(ctx: MailCycleContext): Promise<{ queued
   let skipped = 0;
   for (const { s, missing } of due) {
     const [send, ...replaced] = missing;
-    const mail = reminderMessage({
-      studioName: ctx.studioName,
-      timeZone: ctx.policy.timeZone,
-      appUrl: ctx.appUrl,
-      now: ctx.now,
-      className: s.className,
-      roomName: s.roomName,
-      instructorName: s.instructor.name,
-      startsAt: new Date(s.startsAt),
-      endsAt: new Date(s.endsAt),
-      points: await pointsAtStart(ctx, s, pointIds.get(s.id) ?? []),
-    });
+    const mail = await reminderFor(ctx, s, pointIds.get(s.id) ?? []);
     await ctx.db.transaction(async (trx) => {
       const ref = { sessionId: s.id, sessionStartsAt: s.startsAt };
       if (await ctx.outbox.insert(trx, { kind: 'reminder', uniqueKey: reminderKey(s.id, s.startsAt, send), to: [s.instructor.email], ...mail, ...ref }, ctx.now)) queued += 1;
@@ -61,6 +50,25 @@ export async function scheduleReminders(ctx: MailCycleContext): Promise<{ queued
     });
   }
   return { queued, skipped };
+}
+
+/**
+ * The reminder's text for the session as it stands at `ctx.now`: the class, room and each point's
+ * status at the start. Written when the reminder is queued, and again when it is sent.
+ */
+export async function reminderFor(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+  return reminderMessage({
+    studioName: ctx.studioName,
+    timeZone: ctx.policy.timeZone,
+    appUrl: ctx.appUrl,
+    now: ctx.now,
+    className: s.className,
+    roomName: s.roomName,
+    instructorName: s.instructor.name,
+    startsAt: new Date(s.startsAt),
+    endsAt: new Date(s.endsAt),
+    points: await pointsAtStart(ctx, s, pointIds),
+  });
 }
 
 async function pointsAtStart(ctx: MailCycleContext, s: MailSession, ids: number[]): Promise<MailPoint[]> {

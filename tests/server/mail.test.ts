@@ -291,6 +291,51 @@ describe('instructor reminders', () => {
     expect((await desk.get('/api/outbox')).status).toBe(403);
   });
 
+  it('writes a waiting reminder afresh as it goes out: a fault reported meanwhile and a new instructor', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const id = await book(s, '2026-12-01T11:40:00Z', [a.id]);
+    const port = fake.port;
+    await fake.close();
+    const w = worker();
+    await w.runOnce();
+    const [queued] = await rows({ kind: 'reminder', state: 'queued' });
+    expect(queued.text_body).not.toMatch(/open fault/i);
+
+    // While the SMTP server is down, the point gets a fault and the class another instructor.
+    await openFault({ pointId: a.id, description: 'Beam clamp bolt loose' });
+    const other = await makeUser(ctx.db, { role: 'instructor', name: 'Bea Cover' });
+    await ctx.db('sessions').where({ id }).update({ instructor_id: other.id });
+
+    const back = await newFake(port);
+    ctx.clock.advance(retryDelayMs(1));
+    expect((await w.runOnce()).sent).toBe(1);
+    const [mail] = received(back);
+    expect(mail.to).toEqual([other.email]);
+    expect(mail.text).toMatch(/A-1[\s\S]*blocked/i);
+    expect(mail.text).toContain('Beam clamp bolt loose');
+    // The row says what was sent, under the Message-ID it had all along.
+    const [row] = await rows({ id: queued.id });
+    expect(row).toMatchObject({ state: 'sent', recipients_json: JSON.stringify([other.email]) });
+    expect(row.text_body).toBe(mail.text);
+    expect(mail.messageId).toBe(outboxMessageId({ id: queued.id, uniqueKey: queued.unique_key }, APP_URL));
+  });
+
+  it('drops a waiting reminder whose instructor was deactivated', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-01T11:40:00Z', [a.id]);
+    const port = fake.port;
+    await fake.close();
+    const w = worker();
+    await w.runOnce();
+    await ctx.db('users').where({ id: s.instructor.id }).update({ active: false });
+    const back = await newFake(port);
+    ctx.clock.advance(retryDelayMs(1));
+    expect((await w.runOnce()).dropped).toBe(1);
+    expect(received(back)).toHaveLength(0);
+  });
+
   it('drops a queued reminder whose session was cancelled before it could go out', async () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');

@@ -169,6 +169,10 @@ export function outboxRepository(db: Db) {
     },
 
     /** A claimed message that should no longer go out (its session moved, was cancelled or began). */
+    /** What a row will be sent as, when it is written afresh at sending time. */
+    async rewrite(id: number, mail: { to: string[]; subject: string; text: string; html: string }): Promise<void> {
+      await db('outbox_messages').where({ id, state: 'sending' }).update({ recipients_json: JSON.stringify(mail.to), subject: mail.subject, text_body: mail.text, html_body: mail.html });
+    },
     async markSkipped(id: number, why: string): Promise<void> {
       await db('outbox_messages').where({ id }).update({ state: 'skipped', lease_until: null, last_error: why });
     },
