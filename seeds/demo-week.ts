@@ -60,7 +60,8 @@ export const weeklyClasses: WeeklyClass[] = [
 export function slotClock(time: SlotTime, now: Date, timeZone: string): string {
   const hour = new TZDate(now.getTime(), timeZone).getHours();
   if (time === 'later_today') return `${String(Math.min(Math.max(hour + 2, 10), 16)).padStart(2, '0')}:00`;
-  if (time === 'this_evening') return hour >= 17 ? `${Math.min(hour + 2, 21)}:30` : '18:30';
+  // Started late, the demo still has a class ahead today for the instructor's Today page (until 23:30).
+  if (time === 'this_evening') return hour >= 17 ? `${Math.min(hour + 1, 23)}:30` : '18:30';
   return time;
 }
 

@@ -225,3 +225,17 @@ describe('the demo studio through the API', () => {
     }
   });
 });
+
+describe('the demo studio seeded late in the evening', () => {
+  it.each(['2026-12-01T21:10:00Z', '2026-12-01T22:40:00Z'])('still gives the demo instructor a class ahead today when seeded at %s', async (iso) => {
+    const now = new Date(iso);
+    const db = await freshDb();
+    await seedDemoIfEmpty(db, now);
+    const ahead = (await db('sessions')
+      .join('users', 'users.id', 'sessions.instructor_id')
+      .where('users.email', 'instructor@loftwise.test')
+      .where('sessions.starts_at', '>', now.toISOString())
+      .select('sessions.starts_at')) as Array<{ starts_at: string }>;
+    expect(ahead.some((s) => studioDay(new Date(s.starts_at), policy.timeZone) === studioDay(now, policy.timeZone))).toBe(true);
+  });
+});
