@@ -1,5 +1,6 @@
 import { sessionRisk } from '../../shared/clearance';
 import type { MailCycleContext } from './context';
+import type { MailSession } from './mail-data.repository';
 import { atRiskMessage } from './templates/at-risk';
 
 export const atRiskKeyPrefix = (sessionId: number, startsAt: string) => `at_risk:${sessionId}:${startsAt}:`;
@@ -13,41 +14,17 @@ export const atRiskKeyPrefix = (sessionId: number, startsAt: string) => `at_risk
 export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: number; cleared: number }> {
   const sessions = await ctx.data.sessionsToWatch(ctx.now);
   if (!sessions.length) return { alerts: 0, cleared: 0 };
-  const bundles = await ctx.snapshots();
   const pointIds = await ctx.data.pointIdsOf(sessions.map((s) => s.id));
   let alerts = 0;
   let cleared = 0;
 
   for (const s of sessions) {
-    const ids = (pointIds.get(s.id) ?? []).filter((id) => bundles.has(id));
-    const risk = sessionRisk({
-      points: ids.map((id) => bundles.get(id)!.snapshot),
-      policy: ctx.policy,
-      now: ctx.now,
-      startsAt: new Date(s.startsAt),
-      endsAt: new Date(s.endsAt),
-      cancelled: s.cancelled,
-    });
-    if (!risk.atRisk) {
+    const mail = await atRiskFor(ctx, s, pointIds.get(s.id) ?? []);
+    if (!mail) {
       if (s.atRisk && (await ctx.data.setAtRiskIf(s.id, true, false))) cleared += 1;
       continue;
     }
     if (s.atRisk) continue;
-
-    const byPoint = ids
-      .map((id) => ({ label: bundles.get(id)!.point.label, reasons: risk.reasons.filter((r) => r.pointId === id).map((r) => r.message) }))
-      .filter((p) => p.reasons.length > 0);
-    const mail = atRiskMessage({
-      studioName: ctx.studioName,
-      timeZone: ctx.policy.timeZone,
-      appUrl: ctx.appUrl,
-      className: s.className,
-      roomName: s.roomName,
-      instructorName: s.instructor.name,
-      startsAt: new Date(s.startsAt),
-      endsAt: new Date(s.endsAt),
-      points: byPoint,
-    });
     await ctx.db.transaction(async (trx) => {
       // The flag flips only if nobody flipped it since we read it, so two workers cannot both alert.
       if (!(await ctx.data.setAtRiskIf(s.id, false, true, trx))) return;
@@ -72,4 +49,36 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
     });
   }
   return { alerts, cleared };
+}
+
+/**
+ * The alert for a session as it stands at `ctx.now`, or null when it is not at risk: each troubled
+ * point with its reasons. Written when the alert is raised, and again when it is sent.
+ */
+export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+  const bundles = await ctx.snapshots();
+  const ids = pointIds.filter((id) => bundles.has(id));
+  const risk = sessionRisk({
+    points: ids.map((id) => bundles.get(id)!.snapshot),
+    policy: ctx.policy,
+    now: ctx.now,
+    startsAt: new Date(s.startsAt),
+    endsAt: new Date(s.endsAt),
+    cancelled: s.cancelled,
+  });
+  if (!risk.atRisk) return null;
+  const byPoint = ids
+    .map((id) => ({ label: bundles.get(id)!.point.label, reasons: risk.reasons.filter((r) => r.pointId === id).map((r) => r.message) }))
+    .filter((p) => p.reasons.length > 0);
+  return atRiskMessage({
+    studioName: ctx.studioName,
+    timeZone: ctx.policy.timeZone,
+    appUrl: ctx.appUrl,
+    className: s.className,
+    roomName: s.roomName,
+    instructorName: s.instructor.name,
+    startsAt: new Date(s.startsAt),
+    endsAt: new Date(s.endsAt),
+    points: byPoint,
+  });
 }

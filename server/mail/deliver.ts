@@ -5,6 +5,7 @@ import type { OutboxMessage } from '../modules/outbox/outbox.repository';
 import type { MailSession } from './mail-data.repository';
 import type { Clock } from '../clock';
 import { reminderFor } from './reminders';
+import { atRiskFor } from './at-risk';
 
 /**
  * How long a claimed row stays ours by default (OUTBOX_LEASE_SECONDS); nodemailer gives up on a
@@ -24,6 +25,12 @@ function staleBecause(m: OutboxMessage, s: MailSession | undefined, now: Date): 
   if (m.kind === 'at_risk' && !s.atRisk) return 'Not sent: the session is no longer at risk.';
   if (m.kind === 'reminder' && !s.instructor.active) return 'Not sent: the instructor’s account is no longer active.';
   return null;
+}
+
+/** An at-risk alert as it stands now, to the reception and riggers active now; null when no longer at risk. */
+async function freshAlert(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+  const mail = await atRiskFor(ctx, s, pointIds);
+  return mail && { to: (await ctx.data.activeStaff(['reception', 'rigger'])).map((u) => u.email), ...mail };
 }
 
 /**
@@ -81,10 +88,19 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
         summary.dropped += 1;
         continue;
       }
-      if (m.kind === 'reminder' && session) {
-        // Written afresh: a reminder that waited (an SMTP server down, a busy cycle) must not tell
-        // of points, a room or an instructor as they were when it was queued.
-        const fresh = { to: [session.instructor.email], ...(await reminderFor(ctx, session, (await ctx.data.pointIdsOf([session.id])).get(session.id) ?? [])) };
+      if (session) {
+        // Written afresh: a message that waited (an SMTP server down, a busy cycle) must not tell
+        // of points, a room or people as they were when it was queued.
+        const pointIds = (await ctx.data.pointIdsOf([session.id])).get(session.id) ?? [];
+        const fresh =
+          m.kind === 'reminder'
+            ? { to: [session.instructor.email], ...(await reminderFor(ctx, session, pointIds)) }
+            : await freshAlert(ctx, session, pointIds);
+        if (!fresh || !fresh.to.length) {
+          await ctx.outbox.markSkipped(m.id, fresh ? 'Not sent: there is no active reception or rigger account.' : 'Not sent: the session is no longer at risk.');
+          summary.dropped += 1;
+          continue;
+        }
         if (fresh.subject !== mail.subject || fresh.text !== mail.text || fresh.html !== mail.html || fresh.to.join() !== mail.to.join()) {
           await ctx.outbox.rewrite(m.id, fresh);
           mail = fresh;

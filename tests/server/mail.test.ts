@@ -355,6 +355,35 @@ describe('instructor reminders', () => {
 });
 
 describe('at-risk alerts', () => {
+  it('writes a waiting at-risk alert afresh as it goes out: every point in trouble now, to those active now', async () => {
+    const s = await studio();
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const b = await point(s, 'B-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-03T18:00:00Z', [a.id, b.id]);
+    const port = fake.port;
+    await fake.close();
+    const w = worker();
+    await w.runOnce();
+    await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
+    expect((await w.runOnce()).atRiskAlerts).toBe(1);
+    const [queued] = await rows({ kind: 'at_risk', state: 'queued' });
+    expect(queued.text_body).not.toContain('Sling frayed');
+
+    // While the SMTP server is down, a second point gets a fault and the rigger leaves.
+    await openFault({ pointId: b.id, description: 'Sling frayed' });
+    await ctx.db('users').where({ id: rigger.id }).update({ active: false });
+    const back = await newFake(port);
+    ctx.clock.advance(retryDelayMs(1));
+    expect((await w.runOnce()).sent).toBe(1);
+    const [mail] = received(back);
+    expect(mail.to).toEqual([desk.email]);
+    expect(mail.text).toContain('Clamp bolt loose');
+    expect(mail.text).toContain('Sling frayed');
+    expect((await rows({ id: queued.id }))[0]).toMatchObject({ state: 'sent', recipients_json: JSON.stringify([desk.email]) });
+  });
+
   it('alerts active reception and riggers within one cycle of a fault on a booked point’s gear, once, and again on a relapse', async () => {
     const s = await studio();
     const desk = await makeUser(ctx.db, { role: 'reception' });

@@ -1,15 +1,16 @@
+import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { toast } from 'sonner';
 import { Button } from '../../../components/ui/button';
 import { SelectField } from '../../../components/ui/field';
 import { errorMessage } from '../../../lib/api-client';
 import { conflictOf, useScheduleMutations, type Conflict, type Session } from '../api';
-import { useInstructors } from '../use-schedule-lists';
+import { staffQueries } from '../../staff/api';
 import { RefusalView } from './conflict-view';
 import { MAIL_NOTE, ScopeChoice, type Scope } from './scope-choice';
 
 export function ChangeInstructorForm({ session, timeZone, onDone }: { session: Session; timeZone: string; onDone: (message?: string) => void }) {
-  const instructors = useInstructors(true);
+  const instructors = useQuery(staffQueries.instructors());
   const { update } = useScheduleMutations();
   const [instructorId, setInstructorId] = useState(String(session.instructorId));
   const [scope, setScope] = useState<Scope>('this');
