@@ -64,7 +64,7 @@ export interface AppDeps {
 }
 
 export interface LoftwiseApp extends Express {
-  locals: Express['locals'] & { routes: RouteDeclaration[]; close(): void };
+  locals: Express['locals'] & { routes: RouteDeclaration[] };
 }
 
 export function createApp(deps: AppDeps): LoftwiseApp {
@@ -106,7 +106,6 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
   const version = dataVersion(db);
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
-  app.locals.close = () => version.close();
   const audit = auditRepository(db);
   const studioRepo = studioRepository(db);
   const rigRepo = rigRepository(db);

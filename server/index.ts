@@ -46,7 +46,6 @@ async function main() {
     await mailWorker.stop();
     mailer.close();
     await fakeSmtp?.close();
-    app.locals.close();
     await db.destroy();
     process.exit(0);
   };

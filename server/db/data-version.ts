@@ -13,7 +13,6 @@ import { rawConnectionOf, type Db } from './knex';
  */
 export interface DataVersion {
   current(): Promise<string>;
-  close(): void;
 }
 
 /** Mail bookkeeping: written every worker cycle, read by no kept answer (sessions, Today, points, people). */
@@ -68,9 +67,6 @@ export function dataVersion(db: Db): DataVersion {
   return {
     async current() {
       return `${writes}:${await others()}`;
-    },
-    close() {
-      pragma = null;
     },
   };
 }

@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import type { Clock } from '../clock';
 import type { DataVersion } from './data-version';
 import type { Policy } from '../../shared/schemas/policy';
+import { freezeDeep } from '../../shared/freeze';
 import { stillValid, validityTracker, type ValidityTracker } from '../../shared/clearance/validity';
 
 /** What a cached computation returns: the answer, and until when it holds with the data unchanged. */
@@ -30,15 +31,6 @@ interface Entry {
 // Answers handed out by the cache are shared between requests, so their JSON text can be too.
 const jsonTexts = new WeakMap<object, { body: Buffer; etag: string }>();
 const shared = new WeakSet<object>();
-
-/** Shared answers are frozen: a caller that tried to change one would change it for everyone. */
-function freezeDeep<T>(value: T): T {
-  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
-    Object.freeze(value);
-    for (const v of Object.values(value as object)) freezeDeep(v);
-  }
-  return value;
-}
 
 /** The JSON body (UTF-8) and its entity tag for an answer the cache handed out, made once; undefined for anything else. */
 export function sharedJson(value: unknown): { body: Buffer; etag: string } | undefined {
@@ -94,6 +86,7 @@ export function derivedCache(deps: { version: DataVersion; clock: Clock; maxWeig
             const w = Math.max(1, derived.weight ?? 1);
             if (w > maxWeight) return;
             while (weight + w > maxWeight) drop(entries.keys().next().value as string);
+            // Frozen: a caller that tried to change a shared answer would change it for everyone.
             if (derived.value && typeof derived.value === 'object') shared.add(freezeDeep(derived.value));
             entries.set(key, { version, derived, weight: w });
             weight += w;

@@ -19,12 +19,13 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
   let cleared = 0;
 
   for (const s of sessions) {
-    const mail = await atRiskFor(ctx, s, pointIds.get(s.id) ?? []);
-    if (!mail) {
+    const trouble = await troubleOf(ctx, s, pointIds.get(s.id) ?? []);
+    if (!trouble) {
       if (s.atRisk && (await ctx.data.setAtRiskIf(s.id, true, false))) cleared += 1;
       continue;
     }
     if (s.atRisk) continue;
+    const mail = alertMessage(ctx, s, trouble);
     await ctx.db.transaction(async (trx) => {
       // The flag flips only if nobody flipped it since we read it, so two workers cannot both alert.
       if (!(await ctx.data.setAtRiskIf(s.id, false, true, trx))) return;
@@ -51,11 +52,8 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
   return { alerts, cleared };
 }
 
-/**
- * The alert for a session as it stands at `ctx.now`, or null when it is not at risk: each troubled
- * point with its reasons. Written when the alert is raised, and again when it is sent.
- */
-export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+/** The points in trouble for a session at `ctx.now`, each with its reasons; null when it is not at risk. */
+async function troubleOf(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
   const bundles = await ctx.snapshots();
   const ids = pointIds.filter((id) => bundles.has(id));
   const risk = sessionRisk({
@@ -67,9 +65,12 @@ export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds:
     cancelled: s.cancelled,
   });
   if (!risk.atRisk) return null;
-  const byPoint = ids
+  return ids
     .map((id) => ({ label: bundles.get(id)!.point.label, reasons: risk.reasons.filter((r) => r.pointId === id).map((r) => r.message) }))
     .filter((p) => p.reasons.length > 0);
+}
+
+function alertMessage(ctx: MailCycleContext, s: MailSession, points: Array<{ label: string; reasons: string[] }>) {
   return atRiskMessage({
     studioName: ctx.studioName,
     timeZone: ctx.policy.timeZone,
@@ -79,6 +80,15 @@ export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds:
     instructorName: s.instructor.name,
     startsAt: new Date(s.startsAt),
     endsAt: new Date(s.endsAt),
-    points: byPoint,
+    points,
   });
+}
+
+/**
+ * The alert for a session as it stands at `ctx.now`, or null when it is not at risk. Written when
+ * the alert is raised, and again when it is sent.
+ */
+export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+  const trouble = await troubleOf(ctx, s, pointIds);
+  return trouble && alertMessage(ctx, s, trouble);
 }

@@ -27,10 +27,11 @@ function staleBecause(m: OutboxMessage, s: MailSession | undefined, now: Date): 
   return null;
 }
 
-/** An at-risk alert as it stands now, to the reception and riggers active now; null when no longer at risk. */
-async function freshAlert(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+/** A reminder or an at-risk alert as things stand now; null when the alert is no longer at risk. */
+async function writtenAfresh(ctx: MailCycleContext, m: OutboxMessage, s: MailSession, pointIds: number[], alertRecipients: () => Promise<string[]>) {
+  if (m.kind === 'reminder') return { to: [s.instructor.email], ...(await reminderFor(ctx, s, pointIds)) };
   const mail = await atRiskFor(ctx, s, pointIds);
-  return mail && { to: (await ctx.data.activeStaff(['reception', 'rigger'])).map((u) => u.email), ...mail };
+  return mail && { to: await alertRecipients(), ...mail };
 }
 
 /**
@@ -71,7 +72,11 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
   const claimed = await ctx.outbox.claimDue(ctx.now, BATCH, leaseMs);
   if (!claimed.length) return summary;
   const watched = claimed.filter((m) => (m.kind === 'reminder' || m.kind === 'at_risk') && m.sessionId !== null);
-  const sessions = await ctx.data.sessionsByIds([...new Set(watched.map((m) => m.sessionId!))]);
+  const sessionIds = [...new Set(watched.map((m) => m.sessionId!))];
+  const sessions = await ctx.data.sessionsByIds(sessionIds);
+  const pointIds = await ctx.data.pointIdsOf(sessionIds);
+  let staff: Promise<string[]> | undefined;
+  const alertRecipients = () => (staff ??= ctx.data.activeStaff(['reception', 'rigger']).then((list) => list.map((u) => u.email)));
 
   for (const [index, m] of claimed.entries()) {
     if (stopping()) {
@@ -88,23 +93,17 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
         summary.dropped += 1;
         continue;
       }
-      if (session) {
-        // Written afresh: a message that waited (an SMTP server down, a busy cycle) must not tell
-        // of points, a room or people as they were when it was queued.
-        const pointIds = (await ctx.data.pointIdsOf([session.id])).get(session.id) ?? [];
-        const fresh =
-          m.kind === 'reminder'
-            ? { to: [session.instructor.email], ...(await reminderFor(ctx, session, pointIds)) }
-            : await freshAlert(ctx, session, pointIds);
-        if (!fresh || !fresh.to.length) {
-          await ctx.outbox.markSkipped(m.id, fresh ? 'Not sent: there is no active reception or rigger account.' : 'Not sent: the session is no longer at risk.');
-          summary.dropped += 1;
-          continue;
-        }
-        if (fresh.subject !== mail.subject || fresh.text !== mail.text || fresh.html !== mail.html || fresh.to.join() !== mail.to.join()) {
-          await ctx.outbox.rewrite(m.id, fresh);
-          mail = fresh;
-        }
+      // Written afresh: a message that waited (an SMTP server down, a busy cycle) must not tell
+      // of points, a room or people as they were when it was queued.
+      const fresh = await writtenAfresh(ctx, m, session!, pointIds.get(session!.id) ?? [], alertRecipients);
+      if (!fresh || !fresh.to.length) {
+        await ctx.outbox.markSkipped(m.id, fresh ? 'Not sent: there is no active reception or rigger account.' : 'Not sent: the session is no longer at risk.');
+        summary.dropped += 1;
+        continue;
+      }
+      if (fresh.subject !== mail.subject || fresh.text !== mail.text || fresh.html !== mail.html || fresh.to.join() !== mail.to.join()) {
+        await ctx.outbox.rewrite(m.id, fresh);
+        mail = fresh;
       }
     }
     let error: { message: string; serverDown: boolean } | null = null;

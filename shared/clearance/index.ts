@@ -5,3 +5,4 @@ export * from './booking';
 export * from './preuse';
 export * from './checklist';
 export * from './validity';
+export { freezeSnapshot } from './memo';

@@ -1,5 +1,5 @@
 import { TZDate } from '@date-fns/tz';
-import { memoize } from './memo';
+import { isSealed, memoize, snapshotMemo } from './memo';
 import { addDays, format } from 'date-fns';
 import { checkRules, gearKindLabels } from '../rigging';
 import type { Policy } from '../schemas/policy';
@@ -7,53 +7,16 @@ import { intervalClassOfKind, isApparatusKind } from '../schemas/vocabulary';
 import type { GearSnapshot, LinkSnapshot, PointSnapshot, PointStatus, PointStatusOver, Reason } from './types';
 import { reasonCodes } from './types';
 
-// ---------------------------------------------------------------------------------------------
-// Memoised work. A request or a mail cycle asks about the same point many times (every class at
-// "now", each class's start for its status and for its inspections). Results are pure in the
-// snapshot, the policy and the instant, so they are kept per snapshot object — but only for
-// snapshots sealed by `freezeSnapshot`: a sealed snapshot cannot change under the cache (writing
-// to it throws), and a snapshot anyone may still change is always worked out afresh.
-
-const sealed = new WeakSet<object>();
-
-function freezeDeep<T>(value: T): T {
-  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
-    Object.freeze(value);
-    for (const v of Object.values(value as object)) freezeDeep(v);
-  }
-  return value;
-}
-
-/** Freezes a snapshot whole, so the status rules may remember what they found for it. */
-export function freezeSnapshot<T extends PointSnapshot>(snapshot: T): T {
-  freezeDeep(snapshot);
-  sealed.add(snapshot);
-  sealed.add(snapshot.links);
-  return snapshot;
-}
-
-// The rigging rules depend only on the path (and the unit its messages quote).
+// The rigging rules depend only on the path (and the unit its messages quote); kept for sealed
+// paths (see memo.ts).
 const rulesCache = new WeakMap<LinkSnapshot[], Map<string, ReturnType<typeof checkRules>>>();
 function rulesOf(links: LinkSnapshot[], unit: Policy['units']) {
-  if (!sealed.has(links)) return checkRules(links, { displayUnit: unit });
+  if (!isSealed(links)) return checkRules(links, { displayUnit: unit });
   let byUnit = rulesCache.get(links);
   if (!byUnit) rulesCache.set(links, (byUnit = new Map()));
   let found = byUnit.get(unit);
   if (!found) byUnit.set(unit, (found = checkRules(links, { displayUnit: unit })));
   return found;
-}
-
-/** A per-policy, per-sealed-snapshot memo. */
-function snapshotMemo<V>() {
-  const cache = new WeakMap<Policy, WeakMap<PointSnapshot, V>>();
-  return (snapshot: PointSnapshot, policy: Policy, make: () => V): V => {
-    if (!sealed.has(snapshot)) return make();
-    let bySnapshot = cache.get(policy);
-    if (!bySnapshot) cache.set(policy, (bySnapshot = new WeakMap()));
-    let found = bySnapshot.get(snapshot);
-    if (found === undefined) bySnapshot.set(snapshot, (found = make()));
-    return found;
-  };
 }
 
 // Studio-zone dates. Intervals are counted in the studio's calendar days, so a point cleared at

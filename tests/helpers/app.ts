@@ -36,7 +36,6 @@ export async function createTestApp(opts: { now?: string; deps?: Partial<AppDeps
     dir,
     sent,
     async close() {
-      app.locals.close();
       await db.destroy();
       rmSync(dir, { recursive: true, force: true });
     },

@@ -37,7 +37,6 @@ beforeAll(async () => {
 }, 60_000);
 
 afterAll(async () => {
-  fresh?.locals.close();
   await ctx?.close();
 });
 
@@ -157,13 +156,12 @@ describe('the data version', () => {
       other.close();
     }
     expect(await version.current(), 'any commit by another connection').not.toBe(v1);
-    version.close();
   });
 });
 
 describe('the derived cache itself', () => {
   const clock = { now: () => new Date('2026-12-01T10:00:00Z') };
-  const fixedVersion = { current: async () => 'v', close: () => undefined };
+  const fixedVersion = { current: async () => 'v' };
   const answer = (n: number) => async () => ({ value: Array.from({ length: n }, (_, i) => i), holdsAt: () => true, weight: n });
 
   it('works an answer out once for many callers at the same moment, then keeps it', async () => {

@@ -27,6 +27,12 @@ async function newFake(port = 0) {
   fakes.push(f);
   return f;
 }
+/** Takes the SMTP server down; `back()` starts it again on the same port. */
+async function smtpDown() {
+  const port = fake.port;
+  await fake.close();
+  return { back: () => newFake(port) };
+}
 function newMailer(url: string) {
   const m = smtpMailer(url, FROM);
   mailers.push(m);
@@ -238,8 +244,7 @@ describe('instructor reminders', () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
     await book(s, '2026-12-01T11:40:00Z', [a.id]);
-    const port = fake.port;
-    await fake.close();
+    const smtp = await smtpDown();
 
     // Its first cycle runs as it starts; runOnce waits for it and runs another.
     const w = worker();
@@ -254,7 +259,7 @@ describe('instructor reminders', () => {
     expect(row.attempts).toBe(1);
 
     // The server comes back on the same port.
-    const back = await newFake(port);
+    const back = await smtp.back();
     ctx.clock.advance(retryDelayMs(1));
     const up = await w.runOnce();
     expect(up.sent).toBe(1);
@@ -295,8 +300,7 @@ describe('instructor reminders', () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
     const id = await book(s, '2026-12-01T11:40:00Z', [a.id]);
-    const port = fake.port;
-    await fake.close();
+    const smtp = await smtpDown();
     const w = worker();
     await w.runOnce();
     const [queued] = await rows({ kind: 'reminder', state: 'queued' });
@@ -307,7 +311,7 @@ describe('instructor reminders', () => {
     const other = await makeUser(ctx.db, { role: 'instructor', name: 'Bea Cover' });
     await ctx.db('sessions').where({ id }).update({ instructor_id: other.id });
 
-    const back = await newFake(port);
+    const back = await smtp.back();
     ctx.clock.advance(retryDelayMs(1));
     expect((await w.runOnce()).sent).toBe(1);
     const [mail] = received(back);
@@ -325,12 +329,11 @@ describe('instructor reminders', () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
     await book(s, '2026-12-01T11:40:00Z', [a.id]);
-    const port = fake.port;
-    await fake.close();
+    const smtp = await smtpDown();
     const w = worker();
     await w.runOnce();
     await ctx.db('users').where({ id: s.instructor.id }).update({ active: false });
-    const back = await newFake(port);
+    const back = await smtp.back();
     ctx.clock.advance(retryDelayMs(1));
     expect((await w.runOnce()).dropped).toBe(1);
     expect(received(back)).toHaveLength(0);
@@ -340,12 +343,11 @@ describe('instructor reminders', () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
     const id = await book(s, '2026-12-01T11:00:00Z', [a.id]);
-    const port = fake.port;
-    await fake.close();
+    const smtp = await smtpDown();
     const w = worker();
     await w.runOnce();
     await ctx.db('sessions').where({ id }).update({ cancelled: true });
-    const back = await newFake(port);
+    const back = await smtp.back();
     ctx.clock.advance(HOUR / 2);
     const summary = await w.runOnce();
     expect(summary.dropped).toBe(1);
@@ -362,8 +364,7 @@ describe('at-risk alerts', () => {
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
     const b = await point(s, 'B-1', '2026-11-29T10:00:00Z');
     await book(s, '2026-12-03T18:00:00Z', [a.id, b.id]);
-    const port = fake.port;
-    await fake.close();
+    const smtp = await smtpDown();
     const w = worker();
     await w.runOnce();
     await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
@@ -374,7 +375,7 @@ describe('at-risk alerts', () => {
     // While the SMTP server is down, a second point gets a fault and the rigger leaves.
     await openFault({ pointId: b.id, description: 'Sling frayed' });
     await ctx.db('users').where({ id: rigger.id }).update({ active: false });
-    const back = await newFake(port);
+    const back = await smtp.back();
     ctx.clock.advance(retryDelayMs(1));
     expect((await w.runOnce()).sent).toBe(1);
     const [mail] = received(back);

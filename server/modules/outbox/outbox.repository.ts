@@ -44,11 +44,13 @@ export interface OutboxMessage {
 
 export interface NewOutboxRow {
   kind: OutboxKind;
+  /** At most one message per key, ever: a second insert with the same key does nothing. */
   uniqueKey: string;
   to: string[];
   subject: string;
   text: string;
   html: string;
+  /** Not sent before this instant (default: at the next worker cycle). */
   notBefore?: Date;
   /** `skipped` records a decision (a reminder replaced by a catch-up one) without ever sending. */
   state?: 'queued' | 'skipped';

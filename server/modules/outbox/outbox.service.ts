@@ -8,21 +8,10 @@ import { pointStatusAt } from '../../../shared/clearance';
 import { mailDataRepository } from '../../mail/mail-data.repository';
 import { sessionChangeMessage, type SessionChangeKind } from '../../mail/templates/session-change';
 import type { MailPoint } from '../../mail/templates/points';
-import { outboxRepository, type OutboxKind, type OutboxState } from './outbox.repository';
+import { outboxRepository, type NewOutboxRow, type OutboxKind, type OutboxState } from './outbox.repository';
 
-export interface EnqueueInput {
-  kind: OutboxKind;
-  /** At most one message per key, ever: a second enqueue with the same key does nothing. */
-  uniqueKey: string;
-  to: string[];
-  subject: string;
-  text: string;
-  html: string;
-  /** Not sent before this instant (default: at the next worker cycle). */
-  notBefore?: Date;
-  sessionId?: number | null;
-  sessionStartsAt?: string | null;
-}
+/** A message to send: a new outbox row without the worker's own bookkeeping (`state`, `note`). */
+export type EnqueueInput = Omit<NewOutboxRow, 'state' | 'note'>;
 
 /**
  * What changed about a session, told to its instructor. `before` is the session as it was (the

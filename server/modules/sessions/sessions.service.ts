@@ -8,7 +8,7 @@ import { loadSnapshots, type SnapshotBundle } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { bookingReasons, instructorReasons, pointStatusAt, pointStatusOver, sessionRisk, type Reason } from '../../../shared/clearance';
+import { bookingReasons, instructorReasons, pointStatusAt, pointStatusOver, sessionRisk, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
@@ -83,11 +83,12 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
   }
 
   /** The wire view: each point's status at the session's time, at risk, inspection due, places. */
-  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, policy: Policy, now: Date) {
+  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, policy: Policy, now: Date, track?: ValidityTracker) {
     const startsAt = new Date(s.startsAt);
     const endsAt = new Date(s.endsAt);
     const at = startsAt > now ? startsAt : now;
     const snaps = s.pointIds.map((id) => bundles.get(id)).filter((b): b is SnapshotBundle => Boolean(b));
+    track?.session({ startsAt, endsAt, points: snaps.map((b) => b.snapshot) });
     const points = snaps.map((b) => ({ pointId: b.point.id, label: b.point.label, ...statusWire(pointStatusAt(b.snapshot, policy, at)) }));
     const risk = sessionRisk({ points: snaps.map((b) => b.snapshot), policy, now, startsAt, endsAt, cancelled: s.cancelled });
     const live = !s.cancelled && endsAt > now;
@@ -119,12 +120,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const { policy } = await studio.get();
         const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
         const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
-        return deriveAt(policy, clock.now(), (track) =>
-          sessions.map((s) => {
-            track.session({ startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt), points: s.pointIds.flatMap((id) => bundles.get(id)?.snapshot ?? []) });
-            return view(s, bundles, policy, track.now);
-          }),
-        );
+        return deriveAt(policy, clock.now(), (track) => sessions.map((s) => view(s, bundles, policy, track.now, track)));
       });
     },
 

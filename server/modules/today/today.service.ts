@@ -37,6 +37,8 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
     if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
     const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
     const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
+    const bookedBySession = new Map<number, number[]>();
+    for (const b of booked) bookedBySession.set(b.session_id, [...(bookedBySession.get(b.session_id) ?? []), b.point_id]);
     const bundles = await loadSnapshots(db, rig);
     const byId = new Map(bundles.map((b) => [b.point.id, b]));
     const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
@@ -53,10 +55,12 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
         studioDay: studioDay(now, policy.timeZone),
         timeZone: policy.timeZone,
         sessions: sessions.map((s) => {
-          const pointIds = booked.filter((b) => b.session_id === s.id).map((b) => b.point_id).filter((id) => byId.has(id));
+          const pointIds = (bookedBySession.get(s.id) ?? []).filter((id) => byId.has(id));
           const startsAt = new Date(s.starts_at);
-          track.session({ startsAt, endsAt: new Date(s.ends_at), points: pointIds.map((id) => byId.get(id)!.snapshot) });
-          const risk = sessionRisk({ points: pointIds.map((id) => byId.get(id)!.snapshot), policy, now, startsAt, endsAt: new Date(s.ends_at), cancelled: Boolean(s.cancelled) });
+          const endsAt = new Date(s.ends_at);
+          const points = pointIds.map((id) => byId.get(id)!.snapshot);
+          track.session({ startsAt, endsAt, points });
+          const risk = sessionRisk({ points, policy, now, startsAt, endsAt, cancelled: Boolean(s.cancelled) });
           return {
             id: s.id,
             className: s.class_name,

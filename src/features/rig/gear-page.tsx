@@ -19,6 +19,7 @@ import { GearActions } from './components/gear-actions';
 import { GearEvents } from './components/gear-events';
 import { GearForm } from './components/gear-form';
 import { GearStatusBadge } from './components/gear-status-badge';
+import { Detail } from './components/detail';
 
 export function GearPage({ id }: { id: number }) {
   const gear = useQuery(rigQueries.gearItem(id));
@@ -96,15 +97,6 @@ function GearView({ gear, fmt }: { gear: GearDetail; fmt: StudioFormat }) {
       {isRigger ? <GearActions gear={gear} /> : null}
       <GearEvents events={gear.events} fmt={fmt} />
       <DocumentsPanel owner={{ type: 'gear', id: gear.id }} defaultKind="certificate" fmt={fmt} canUpload={canEdit} />
-    </div>
-  );
-}
-
-function Detail({ term, value }: { term: string; value: string }) {
-  return (
-    <div>
-      <dt className="text-muted">{term}</dt>
-      <dd className="whitespace-pre-line">{value}</dd>
     </div>
   );
 }

@@ -19,6 +19,7 @@ import { LoadPathChain } from './components/link-card';
 import { LoadPathEditor, type SaveOutcome } from './components/load-path-editor';
 import { PointForm } from './components/point-form';
 import { PointStatusPanel } from './components/point-status-panel';
+import { Detail } from './components/detail';
 
 const linkButton = 'inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50';
 
@@ -113,15 +114,6 @@ function PointView({ point, fmt, classTypes, classTypesError, classTypesPending 
       </Card>
 
       <DocumentsPanel owner={{ type: 'points', id: point.id }} defaultKind="assessment" fmt={fmt} canUpload={canEdit} />
-    </div>
-  );
-}
-
-function Detail({ term, value }: { term: string; value: string }) {
-  return (
-    <div>
-      <dt className="text-muted">{term}</dt>
-      <dd className="whitespace-pre-line">{value}</dd>
     </div>
   );
 }

@@ -7,6 +7,7 @@ import {
   type PathConfig,
   type PathLinkConfig,
 } from '../../../shared/clearance';
+import { gear } from './fixtures';
 
 function fixed(gearId: number, over: Partial<PathLinkConfig> = {}): PathLinkConfig {
   return {
@@ -140,23 +141,7 @@ describe('voidsClearance', () => {
 });
 
 describe('gearRatingChangeVoids', () => {
-  const carabiner: GearSnapshot = {
-    id: 3,
-    kind: 'carabiner',
-    material: 'steel',
-    gate: 'screw',
-    serial: 'CB-3',
-    majorKn: 30,
-    minorKn: 9,
-    gateOpenKn: 8,
-    wllKn: null,
-    multiDirectional: false,
-    status: 'in_service',
-    manufacturedOn: null,
-    inServiceOn: null,
-    serviceLifeYears: null,
-    inspectedUntil: null,
-  };
+  const carabiner: GearSnapshot = gear('carabiner', { id: 3, serial: 'CB-3', majorKn: 30, minorKn: 9 });
 
   it('voids nothing when the ratings are saved unchanged, even if other details change', () => {
     expect(gearRatingChangeVoids(carabiner, { ...carabiner, serial: 'CB-3a', inspectedUntil: new Date() })).toBe(false);
