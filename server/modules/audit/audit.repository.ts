@@ -65,6 +65,12 @@ export function auditRepository(db: Db) {
       return { ok: true, entries: rows.length, firstBadId: null, problem: null };
     },
 
+    /** The chain's head as published on exports and digests: how many entries, and the newest hash. */
+    async head(trx: Db = db): Promise<{ count: number; hash: string }> {
+      const last = await trx<AuditRow>('audit_entries').orderBy('id', 'desc').first('id', 'hash');
+      return { count: last?.id ?? 0, hash: last?.hash ?? GENESIS };
+    },
+
     async list(filter: { entity?: string; entityId?: number; limit?: number }) {
       const q = db<AuditRow>('audit_entries').leftJoin('users', 'users.id', 'audit_entries.actor_id').orderBy('audit_entries.id', 'desc').limit(filter.limit ?? 200);
       if (filter.entity) q.where('audit_entries.entity', filter.entity);
