@@ -1,4 +1,4 @@
-import type { Db } from '../server/db/knex';
+import { writeTransaction, type Db } from '../server/db/knex';
 import { seedStudioAndStaff } from './01-studio-and-staff';
 import { seedRig } from './02-rig';
 import { seedSafety } from './03-safety';
@@ -9,13 +9,13 @@ import { seedSchedule } from './04-schedule';
  * idempotent and every date in it is relative to `now`, the moment of the first start.
  */
 export async function seedDemoIfEmpty(db: Db, now: Date): Promise<boolean> {
-  const anyone = await db('users').first('id');
-  if (anyone) return false;
-  await db.transaction(async (trx) => {
+  // Checked under the write lock, so two processes starting on one new file seed it once.
+  return writeTransaction(db, async (trx) => {
+    if (await trx('users').first('id')) return false;
     await seedStudioAndStaff(trx, now);
     await seedRig(trx, now);
     await seedSafety(trx, now);
     await seedSchedule(trx, now);
+    return true;
   });
-  return true;
 }

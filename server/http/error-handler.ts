@@ -2,6 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import { HttpError } from './errors';
 import { zodDetails } from './validate';
+import { DatabaseBusyError, isBusy } from '../db/knex';
 
 export const apiNotFound: RequestHandler = (req, res) => {
   res.status(404).json({ error: { code: 'not_found', message: `No such API route: ${req.method} ${req.path}` } });
@@ -34,6 +35,12 @@ export function errorHandler(log: (err: unknown) => void): ErrorRequestHandler {
       const code = e.type === 'entity.parse.failed' ? 'invalid_json' : 'bad_request';
       const message = e.type === 'entity.parse.failed' ? 'The request body is not valid JSON.' : 'The request could not be read.';
       res.status(status).json({ error: { code, message } });
+      return;
+    }
+    // Only after writeTransaction waited out its patience (another process held the lock for
+    // seconds): nothing was written, and trying again is right.
+    if (err instanceof DatabaseBusyError || isBusy(err)) {
+      res.set('Retry-After', '5').status(503).json({ error: { code: 'busy', message: 'The studio records are busy. Nothing was changed; try again in a moment.' } });
       return;
     }
     log(err);

@@ -2,6 +2,7 @@ import { sessionRisk } from '../../shared/clearance';
 import type { MailCycleContext } from './context';
 import type { MailSession } from './mail-data.repository';
 import { atRiskMessage } from './templates/at-risk';
+import { writeTransaction } from '../db/knex';
 
 export const atRiskKeyPrefix = (sessionId: number, startsAt: string) => `at_risk:${sessionId}:${startsAt}:`;
 
@@ -26,7 +27,7 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
     }
     if (s.atRisk) continue;
     const mail = alertMessage(ctx, s, trouble);
-    await ctx.db.transaction(async (trx) => {
+    await writeTransaction(ctx.db, async (trx) => {
       // The flag flips only if nobody flipped it since we read it, so two workers cannot both alert.
       if (!(await ctx.data.setAtRiskIf(s.id, false, true, trx))) return;
       const prefix = atRiskKeyPrefix(s.id, s.startsAt);

@@ -2,6 +2,7 @@ import { TZDate } from '@date-fns/tz';
 import { addStudioDays, clearedUntil, formatStudioDay, gearName, pointStatusAt, serviceLifeEnd, studioDay } from '../../shared/clearance';
 import type { MailCycleContext } from './context';
 import { digestIsEmpty, digestMessage, type DigestInput } from './templates/digest';
+import { writeTransaction } from '../db/knex';
 
 /** The digest goes out once per studio day, at the first cycle at or after this hour, studio time. */
 export const DIGEST_HOUR = 7;
@@ -27,7 +28,7 @@ export async function scheduleDigests(ctx: MailCycleContext): Promise<{ queued: 
   const empty = digestIsEmpty(content);
   let queued = 0;
   let skipped = 0;
-  await ctx.db.transaction(async (trx) => {
+  await writeTransaction(ctx.db, async (trx) => {
     for (const u of pending) {
       const mail = digestMessage({ ...content, studioName: ctx.studioName, timeZone: tz, appUrl: ctx.appUrl, recipientName: u.name, dayLabel: formatStudioDay(ctx.now, tz), warningDays: ctx.policy.warningDays });
       const added = await ctx.outbox.insert(

@@ -3,6 +3,7 @@ import type { MailCycleContext } from './context';
 import type { MailSession } from './mail-data.repository';
 import { reminderMessage } from './templates/reminder';
 import type { MailPoint } from './templates/points';
+import { writeTransaction } from '../db/knex';
 
 const HOUR = 3_600_000;
 
@@ -40,7 +41,7 @@ export async function scheduleReminders(ctx: MailCycleContext): Promise<{ queued
   for (const { s, missing } of due) {
     const [send, ...replaced] = missing;
     const mail = await reminderFor(ctx, s, pointIds.get(s.id) ?? []);
-    await ctx.db.transaction(async (trx) => {
+    await writeTransaction(ctx.db, async (trx) => {
       const ref = { sessionId: s.id, sessionStartsAt: s.startsAt };
       if (await ctx.outbox.insert(trx, { kind: 'reminder', uniqueKey: reminderKey(s.id, s.startsAt, send), to: [s.instructor.email], ...mail, ...ref }, ctx.now)) queued += 1;
       for (const l of replaced) {

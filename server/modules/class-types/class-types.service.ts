@@ -1,4 +1,4 @@
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -28,7 +28,7 @@ export function classTypesService(deps: { db: Db; repo: ClassTypesRepository; au
     },
     async create(input: CreateClassType, actorId: number) {
       if (await repo.nameTaken(input.name)) throw conflict('name_taken', 'A class type with that name already exists.', { fields: { name: 'Already used' } });
-      const id = await db.transaction(async (trx) => {
+      const id = await writeTransaction(db, async (trx) => {
         const newId = await repo.insert(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'class_type.created', entity: 'class_type', entityId: newId, after: input }, clock.now());
         return newId;

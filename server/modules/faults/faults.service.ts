@@ -1,4 +1,4 @@
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -51,7 +51,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
     async report(input: CreateFault, photos: Express.Multer.File[], actorId: number) {
       // Photos are checked from their bytes before anything is written.
       await docs.checkFiles(photos);
-      const id = await db.transaction(async (trx) => {
+      const id = await writeTransaction(db, async (trx) => {
         const faultId = await open(trx, { ...input, reportedBy: actorId });
         if (photos.length) await docs.store(trx, { type: 'fault', id: faultId }, photos, 'photo', actorId);
         return faultId;
@@ -66,7 +66,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
     async resolve(id: number, r: ResolveFault, actorId: number) {
       const fault = await this.get(id);
       if (fault.status === 'resolved') throw conflict('already_resolved', 'This fault is already resolved.');
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         const now = clock.now();
         if (r.resolution === 'replaced' && fault.gearId !== null) {
           if (r.replacementGearId === undefined) throw new HttpError(400, 'invalid_request', 'Pick the stock item that replaces it.', { source: 'body', fields: { replacementGearId: 'Pick the replacement' } });

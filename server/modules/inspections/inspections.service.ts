@@ -1,5 +1,5 @@
 import { stringify } from 'csv-stringify/sync';
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -51,7 +51,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
     /** PRODUCT.md §6.1: record the inspection; it clears only when nothing fails and no fault is open. */
     async clear(pointId: number, body: ClearanceBody, actorId: number) {
       const { policy } = await studio.get();
-      const result = await db.transaction(async (trx) => {
+      const result = await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const b = await pointBundle(pointId, trx);
         const checklist = inspectionChecklist(b.point, b.snapshot.links);
@@ -119,7 +119,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
       const gear = await rig.gearById(gearId);
       if (!gear) throw notFound('That gear item');
       if (gear.status === 'retired') throw conflict('gear_retired', 'A retired item is not inspected back into use.');
-      const id = await db.transaction(async (trx) => {
+      const id = await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const passed = body.result !== 'fail';
         if (passed) {
@@ -150,7 +150,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
     /** PRODUCT.md §4.5: valid for the studio day; a failed item opens a fault at once. */
     async preuse(pointId: number, body: PreuseBody, actorId: number) {
       const { policy } = await studio.get();
-      const out = await db.transaction(async (trx) => {
+      const out = await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const b = await pointBundle(pointId, trx);
         const list = preuseChecklist(b.snapshot.links);

@@ -1,4 +1,4 @@
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 
 import { outboxStates } from '../../../shared/schemas/outbox';
 export { outboxStates };
@@ -134,7 +134,7 @@ export function outboxRepository(db: Db) {
      */
     async claimDue(now: Date, limit: number, leaseMs: number): Promise<OutboxMessage[]> {
       const at = now.toISOString();
-      return db.transaction(async (trx) => {
+      return writeTransaction(db, async (trx) => {
         await trx('outbox_messages').where('state', 'sending').where('lease_until', '<=', at).update({ state: 'queued', lease_until: null });
         const due = (await trx('outbox_messages').where('state', 'queued').where('next_attempt_at', '<=', at).orderBy('id').limit(limit)) as OutboxRow[];
         if (!due.length) return [];

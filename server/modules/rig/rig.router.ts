@@ -14,7 +14,7 @@ import {
   updatePointSchema,
   uploadFieldsSchema,
 } from '../../../shared/schemas/rig';
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import { HttpError, notFound } from '../../http/errors';
 import type { DocumentsService } from '../documents/documents.service';
 import { uploadMiddleware } from '../documents/documents.service';
@@ -70,7 +70,7 @@ export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsServic
         await exists(params.id);
         const files = (req.files as Express.Multer.File[] | undefined) ?? [];
         if (!files.length) throw new HttpError(400, 'no_file', 'Choose a file to upload (field “file”).');
-        const [doc] = await db.transaction((trx) => docs.store(trx, { type: owner, id: params.id }, files, body.kind, user.id));
+        const [doc] = await writeTransaction(db, (trx) => docs.store(trx, { type: owner, id: params.id }, files, body.kind, user.id));
         return doc;
       },
     });

@@ -1,4 +1,4 @@
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -59,7 +59,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     },
     async createRoom(name: string, actorId: number) {
       if (await rig.roomNameTaken(name)) throw conflict('room_exists', 'A room with that name already exists.', { fields: { name: 'Already used' } });
-      return db.transaction(async (trx) => {
+      return writeTransaction(db, async (trx) => {
         const room = await rig.insertRoom(name, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'room.created', entity: 'room', entityId: room.id, after: room }, clock.now());
         return { ...room, pointCount: 0 };
@@ -90,7 +90,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     async createPoint(input: CreatePoint, actorId: number) {
       if (!(await rig.roomById(input.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });
       if (await rig.pointLabelTaken(input.label)) throw conflict('label_taken', 'Another point already has that label.', { fields: { label: 'Already used' } });
-      const id = await db.transaction(async (trx) => {
+      const id = await writeTransaction(db, async (trx) => {
         const newId = await rig.insertPoint(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'point.created', entity: 'point', entityId: newId, after: input }, clock.now());
         return newId;
@@ -101,7 +101,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       const before = (await bundle(id)).point;
       if (patch.roomId !== undefined && !(await rig.roomById(patch.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });
       if (patch.label !== undefined && (await rig.pointLabelTaken(patch.label, id))) throw conflict('label_taken', 'Another point already has that label.', { fields: { label: 'Already used' } });
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         const now = clock.now();
         await rig.updatePoint(id, patch, now, trx);
         // A new structural rating changes what the clearance vouched for.
@@ -113,7 +113,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
 
     /** Replaces the whole path in one transaction; a refusal leaves the old path as it was. */
     async replaceLoadPath(id: number, body: LoadPathBody, actorId: number) {
-      const result = await db.transaction(async (trx) => {
+      const result = await writeTransaction(db, async (trx) => {
         const current = await bundle(id, trx);
         const gearIds = body.links.map((l) => l.gearId);
         const gear = new Map((await rig.gearByIds(gearIds, trx)).map((g) => [g.id, g]));
@@ -187,7 +187,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     },
     async createGear(input: CreateGear, actorId: number) {
       if (await rig.serialTaken(input.serial)) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
-      const id = await db.transaction(async (trx) => {
+      const id = await writeTransaction(db, async (trx) => {
         const newId = await rig.insertGear(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'gear.created', entity: 'gear', entityId: newId, after: input }, clock.now());
         return newId;
@@ -203,7 +203,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       if (before.pointId !== null && patch.kind !== undefined && isApparatusKind(patch.kind) !== isApparatusKind(before.kind)) {
         throw conflict('gear_in_use', 'Take the item out of its load path before changing it between apparatus and fixed gear.');
       }
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         const now = clock.now();
         await rig.updateGear(id, patch, now, trx);
         if (before.pointId !== null && gearRatingChangeVoids(before, after)) await rig.voidClearance(before.pointId, now, trx);
@@ -214,7 +214,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     async setGearStatus(id: number, status: 'retired' | 'quarantined', reason: string, actorId: number) {
       const before = await gearOrThrow(id);
       if (before.status === 'retired') throw conflict('gear_retired', 'This item is already retired; a retirement is final.');
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         await rig.updateGear(id, { status, statusReason: reason }, clock.now(), trx);
         await audit.record(trx, { actorId, action: `gear.${status}`, entity: 'gear', entityId: id, before: { status: before.status }, after: { status, reason } }, clock.now());
       });
@@ -223,7 +223,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     /** An event quarantines the item until an after-incident inspection passes; it opens no fault and voids no clearance. */
     async recordEvent(id: number, e: GearEventBody, actorId: number) {
       const before = await gearOrThrow(id);
-      const eventId = await db.transaction(async (trx) => {
+      const eventId = await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const newId = await rig.insertGearEvent({ gearId: id, kind: e.kind, note: e.note, by: actorId }, now, trx);
         if (before.status !== 'retired') await rig.updateGear(id, { status: 'quarantined', statusReason: `After ${e.kind.replace(/_/g, ' ')}: awaiting an after-incident inspection` }, now, trx);

@@ -1,4 +1,4 @@
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { HttpError, conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -167,7 +167,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         }
         if (!occurrences.length) throw new HttpError(400, 'invalid_request', 'The repeat rule gives no classes.', { source: 'body', fields: { rrule: 'No occurrences' } });
       }
-      const created = await db.transaction(async (trx) => {
+      const created = await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const classType = await classTypeOrThrow(body.classTypeId, trx);
         await checkInstructor(body.instructorId, trx);
@@ -203,7 +203,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
     /** Move, stretch or change instructor, re-checked; `following` applies the same change to the rest of the series. */
     async update(id: number, patch: UpdateSession, actorId: number) {
       const { policy } = await studio.get();
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
@@ -242,7 +242,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
     async swapPoints(id: number, body: SwapPoints, actorId: number) {
       const { pointIds } = body;
       const { policy } = await studio.get();
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
@@ -269,7 +269,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
 
     /** Kept and marked, and the instructor told; `following` cancels the rest of the series too. */
     async cancel(id: number, body: CancelSession, actorId: number) {
-      await db.transaction(async (trx) => {
+      await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'This class is already cancelled.');

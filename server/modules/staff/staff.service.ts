@@ -3,7 +3,7 @@ import type { CreateUser, Instructor, UpdateUser, User } from '../../../shared/s
 import { conflict, notFound } from '../../http/errors';
 import type { StaffRepository } from './staff.repository';
 import { hashPassword } from './passwords';
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { AuditRepository } from '../audit/audit.repository';
 
 // People sort as a reader expects: "bea" after "Adam", "Émile" among the E's (SQLite's ORDER BY compares bytes).
@@ -26,7 +26,7 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
     async create(input: CreateUser, actorId: number): Promise<User> {
       if (await repo.emailTaken(input.email)) throw conflict('email_taken', 'Someone on the staff already uses that e-mail address.', { fields: { email: 'Already in use' } });
       const passwordHash = await hashPassword(input.password);
-      return deps.db.transaction(async (trx) => {
+      return writeTransaction(deps.db, async (trx) => {
         const user = await repo.insert({ email: input.email, name: input.name, role: input.role, passwordHash }, clock.now(), trx);
         await deps.audit.record(trx, { actorId, action: 'user.created', entity: 'user', entityId: user.id, after: { email: user.email, name: user.name, role: user.role } }, clock.now());
         return user;
@@ -40,7 +40,7 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
         throw conflict('last_owner', 'The studio needs at least one active owner. Make someone else owner first.');
       }
       if (id === actorId && patch.active === false) throw conflict('self_deactivation', 'You cannot deactivate your own account.');
-      await deps.db.transaction(async (trx) => {
+      await writeTransaction(deps.db, async (trx) => {
         await repo.update(id, patch, clock.now(), trx);
         const before = { name: user.name, role: user.role, active: user.active };
         await deps.audit.record(trx, { actorId, action: patch.role && patch.role !== user.role ? 'user.role_changed' : 'user.updated', entity: 'user', entityId: id, before, after: patch }, clock.now());
