@@ -4,6 +4,7 @@ import * as m002 from './002-rig-register';
 import * as m003 from './003-inspections-faults-audit';
 import * as m004 from './004-schedule';
 import * as m005 from './005-outbox';
+import * as m008 from './008-sign-in-limits-and-session-versions';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -15,6 +16,7 @@ const migrations: Record<string, Knex.Migration> = {
   '003-inspections-faults-audit': m003,
   '004-schedule': m004,
   '005-outbox': m005,
+  '008-sign-in-limits-and-session-versions': m008,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -7,7 +7,9 @@ import type { Clock } from './clock';
 import type { Mailer } from './mail/transport';
 import type { FakeSmtp } from './mail/fake-smtp';
 import { ApiRouter, type RouteDeclaration } from './http/route';
-import { authConfig, authenticate, authRoutes, requireSameOrigin, requireSignedIn, signInLimiters } from './http/auth';
+import { authConfig, authenticate, authRoutes, requireSameOrigin, requireSignedIn } from './http/auth';
+import { signInGuard } from './http/sign-in-guard';
+import { signInCountersRepository } from './modules/staff/sign-in-counters.repository';
 import { apiNotFound, errorHandler } from './http/error-handler';
 import { staffRepository } from './modules/staff/staff.repository';
 import { staffService } from './modules/staff/staff.service';
@@ -96,17 +98,22 @@ export function createApp(deps: AppDeps): LoftwiseApp {
     }),
   );
 
-  const staffRepo = staffRepository(deps.db);
-  const auth = authConfig({ secret: deps.authSecret, appUrl: deps.appUrl, staff: staffRepo });
+  const { db, clock } = deps;
+  const audit = auditRepository(db);
+  const staffRepo = staffRepository(db);
+  const staff = staffService(staffRepo, clock, { db, audit });
+  const auth = authConfig({ secret: deps.authSecret, appUrl: deps.appUrl, staff: staffRepo, signedOut: (id) => staff.signedOut(id) });
 
-  app.post('/auth/callback/credentials', ...signInLimiters());
+  // Sign-in passes the guard (one value per field, limits counted in the database) before Auth.js.
+  app.post(
+    '/auth/callback/credentials',
+    ...signInGuard({ counters: signInCountersRepository(db), clock, secret: deps.authSecret, trustProxyHops: deps.trustProxyHops ?? 0, log: (m) => log(new Error(m)) }),
+  );
   app.use('/auth', authRoutes(auth));
 
-  const { db, clock } = deps;
   // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
   const version = dataVersion(db);
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
-  const audit = auditRepository(db);
   const studioRepo = studioRepository(db);
   const rigRepo = rigRepository(db);
   const docs = documentsService({ db, clock, uploadDir: deps.uploadDir });
@@ -121,7 +128,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
 
   const api = new ApiRouter('/api');
-  staffRoutes(api, staffService(staffRepo, clock, { db, audit }));
+  staffRoutes(api, staff);
   studioRoutes(api, studioService(studioRepo, clock));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
@@ -142,7 +149,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
     express.json({ limit: '200kb' }),
     // The person is read for every request; the read is kept per data version, so a role change or a
     // deactivation (a write) applies to the very next request.
-    authenticate(auth, { byId: (id) => derived.get(`user|${id}`, async () => ({ value: await staffRepo.byId(id), holdsAt: () => true })) }),
+    authenticate(auth, { withSessionVersion: (id) => derived.get(`user|${id}`, async () => ({ value: await staffRepo.withSessionVersion(id), holdsAt: () => true })) }),
     requireSignedIn,
     requireSameOrigin(deps.appUrl),
     api.router,

@@ -1,3 +1,4 @@
+import type { Server } from 'node:http';
 import { resolve } from 'node:path';
 import { loadConfig } from './config';
 import { createDb, migrate } from './db/knex';
@@ -8,7 +9,25 @@ import { smtpMailer } from './mail/transport';
 import { startMailWorker } from './mail/worker';
 import { seedDemoIfEmpty } from '../seeds';
 
+/** Resolves once the server listens; rejects (EADDRINUSE, EACCES…) when it cannot. */
+function listen(app: ReturnType<typeof createApp>, port: number): Promise<Server> {
+  return new Promise((resolvePromise, reject) => {
+    const server = app.listen(port);
+    server.once('listening', () => resolvePromise(server));
+    server.once('error', reject);
+  });
+}
+
+function cannotListen(err: unknown, port: number): string {
+  const code = (err as { code?: string })?.code;
+  if (code === 'EADDRINUSE') return `Loftwise cannot start: port ${port} is already in use (is another Loftwise running?). Stop it or set PORT to a free port.`;
+  if (code === 'EACCES') return `Loftwise cannot start: this user may not listen on port ${port}. Set PORT to a port above 1023.`;
+  return `Loftwise cannot start: listening on port ${port} failed (${err instanceof Error ? err.message : String(err)}).`;
+}
+
 async function main() {
+  // Everything the server writes (database, WAL, backups, uploads, the secret) is for its own user only.
+  process.umask(0o077);
   const config = loadConfig();
   const db = createDb(config.dbFile);
   await migrate(db);
@@ -28,10 +47,16 @@ async function main() {
     trustProxyHops: config.trustProxyHops,
     benchBaselineDbFile: process.env.LOFTWISE_BENCH_BASELINE === '1' ? config.dbFile : null,
   });
-  const server = app.listen(config.port, () => {
-    console.log(`Loftwise is serving on ${config.appUrl} (port ${config.port}).`);
-    if (fakeSmtp) console.log(`Built-in mail catcher on ${fakeSmtp.url}; read it on the Mailbox page.`);
+  // Listen before anything runs in the background: a server that cannot take its port says so
+  // and exits, rather than sending mail beside the one that holds it.
+  const server = await listen(app, config.port).catch(async (err) => {
+    await fakeSmtp?.close();
+    mailer.close();
+    await db.destroy();
+    throw new Error(cannotListen(err, config.port));
   });
+  console.log(`Loftwise is serving on ${config.appUrl} (port ${config.port}).`);
+  if (fakeSmtp) console.log(`Built-in mail catcher on ${fakeSmtp.url}; read it on the Mailbox page.`);
   // The mail worker: reminders, at-risk alerts, the digest, and sending the outbox (PRODUCT.md §5).
   const mailWorker = startMailWorker({ db, mailer, clock: systemClock, appUrl: config.appUrl, intervalMs: config.outboxIntervalMs, leaseMs: config.outboxLeaseMs });
 

@@ -1,13 +1,17 @@
 import Database from 'better-sqlite3';
-import { mkdirSync } from 'node:fs';
+import { chmodSync, closeSync, existsSync, mkdirSync, openSync } from 'node:fs';
 import { dirname } from 'node:path';
+import { narrowToOwner, PRIVATE_DIR_MODE, PRIVATE_FILE_MODE } from './knex';
 
 /**
  * A consistent copy of the live database through SQLite's online backup API: it copies pages
  * while the server keeps running, and restarts itself if a write lands mid-copy.
  */
 export async function backupDatabase(sourceFile: string, destFile: string): Promise<{ pages: number }> {
-  mkdirSync(dirname(destFile), { recursive: true });
+  // A backup holds everything the live file does: owner-only like it (see preparePrivateDbFile).
+  if (!existsSync(dirname(destFile))) mkdirSync(dirname(destFile), { recursive: true, mode: PRIVATE_DIR_MODE });
+  if (!existsSync(destFile)) closeSync(openSync(destFile, 'a', PRIVATE_FILE_MODE));
+  chmodSync(destFile, PRIVATE_FILE_MODE);
   const source = new Database(sourceFile, { readonly: true, fileMustExist: true });
   try {
     const result = await source.backup(destFile);
@@ -18,6 +22,7 @@ export async function backupDatabase(sourceFile: string, destFile: string): Prom
     } finally {
       copy.close();
     }
+    narrowToOwner(destFile);
     return { pages: result.totalPages };
   } finally {
     source.close();

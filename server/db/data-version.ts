@@ -15,8 +15,11 @@ export interface DataVersion {
   current(): Promise<string>;
 }
 
-/** Mail bookkeeping: written every worker cycle, read by no kept answer (sessions, Today, points, people). */
-export const UNREAD_TABLES = new Set(['outbox_messages']);
+/**
+ * Mail bookkeeping (written every worker cycle) and the sign-in counters (written at every
+ * sign-in): read by no kept answer (sessions, Today, points, people).
+ */
+export const UNREAD_TABLES = new Set(['outbox_messages', 'sign_in_counters']);
 
 const READ = /^\s*(select\b|pragma\s+data_version\b)/i;
 const TX_START = /^\s*(begin|savepoint)\b/i;

@@ -2,12 +2,11 @@ import type { RequestHandler } from 'express';
 import { ExpressAuth, type ExpressAuthConfig } from '@auth/express';
 import Credentials from '@auth/express/providers/credentials';
 import { getToken } from '@auth/core/jwt';
-import rateLimit from 'express-rate-limit';
-import express from 'express';
 import type { Role } from '../../shared/schemas/vocabulary';
 import { signInSchema } from '../../shared/schemas/staff';
 import type { StaffRepository } from '../modules/staff/staff.repository';
 import { verifyPassword } from '../modules/staff/passwords';
+import { currentSignInAttempt } from './sign-in-guard';
 
 export interface CurrentUser {
   id: number;
@@ -25,12 +24,33 @@ declare module 'express-serve-static-core' {
 export interface AuthOptions {
   secret: string;
   appUrl: string;
-  staff: StaffRepository;
+  staff: Pick<StaffRepository, 'credentialsByEmail' | 'withSessionVersion'>;
+  /** A current session was signed out: every session of the person ends (server/modules/staff). */
+  signedOut: (userId: number) => Promise<void>;
 }
+
+/** What our session cookie carries besides Auth.js's own claims. */
+interface LoftwiseToken {
+  sub?: string;
+  /** users.session_version when the cookie was issued; the cookie is dead once it moves. */
+  sv?: number;
+  exp?: number;
+}
+const versionOf = (token: unknown): number | undefined => {
+  const sv = (token as LoftwiseToken | null)?.sv;
+  return typeof sv === 'number' ? sv : undefined;
+};
 
 const SESSION_HOURS = 12;
 
-export function authConfig({ secret, appUrl, staff }: AuthOptions): ExpressAuthConfig {
+export function authConfig({ secret, appUrl, staff, signedOut }: AuthOptions): ExpressAuthConfig {
+  /** The person a token names, if the token is still theirs to use. */
+  const currentHolder = async (token: LoftwiseToken | null) => {
+    const id = token?.sub ? Number(token.sub) : NaN;
+    if (!Number.isInteger(id) || id <= 0) return null;
+    const person = await staff.withSessionVersion(id);
+    return person?.active && person.sessionVersion === versionOf(token) ? person : null;
+  };
   return {
     secret,
     trustHost: true,
@@ -42,55 +62,40 @@ export function authConfig({ secret, appUrl, staff }: AuthOptions): ExpressAuthC
       Credentials({
         credentials: { email: { label: 'E-mail' }, password: { label: 'Password', type: 'password' } },
         async authorize(raw) {
+          // Only a request the sign-in guard counted may sign anyone in (server/http/sign-in-guard.ts).
+          const attempt = currentSignInAttempt();
+          if (!attempt) return null;
           const parsed = signInSchema.safeParse(raw);
-          if (!parsed.success) return null;
+          if (!parsed.success || parsed.data.email !== attempt.email) return null;
           const account = await staff.credentialsByEmail(parsed.data.email);
           const ok = await verifyPassword(account?.passwordHash ?? null, parsed.data.password);
           if (!account || !ok || !account.active) return null;
-          return { id: String(account.id), email: account.email, name: account.name };
+          await attempt.succeeded();
+          return { id: String(account.id), email: account.email, name: account.name, sessionVersion: account.sessionVersion };
         },
       }),
     ],
     callbacks: {
-      jwt({ token, user }) {
-        if (user?.id) token.sub = user.id;
-        return token;
+      async jwt({ token, user }) {
+        if (user?.id) {
+          token.sub = user.id;
+          token.sv = (user as { sessionVersion?: number }).sessionVersion;
+          return token;
+        }
+        // GET /auth/session renews the cookie: only while it is still the person's current session.
+        return (await currentHolder(token)) ? token : null;
+      },
+    },
+    events: {
+      async signOut(message) {
+        const token = 'token' in message ? (message.token as LoftwiseToken | null) : null;
+        // A stale cookie signing out ends nothing more; a current one ends every session of the person.
+        const person = await currentHolder(token);
+        if (person) await signedOut(person.id);
       },
     },
     logger: { error: () => undefined, warn: () => undefined },
   };
-}
-
-/**
- * Failed sign-ins are limited per address and per account; a sign-in that sets a session cookie
- * is not counted. `trust proxy` is 1, so a forged X-Forwarded-For cannot pick the address.
- */
-export function signInLimiters(): RequestHandler[] {
-  const succeeded = (_req: express.Request, res: express.Response) => {
-    const cookies = ([] as string[]).concat((res.getHeader('set-cookie') as string[] | string | undefined) ?? []);
-    return cookies.some((c) => /authjs\.session-token=[^;]+/.test(c));
-  };
-  const common = {
-    windowMs: 15 * 60 * 1000,
-    limit: 10,
-    standardHeaders: 'draft-7' as const,
-    legacyHeaders: false,
-    skipSuccessfulRequests: true,
-    requestWasSuccessful: succeeded,
-    handler: (_req: express.Request, res: express.Response) => {
-      res.status(429).json({ error: { code: 'rate_limited', message: 'Too many failed sign-ins. Wait 15 minutes and try again.' } });
-    },
-  };
-  return [
-    express.urlencoded({ extended: false, limit: '10kb' }),
-    express.json({ limit: '10kb' }),
-    rateLimit({ ...common, identifier: 'address' }),
-    rateLimit({
-      ...common,
-      identifier: 'account',
-      keyGenerator: (req) => `account:${String((req.body as { email?: unknown })?.email ?? '').trim().toLowerCase().slice(0, 254)}`,
-    }),
-  ];
 }
 
 export function authRoutes(config: ExpressAuthConfig): RequestHandler {
@@ -103,8 +108,8 @@ export function authRoutes(config: ExpressAuthConfig): RequestHandler {
  * until the token's own expiry. Only the token is kept: the person is still read on every request.
  */
 export function tokenCache(max = 2_000, nowSeconds = () => Date.now() / 1000) {
-  const cache = new Map<string, { sub?: string; exp?: number } | null>();
-  return async (cookieHeader: string | undefined, decode: () => Promise<{ sub?: string; exp?: number } | null>) => {
+  const cache = new Map<string, LoftwiseToken | null>();
+  return async (cookieHeader: string | undefined, decode: () => Promise<LoftwiseToken | null>) => {
     if (!cookieHeader) return null;
     const hit = cache.get(cookieHeader);
     if (hit !== undefined) {
@@ -114,7 +119,7 @@ export function tokenCache(max = 2_000, nowSeconds = () => Date.now() / 1000) {
     const token = await decode();
     if (token && typeof token.exp === 'number' && token.exp > nowSeconds()) {
       if (cache.size >= max) cache.delete(cache.keys().next().value as string);
-      cache.set(cookieHeader, { sub: token.sub, exp: token.exp });
+      cache.set(cookieHeader, { sub: token.sub, exp: token.exp, sv: versionOf(token) });
     }
     return token;
   };
@@ -122,9 +127,10 @@ export function tokenCache(max = 2_000, nowSeconds = () => Date.now() / 1000) {
 
 /**
  * Reads the session cookie and loads the person from the database on every request, so a
- * deactivated account or a changed role takes effect at once.
+ * deactivated account or a changed role takes effect at once, and a cookie issued under an
+ * older session version (signed out, password reset, deactivated, role changed) is refused.
  */
-export function authenticate(config: ExpressAuthConfig, staff: Pick<StaffRepository, 'byId'>): RequestHandler {
+export function authenticate(config: ExpressAuthConfig, staff: Pick<StaffRepository, 'withSessionVersion'>): RequestHandler {
   const secureCookie = Boolean(config.useSecureCookies);
   const tokens = tokenCache();
   return async (req, _res, next) => {
@@ -133,8 +139,8 @@ export function authenticate(config: ExpressAuthConfig, staff: Pick<StaffReposit
     );
     const id = token?.sub ? Number(token.sub) : NaN;
     if (Number.isInteger(id) && id > 0) {
-      const user = await staff.byId(id);
-      if (user?.active) req.user = { id: user.id, email: user.email, name: user.name, role: user.role };
+      const user = await staff.withSessionVersion(id);
+      if (user?.active && user.sessionVersion === versionOf(token)) req.user = { id: user.id, email: user.email, name: user.name, role: user.role };
     }
     next();
   };

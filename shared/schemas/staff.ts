@@ -1,7 +1,13 @@
 import { z } from 'zod';
 import { roleSchema } from './vocabulary';
 
-const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'Enter an e-mail address such as name@studio.test' })).pipe(z.string().max(254));
+/**
+ * The one form of an e-mail address for lookups: what sign-in looks the account up by is exactly
+ * what the sign-in limits count against (server/http/sign-in-guard.ts).
+ */
+export const normaliseEmail = (raw: string): string => raw.trim().toLowerCase();
+
+const email = z.string().transform(normaliseEmail).pipe(z.email({ message: 'Enter an e-mail address such as name@studio.test' })).pipe(z.string().max(254));
 const name = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
 export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Keep the password under 200 characters');
 

@@ -10,6 +10,7 @@ interface UserRow {
   password_hash: string;
   active: number | boolean;
   digest_opt_out: number | boolean;
+  session_version: number;
 }
 
 const toUser = (r: UserRow): User => ({
@@ -34,9 +35,20 @@ export function staffRepository(db: Db) {
       const row = await db<UserRow>('users').where({ id }).first();
       return row ? toUser(row) : null;
     },
-    async credentialsByEmail(email: string): Promise<(User & { passwordHash: string }) | null> {
+    /** The person with the version a session cookie must carry (never part of a User on the wire). */
+    async withSessionVersion(id: number): Promise<(User & { sessionVersion: number }) | null> {
+      const row = await db<UserRow>('users').where({ id }).first();
+      return row ? { ...toUser(row), sessionVersion: Number(row.session_version) } : null;
+    },
+    async credentialsByEmail(email: string): Promise<(User & { passwordHash: string; sessionVersion: number }) | null> {
       const row = await db<UserRow>('users').where({ email }).first();
-      return row ? { ...toUser(row), passwordHash: row.password_hash } : null;
+      return row ? { ...toUser(row), passwordHash: row.password_hash, sessionVersion: Number(row.session_version) } : null;
+    },
+    /** Ends every session the person holds: cookies issued under the old version are refused. */
+    async moveSessionVersion(id: number, at: Date, trx: Db = db): Promise<number> {
+      await trx('users').where({ id }).update({ session_version: trx.raw('session_version + 1'), updated_at: at.toISOString() });
+      const row = await trx<UserRow>('users').where({ id }).first('session_version');
+      return Number(row?.session_version ?? 0);
     },
     async emailTaken(email: string): Promise<boolean> {
       return Boolean(await db('users').where({ email }).first('id'));

@@ -21,8 +21,8 @@ export function staffRoutes(api: ApiRouter, staff: StaffService) {
     access: ['owner'],
     params: idParams,
     body: resetPasswordSchema,
-    handler: async ({ params, body }) => {
-      await staff.resetPassword(params.id, body.password);
+    handler: async ({ params, body, user }) => {
+      await staff.resetPassword(params.id, body.password, user.id);
       return { ok: true };
     },
   });

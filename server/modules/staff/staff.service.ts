@@ -9,7 +9,13 @@ import type { AuditRepository } from '../audit/audit.repository';
 // People sort as a reader expects: "bea" after "Adam", "Émile" among the E's (SQLite's ORDER BY compares bytes).
 const byName = new Intl.Collator('en', { sensitivity: 'base', numeric: true });
 
+export type SessionsEndedReason = 'signed_out' | 'password_reset' | 'deactivated' | 'role_changed';
+
 export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db; audit: AuditRepository }) {
+  const endSessions = async (trx: Db, id: number, actorId: number, reason: SessionsEndedReason) => {
+    const sessionVersion = await repo.moveSessionVersion(id, clock.now(), trx);
+    await deps.audit.record(trx, { actorId, action: 'user.sessions_ended', entity: 'user', entityId: id, after: { reason, sessionVersion } }, clock.now());
+  };
   return {
     list: () => repo.list(),
 
@@ -40,10 +46,16 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
         throw conflict('last_owner', 'The studio needs at least one active owner. Make someone else owner first.');
       }
       if (id === actorId && patch.active === false) throw conflict('self_deactivation', 'You cannot deactivate your own account.');
+      const roleChanged = Boolean(patch.role && patch.role !== user.role);
+      const deactivated = patch.active === false && user.active;
       await writeTransaction(deps.db, async (trx) => {
         await repo.update(id, patch, clock.now(), trx);
         const before = { name: user.name, role: user.role, active: user.active };
-        await deps.audit.record(trx, { actorId, action: patch.role && patch.role !== user.role ? 'user.role_changed' : 'user.updated', entity: 'user', entityId: id, before, after: patch }, clock.now());
+        await deps.audit.record(trx, { actorId, action: roleChanged ? 'user.role_changed' : 'user.updated', entity: 'user', entityId: id, before, after: patch }, clock.now());
+        // A copied cookie must not outlive the access it was issued for; reactivating later does
+        // not move the version back, so old cookies stay dead.
+        if (deactivated) await endSessions(trx, id, actorId, 'deactivated');
+        else if (roleChanged) await endSessions(trx, id, actorId, 'role_changed');
       });
       return this.get(id);
     },
@@ -53,9 +65,19 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
       return { digestOptOut: (await this.get(id)).digestOptOut };
     },
 
-    async resetPassword(id: number, password: string): Promise<void> {
+    async resetPassword(id: number, password: string, actorId: number): Promise<void> {
       await this.get(id);
-      await repo.update(id, { passwordHash: await hashPassword(password) }, clock.now());
+      const passwordHash = await hashPassword(password);
+      await writeTransaction(deps.db, async (trx) => {
+        await repo.update(id, { passwordHash }, clock.now(), trx);
+        await deps.audit.record(trx, { actorId, action: 'user.password_reset', entity: 'user', entityId: id }, clock.now());
+        await endSessions(trx, id, actorId, 'password_reset');
+      });
+    },
+
+    /** Auth.js's sign-out: the cookie signed out was current, so every session of the person ends. */
+    async signedOut(id: number): Promise<void> {
+      await writeTransaction(deps.db, (trx) => endSessions(trx, id, id, 'signed_out'));
     },
   };
 }
