@@ -1,4 +1,5 @@
 import nodemailer from 'nodemailer';
+import { isLoopbackHost } from '../config';
 
 export interface OutgoingMail {
   /** `<…@host>`, the same at every attempt to send one outbox row (see outboxMessageId). */
@@ -14,15 +15,25 @@ export interface Mailer {
   close(): void;
 }
 
-/** The same nodemailer SMTP transport for the built-in catcher and a real server at SMTP_URL. */
+/**
+ * The same nodemailer SMTP transport for the built-in catcher and a real server at SMTP_URL.
+ * With credentials, a server off this machine gets them only over TLS: `smtps://`, or STARTTLS
+ * required (nodemailer gives up before AUTH when the server does not offer it), certificates
+ * verified (nodemailer's default). See DEVELOPERS.md, "Mail".
+ */
 export function smtpMailer(smtpUrl: string, from: string): Mailer {
   const url = new URL(smtpUrl);
+  const secure = url.protocol === 'smtps:';
+  const loopback = isLoopbackHost(url.hostname);
+  const credentials = Boolean(url.username);
   const transport = nodemailer.createTransport({
-    host: url.hostname,
-    port: Number(url.port || (url.protocol === 'smtps:' ? 465 : 587)),
-    secure: url.protocol === 'smtps:',
-    auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
-    ignoreTLS: url.hostname === '127.0.0.1',
+    host: url.hostname.replace(/^\[|\]$/g, ''),
+    port: Number(url.port || (secure ? 465 : 587)),
+    secure,
+    auth: credentials ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
+    requireTLS: !secure && credentials && !loopback,
+    // Loopback needs no TLS (the built-in catcher offers none); elsewhere STARTTLS is used when offered.
+    ignoreTLS: !secure && loopback,
     connectionTimeout: 10_000,
     greetingTimeout: 10_000,
     socketTimeout: 20_000,
