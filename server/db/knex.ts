@@ -53,6 +53,7 @@ export function narrowToOwner(file: string): void {
 const require = createRequire(import.meta.url);
 type TransactionCtor = new (client: unknown, container: unknown, config?: Record<string, unknown>, outerTx?: unknown) => {
   query(conn: unknown, sql: string): Promise<unknown>;
+  trxClient: { query(conn: unknown, sql: string): Promise<unknown> };
 };
 const SqliteTransaction = require('knex/lib/dialects/sqlite3/execution/sqlite-transaction') as TransactionCtor;
 const BetterSqliteClient = require('knex/lib/dialects/better-sqlite3') as new (config: Knex.Config) => object;
@@ -69,7 +70,9 @@ class LoftwiseSqliteTransaction extends SqliteTransaction {
     if (!this.immediate) return this.query(conn, 'BEGIN;');
     conn.pragma(`busy_timeout = ${BEGIN_BUSY_TIMEOUT_MS}`);
     try {
-      return await this.query(conn, 'BEGIN IMMEDIATE;');
+      // Straight to the client: knex's own transaction query would reject the transaction and
+      // still run its body; a failed BEGIN must reject before anything of `fn` runs.
+      return await this.trxClient.query(conn, 'BEGIN IMMEDIATE;');
     } catch (err) {
       // Nothing of the transaction has run: writeTransaction may safely try it again.
       if (isBusy(err)) (err as { lockNotTaken?: boolean }).lockNotTaken = true;
