@@ -3,6 +3,8 @@ import { join, resolve } from 'node:path';
 import { loadConfig } from '../server/config';
 import { backupDatabase, backupFileName } from '../server/db/backup';
 
+// The copy holds everything the live file does: for this user only.
+process.umask(0o077);
 const config = loadConfig();
 const dest = resolve(process.argv[2] ?? join('data', 'backups', backupFileName(new Date())));
 backupDatabase(config.dbFile, dest)

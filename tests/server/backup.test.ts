@@ -1,5 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
+import { chmodSync, closeSync, mkdtempSync, openSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { execFileSync } from 'node:child_process';
 import { createDb } from '../../server/db/knex';
 import { backupDatabase } from '../../server/db/backup';
@@ -40,5 +42,34 @@ describe('backups', () => {
     const dest = join(ctx.dir, 'cli-copy.sqlite');
     const out = execFileSync(process.execPath, ['--import', 'tsx', 'scripts/backup.ts', dest], { env: { ...process.env, LOFTWISE_DB: join(ctx.dir, 'test.sqlite'), AUTH_SECRET: 'x'.repeat(40) }, encoding: 'utf8' });
     expect(out).toMatch(/integrity ok/);
+  });
+
+  it('creates the database, its WAL and SHM, and backups readable by their owner only, whatever the umask', async () => {
+    const mode = (f: string) => (statSync(f).mode & 0o777).toString(8);
+    const previous = process.umask(0o022);
+    const root = mkdtempSync(join(tmpdir(), 'loftwise-modes-'));
+    try {
+      const file = join(root, 'data', 'studio.sqlite');
+      const db = createDb(file);
+      await db.schema.createTable('t', (t) => t.increments('id'));
+      await db('t').insert({});
+      expect({ dir: mode(join(root, 'data')), db: mode(file), wal: mode(`${file}-wal`), shm: mode(`${file}-shm`) }).toEqual({ dir: '700', db: '600', wal: '600', shm: '600' });
+      const dest = join(root, 'backups', 'copy.sqlite');
+      await backupDatabase(file, dest);
+      expect({ dir: mode(join(root, 'backups')), copy: mode(dest) }).toEqual({ dir: '700', copy: '600' });
+      await db.destroy();
+
+      // A file an older version left readable by everyone is narrowed when it is opened.
+      const old = join(root, 'old.sqlite');
+      closeSync(openSync(old, 'w'));
+      chmodSync(old, 0o644);
+      const reopened = createDb(old);
+      await reopened.raw('select 1');
+      expect(mode(old)).toBe('600');
+      await reopened.destroy();
+    } finally {
+      process.umask(previous);
+      rmSync(root, { recursive: true, force: true });
+    }
   });
 });
