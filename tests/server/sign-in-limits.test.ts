@@ -104,6 +104,8 @@ describe('whose failures count', () => {
     // A new address is now refused, even with the right password …
     expect((await attempt(ctx.app, '203.0.113.99', { email: owner.email, password: 'guess-more' })).status).toBe(429);
     expect((await attempt(ctx.app, '198.51.100.201', { email: owner.email, password: TEST_PASSWORD })).status).toBe(429);
+    const trick = await attempt(ctx.app, '198.51.100.202', (csrf) => `email=x123&email=${encodeURIComponent(owner.email)}&password=${TEST_PASSWORD}&csrfToken=${csrf}`);
+    expect(trick.signedIn).toBe(false);
     // … while the owner's own address still signs in.
     expect((await attempt(ctx.app, '198.51.100.200', { email: owner.email, password: TEST_PASSWORD })).signedIn).toBe(true);
   }, 60_000);
