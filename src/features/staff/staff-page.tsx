@@ -56,7 +56,7 @@ function StaffRow({ user, canEdit, isMe }: { user: User; canEdit: boolean; isMe:
   const [confirmOff, setConfirmOff] = useState(false);
   const [pw, setPw] = useState<string | null>(null);
   const setRole = (role: User['role']) =>
-    update.mutate({ id: user.id, role }, { onSuccess: () => toast.success(`${user.name} is now ${roleLabel[role].toLowerCase()}.`), onError: (e) => toast.error(errorMessage(e)) });
+    update.mutate({ id: user.id, role }, { onSuccess: () => toast.success(`${user.name} is now ${roleLabel[role].toLowerCase()}. They are signed out everywhere and sign in again to continue.`), onError: (e) => toast.error(errorMessage(e)) });
   return (
     <tr className="border-b border-line last:border-0">
       <td className="px-4 py-3 font-medium">{user.name}{isMe ? <span className="ml-2 text-xs text-muted">(you)</span> : null}</td>
@@ -79,7 +79,7 @@ function StaffRow({ user, canEdit, isMe }: { user: User; canEdit: boolean; isMe:
               className="inline-flex items-center gap-2"
               onSubmit={(e) => {
                 e.preventDefault();
-                resetPassword.mutate({ id: user.id, password: pw }, { onSuccess: () => { toast.success(`New password set for ${user.name}.`); setPw(null); }, onError: (err) => toast.error(errorMessage(err)) });
+                resetPassword.mutate({ id: user.id, password: pw }, { onSuccess: () => { toast.success(`New password set for ${user.name}. They are signed out everywhere.`); setPw(null); }, onError: (err) => toast.error(errorMessage(err)) });
               }}
             >
               <label className="sr-only" htmlFor={`pw-${user.id}`}>New password for {user.name}</label>
