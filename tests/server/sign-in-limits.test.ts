@@ -119,6 +119,14 @@ describe('whose failures count', () => {
     expect((await attempt(ctx.app, '198.51.100.3', { email: rigger.email, password: TEST_PASSWORD })).status).toBe(429);
   });
 
+  it('counts an IPv6 client as its /64, since it holds every address in it', async () => {
+    ctx = await proxied();
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    for (let i = 0; i < 10; i++) await attempt(ctx.app, `2001:db8:7:7::${(i + 1).toString(16)}`, { email: rigger.email, password: `guess-${i}` });
+    expect((await attempt(ctx.app, '2001:db8:7:7:ffff::99', { email: rigger.email, password: TEST_PASSWORD })).status).toBe(429);
+    expect((await attempt(ctx.app, '2001:db8:7:8::1', { email: rigger.email, password: TEST_PASSWORD })).signedIn).toBe(true);
+  });
+
   it('lets the address try again once the 15-minute window has passed', async () => {
     ctx = await proxied();
     const rigger = await makeUser(ctx.db, { role: 'rigger' });
