@@ -13,8 +13,11 @@ import { seedDemoIfEmpty } from '../seeds';
 function listen(app: ReturnType<typeof createApp>, port: number): Promise<Server> {
   return new Promise((resolvePromise, reject) => {
     const server = app.listen(port);
-    server.once('listening', () => resolvePromise(server));
     server.once('error', reject);
+    server.once('listening', () => {
+      server.off('error', reject);
+      resolvePromise(server);
+    });
   });
 }
 
