@@ -52,7 +52,9 @@ describe('GET /api/instructors', () => {
     expect((await owner.patch(`/api/users/${rigger.user.id}`).send({ role: 'instructor' })).status).toBe(200);
     const { 'bea Lind': _gone, ...rest } = ids;
     ids = rest;
-    const res = await rigger.get('/api/instructors');
+    // A role change ends the person's own sessions (DEVELOPERS.md, "Sign-in and sessions"); the list changes for everyone else at once.
+    expect((await rigger.get('/api/instructors')).status).toBe(401);
+    const res = await owner.get('/api/instructors');
     expect(res.status).toBe(200);
     expect(res.body).toStrictEqual(expected({ 'Dana Caller': rigger.user.id }));
   });
