@@ -5,6 +5,7 @@ import * as m003 from './003-inspections-faults-audit';
 import * as m004 from './004-schedule';
 import * as m005 from './005-outbox';
 import * as m008 from './008-sign-in-limits-and-session-versions';
+import * as m010 from './010-inspection-status';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -17,6 +18,7 @@ const migrations: Record<string, Knex.Migration> = {
   '004-schedule': m004,
   '005-outbox': m005,
   '008-sign-in-limits-and-session-versions': m008,
+  '010-inspection-status': m010,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

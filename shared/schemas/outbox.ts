@@ -1,7 +1,9 @@
 import { z } from 'zod';
+import { cursorSchema, idKey, limitSchema } from './page';
 
 export const outboxStates = ['queued', 'sending', 'sent', 'failed', 'skipped'] as const;
-export const outboxQuery = z.object({ state: z.enum(outboxStates).optional(), limit: z.coerce.number().int().min(1).max(1000).optional() });
+/** Newest first, keyset on id. */
+export const outboxQuery = z.object({ state: z.enum(outboxStates).optional(), cursor: cursorSchema(idKey).optional(), limit: limitSchema.optional() });
 
 export const outboxMessageSchema = z.object({
   id: z.number(),

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { idSchema, instantSchema } from './common';
 import { faultResolutionSchema, inspectionResultSchema, severitySchema } from './vocabulary';
 import { pointStatusSchema, reasonSchema } from './rig';
+import { cursorSchema, instantIdKey, limitSchema } from './page';
 
 const note = z.string().trim().max(2000, 'Keep notes under 2,000 characters');
 
@@ -45,7 +46,11 @@ export const createFaultSchema = z
   .refine((f) => f.pointId !== undefined || f.gearId !== undefined, { message: 'Say which point or gear item the fault is on', path: ['pointId'] });
 export type CreateFault = z.infer<typeof createFaultSchema>;
 
-export const faultListQuery = z.object({ pointId: idSchema.optional(), gearId: idSchema.optional(), status: z.enum(['open', 'resolved']).optional() });
+export const faultFilters = z.object({ pointId: idSchema.optional(), gearId: idSchema.optional(), status: z.enum(['open', 'resolved']).optional() });
+export type FaultFilters = z.infer<typeof faultFilters>;
+/** Open faults first, then newest reported first; the cursor is the last row's [status, reportedAt, id]. */
+export const faultCursorKey = z.tuple([z.enum(['open', 'resolved']), z.string().max(40), z.number().int().positive()]);
+export const faultListQuery = faultFilters.extend({ cursor: cursorSchema(faultCursorKey).optional(), limit: limitSchema.optional() });
 export type FaultListQuery = z.infer<typeof faultListQuery>;
 
 export const resolveFaultSchema = z
@@ -91,17 +96,35 @@ export const inspectionSchema = z.object({
   inspectedAt: z.string(),
   result: inspectionResultSchema,
   notes: z.string(),
+  /** Yes only when this inspection cleared its point (see shared/records/inspection-record.ts). */
   cleared: z.boolean(),
+  /** The row's own flag: a clean inspection was signed as the point's clearance (it may still have stayed blocked). */
+  clearanceSigned: z.boolean(),
   clearedUntil: z.string().nullable(),
+  /** The point's status when the inspection was signed, from the row; null for gear inspected on its own. */
+  pointStatus: z
+    .object({ status: z.enum(['cleared', 'expiring', 'blocked']).nullable(), recorded: z.boolean(), reasons: z.array(reasonSchema) })
+    .nullable(),
   items: z.array(z.object({ key: z.string(), label: z.string(), result: inspectionResultSchema, note: z.string() })),
+  /** Photos kept with the inspection or with a fault it opened. */
+  photos: z.array(z.object({ id: z.number(), name: z.string(), url: z.string() })),
 });
 export type Inspection = z.infer<typeof inspectionSchema>;
 
-export const inspectionLogQuery = z.object({
+const inspectionFilterFields = {
   from: instantSchema.optional(),
   to: instantSchema.optional(),
   pointId: idSchema.optional(),
   gearId: idSchema.optional(),
   kind: z.enum(['pre_use', 'periodic', 'after_incident']).optional(),
-});
+};
+const rangeInOrder = (q: { from?: string; to?: string }) => !q.from || !q.to || Date.parse(q.from) <= Date.parse(q.to);
+const rangeMessage = { message: 'The end of the range comes before its start', path: ['to'] };
+/** The filters the log, the CSV and the printable log share; every range, however long, is complete. */
+export const inspectionLogFilters = z.object(inspectionFilterFields).refine(rangeInOrder, rangeMessage);
+export type InspectionLogFilters = z.infer<typeof inspectionLogFilters>;
+/** Newest first; the cursor is the last row's [inspectedAt, id]. */
+export const inspectionLogQuery = z
+  .object({ ...inspectionFilterFields, cursor: cursorSchema(instantIdKey).optional(), limit: limitSchema.optional() })
+  .refine(rangeInOrder, rangeMessage);
 export type InspectionLogQuery = z.infer<typeof inspectionLogQuery>;

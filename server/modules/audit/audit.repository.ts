@@ -1,5 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { Db } from '../../db/knex';
+import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
+import type { AuditEntry, AuditListQuery } from '../../../shared/schemas/audit';
 
 export interface AuditInput {
   actorId: number | null;
@@ -71,21 +73,48 @@ export function auditRepository(db: Db) {
       return { count: last?.id ?? 0, hash: last?.hash ?? GENESIS };
     },
 
-    async list(filter: { entity?: string; entityId?: number; limit?: number }) {
-      const q = db<AuditRow>('audit_entries').leftJoin('users', 'users.id', 'audit_entries.actor_id').orderBy('audit_entries.id', 'desc').limit(filter.limit ?? 200);
-      if (filter.entity) q.where('audit_entries.entity', filter.entity);
-      if (filter.entityId) q.where('audit_entries.entity_id', filter.entityId);
-      const rows = await q.select('audit_entries.*', 'users.name as actor_name');
-      return rows.map((r: AuditRow & { actor_name: string | null }) => ({
-        id: r.id,
-        at: r.at,
-        actor: r.actor_name,
-        action: r.action,
-        entity: r.entity,
-        entityId: r.entity_id,
-        before: r.before_json ? JSON.parse(r.before_json) : null,
-        after: r.after_json ? JSON.parse(r.after_json) : null,
-      }));
+    /** The owner's audit list: filtered by who, what, which record and when; newest first, keyset on id. */
+    async page(q: AuditListQuery): Promise<Page<AuditEntry>> {
+      const sel = db<AuditRow>('audit_entries').leftJoin('users', 'users.id', 'audit_entries.actor_id');
+      if (q.actorId) sel.where('audit_entries.actor_id', q.actorId);
+      if (q.action) sel.where('audit_entries.action', q.action);
+      if (q.entity) sel.where('audit_entries.entity', q.entity);
+      if (q.entityId) sel.where('audit_entries.entity_id', q.entityId);
+      if (q.from) sel.where('audit_entries.at', '>=', new Date(q.from).toISOString());
+      if (q.to) sel.where('audit_entries.at', '<', new Date(q.to).toISOString());
+      const rows = (await keyset(sel, [{ col: 'audit_entries.id', dir: 'desc' }], q.cursor)
+        .limit(pageLimit(q.limit))
+        .select('audit_entries.*', 'users.name as actor_name')) as Array<AuditRow & { actor_name: string | null }>;
+      const page = cutPage(rows, q.limit, (r) => [r.id]);
+      const json = (text: string | null): unknown => {
+        if (!text) return null;
+        try {
+          return JSON.parse(text);
+        } catch {
+          return text;
+        }
+      };
+      return {
+        items: page.rows.map((r) => ({
+          id: r.id,
+          at: r.at,
+          actorId: r.actor_id,
+          actor: r.actor_name,
+          action: r.action,
+          entity: r.entity,
+          entityId: r.entity_id,
+          before: json(r.before_json),
+          after: json(r.after_json),
+        })),
+        nextCursor: page.nextCursor,
+      };
+    },
+
+    /** The actions and record types present, for the filters to offer. */
+    async facets(): Promise<{ actions: string[]; entities: string[] }> {
+      const actions = (await db('audit_entries').distinct('action').orderBy('action')) as Array<{ action: string }>;
+      const entities = (await db('audit_entries').distinct('entity').orderBy('entity')) as Array<{ entity: string }>;
+      return { actions: actions.map((r) => r.action), entities: entities.map((r) => r.entity) };
     },
   };
 }

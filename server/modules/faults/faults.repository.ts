@@ -1,5 +1,6 @@
 import type { Db } from '../../db/knex';
 import type { CreateFault, Fault, FaultListQuery } from '../../../shared/schemas/safety';
+import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 
 interface Row {
   id: number;
@@ -67,8 +68,9 @@ export function faultsRepository(db: Db) {
   });
 
   return {
-    async list(f: FaultListQuery & { pathGearIds?: number[] }, trx: Db = db): Promise<Fault[]> {
-      const q = select(trx).orderBy('faults.reported_at', 'desc').limit(1000);
+    /** Open faults first, then newest reported first; keyset on [status, reportedAt, id] (PRODUCT.md §10). */
+    async page(f: FaultListQuery & { pathGearIds?: number[] }, trx: Db = db): Promise<Page<Fault>> {
+      const q = select(trx);
       if (f.status) q.where('faults.status', f.status);
       if (f.pointId !== undefined) {
         // A point's list includes the faults on the gear in its path.
@@ -78,9 +80,11 @@ export function faultsRepository(db: Db) {
         });
       }
       if (f.gearId !== undefined) q.where('faults.gear_id', f.gearId);
-      const rows = (await q) as Row[];
-      const photos = await photosOf(rows.map((r) => r.id));
-      return rows.map((r) => toFault(r, photos.get(r.id) ?? []));
+      // 'open' sorts before 'resolved'.
+      const rows = (await keyset(q, [{ col: 'faults.status', dir: 'asc' }, { col: 'faults.reported_at', dir: 'desc' }, { col: 'faults.id', dir: 'desc' }], f.cursor).limit(pageLimit(f.limit))) as Row[];
+      const page = cutPage(rows, f.limit, (r) => [r.status, r.reported_at, r.id]);
+      const photos = await photosOf(page.rows.map((r) => r.id));
+      return { items: page.rows.map((r) => toFault(r, photos.get(r.id) ?? [])), nextCursor: page.nextCursor };
     },
     async byId(id: number, trx: Db = db): Promise<Fault | null> {
       const r = (await select(trx).where('faults.id', id).first()) as Row | undefined;

@@ -41,7 +41,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
     open,
     async list(q: FaultListQuery) {
       const pathGearIds = q.pointId !== undefined ? (await rig.linksOf([q.pointId])).map((l) => l.gearId) : undefined;
-      return faults.list({ ...q, pathGearIds });
+      return faults.page({ ...q, pathGearIds });
     },
     async get(id: number) {
       const f = await faults.byId(id);

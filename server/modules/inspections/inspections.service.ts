@@ -1,4 +1,4 @@
-import { stringify } from 'csv-stringify/sync';
+import type { Writable } from 'node:stream';
 import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
@@ -9,9 +9,11 @@ import { loadSnapshots } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { FaultsService } from '../faults/faults.service';
 import { addStudioDays, clearedUntil, inspectionChecklist, pointStatusAt, preuseChecklist, studioDay, formatStudioDateTime } from '../../../shared/clearance';
+import { statusWhenSigned } from '../../../shared/records/inspection-record';
 import { intervalClassOfKind } from '../../../shared/schemas/vocabulary';
-import type { ClearanceBody, GearInspectionBody, InspectionLogQuery, PreuseBody } from '../../../shared/schemas/safety';
+import type { ClearanceBody, GearInspectionBody, InspectionLogFilters, InspectionLogQuery, PreuseBody } from '../../../shared/schemas/safety';
 import type { InspectionsRepository } from './inspections.repository';
+import { streamCsv, streamPrintable } from './inspection-export';
 
 type Items = Array<{ key: string; result: string; note?: string }>;
 
@@ -60,6 +62,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
         const failed = body.items.filter((i) => i.result === 'fail');
         const cleared = failed.length === 0 && b.snapshot.openFaults.length === 0 && b.snapshot.links.length > 0;
         let until: Date | null = null;
+        let signedSnapshot = b.snapshot;
         if (cleared) {
           // Renew every item in the path first; the point's clearance is then capped by the apparatus's.
           for (const l of b.links) {
@@ -67,8 +70,11 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             await rig.updateGear(l.gearId, { inspectedUntil: addStudioDays(now, days, policy.timeZone).toISOString() }, now, trx);
           }
           await rig.updatePoint(pointId, { lastClearedAt: now.toISOString(), clearanceVoidedAt: null }, now, trx);
-          until = clearedUntil((await pointBundle(pointId, trx)).snapshot, policy);
+          signedSnapshot = (await pointBundle(pointId, trx)).snapshot;
+          until = clearedUntil(signedSnapshot, policy);
         }
+        // Kept with the row: the log never re-reads a past inspection with today's status (§10).
+        const atSigning = statusWhenSigned(pointStatusAt(signedSnapshot, policy, now), failed.map((f) => byKey.get(f.key)!.label));
         const inspectionId = await repo.insert(
           {
             kind: 'periodic',
@@ -80,6 +86,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             notes: body.notes ?? '',
             cleared,
             clearedUntil: until?.toISOString() ?? null,
+            pointStatus: atSigning,
             items: body.items.map((i) => ({ key: i.key, label: byKey.get(i.key)!.label, result: i.result, note: i.note ?? '', gearId: byKey.get(i.key)!.gearId })),
           },
           now,
@@ -130,7 +137,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
           await rig.updateGear(gearId, patch, now, trx);
         }
         const inspectionId = await repo.insert(
-          { kind: body.kind, pointId: null, gearId, inspectorId: actorId, studioDay: studioDay(now, policy.timeZone), result: body.result, notes: body.note ?? '', cleared: false, clearedUntil: null, items: [] },
+          { kind: body.kind, pointId: null, gearId, inspectorId: actorId, studioDay: studioDay(now, policy.timeZone), result: body.result, notes: body.note ?? '', cleared: false, clearedUntil: null, pointStatus: null, items: [] },
           now,
           trx,
         );
@@ -138,7 +145,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
         await audit.record(trx, { actorId, action: 'gear.inspected', entity: 'gear', entityId: gearId, after: { inspectionId, ...body } }, now);
         return inspectionId;
       });
-      const [inspection] = await repo.list({ gearId, limit: 1 });
+      const inspection = await repo.byId(id);
       return { ...inspection, id, gear: await rig.gearById(gearId) };
     },
 
@@ -157,6 +164,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
         matchItems(list, body.items);
         const labels = new Map<string, string>(list.map((i) => [i.key, i.label]));
         const failed = body.items.filter((i) => i.result === 'fail');
+        const atSigning = statusWhenSigned(pointStatusAt(b.snapshot, policy, now), failed.map((f) => labels.get(f.key)!));
         const inspectionId = await repo.insert(
           {
             kind: 'pre_use',
@@ -168,6 +176,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             notes: '',
             cleared: false,
             clearedUntil: null,
+            pointStatus: atSigning,
             items: body.items.map((i) => ({ key: i.key, label: labels.get(i.key)!, result: i.result, note: i.note ?? '' })),
           },
           now,
@@ -184,19 +193,29 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
       return out;
     },
 
-    log: (q: InspectionLogQuery) => repo.list(q),
+    log: (q: InspectionLogQuery) => repo.page(q),
 
-    async exportCsv(q: InspectionLogQuery): Promise<string> {
-      const { policy } = await studio.get();
-      const rows = await repo.list(q);
-      const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), policy.timeZone) : '');
-      return stringify(
-        rows.flatMap((r) => {
-          const base = [r.id, when(r.inspectedAt), r.kind.replace('_', '-'), r.pointLabel ?? '', r.gearSerial ?? '', r.inspector ?? '', r.result, r.cleared ? 'yes' : 'no', when(r.clearedUntil), r.notes];
-          return r.items.length ? r.items.map((it) => [...base, it.label, it.result, it.note]) : [[...base, '', '', '']];
-        }),
-        { header: true, columns: ['inspection', `inspected at (${policy.timeZone})`, 'kind', 'point', 'gear serial', 'inspector', 'result', 'cleared', 'cleared until', 'notes', 'item', 'item result', 'item note'] },
-      );
+    /**
+     * The complete log for a range (PRODUCT.md §10), streamed to `out` as CSV or printable HTML.
+     * The chain head and the last inspection are read together first, so the foot vouches for
+     * exactly the rows above it.
+     */
+    async export(f: InspectionLogFilters, format: 'csv' | 'html', out: Writable): Promise<number> {
+      const { name, policy } = await studio.get();
+      const { head, upToId } = await db.transaction(async (trx) => ({ head: await audit.head(trx), upToId: await repo.maxId(trx) }));
+      const points = f.pointId ? await rig.pointById(f.pointId) : null;
+      const gear = f.gearId ? await rig.gearById(f.gearId) : null;
+      const day = (iso: string) => formatStudioDateTime(new Date(iso), policy.timeZone);
+      const scope = [
+        f.kind ? `${f.kind.replace('_', '-')} inspections` : 'Every inspection',
+        points ? `of point ${points.label}` : f.pointId ? `of point #${f.pointId}` : '',
+        gear ? `covering gear ${gear.serial}` : f.gearId ? `covering gear #${f.gearId}` : '',
+        f.from ? `from ${day(f.from)}` : '',
+        f.to ? `before ${day(f.to)}` : '',
+      ].filter(Boolean).join(' ');
+      const meta = { studioName: name, timeZone: policy.timeZone, exportedAt: clock.now(), head, scope };
+      const batches = repo.batches(f, upToId);
+      return format === 'csv' ? streamCsv(out, batches, meta) : streamPrintable(out, batches, meta);
     },
   };
 }

@@ -1,4 +1,5 @@
 import { writeTransaction, type Db } from '../../db/knex';
+import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 
 import { outboxStates } from '../../../shared/schemas/outbox';
 export { outboxStates };
@@ -179,10 +180,13 @@ export function outboxRepository(db: Db) {
       await db('outbox_messages').where({ id }).update({ state: 'skipped', lease_until: null, last_error: why });
     },
 
-    async list(filter: { state?: OutboxState; limit?: number }): Promise<OutboxMessage[]> {
-      const q = db<OutboxRow>('outbox_messages').orderBy('id', 'desc').limit(filter.limit ?? 200);
+    /** Newest first, keyset on id (PRODUCT.md §10). */
+    async page(filter: { state?: OutboxState; cursor?: [number]; limit?: number }): Promise<Page<OutboxMessage>> {
+      const q = db<OutboxRow>('outbox_messages');
       if (filter.state) q.where('state', filter.state);
-      return (await q).map(toMessage);
+      const rows = (await keyset(q, [{ col: 'id', dir: 'desc' }], filter.cursor).limit(pageLimit(filter.limit))) as OutboxRow[];
+      const page = cutPage(rows, filter.limit, (r) => [r.id]);
+      return { items: page.rows.map(toMessage), nextCursor: page.nextCursor };
     },
   };
 }

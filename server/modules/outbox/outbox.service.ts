@@ -122,9 +122,9 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     },
 
     /** For the owner's outbox page: newest first; failed ones carry their last error. */
-    async list(filter: { state?: OutboxState; limit?: number }) {
-      const rows = await repo.list(filter);
-      return rows.map(({ text: _text, html: _html, ...m }) => m);
+    async list(filter: { state?: OutboxState; cursor?: [number]; limit?: number }) {
+      const page = await repo.page(filter);
+      return { items: page.items.map(({ text: _text, html: _html, ...m }) => m), nextCursor: page.nextCursor };
     },
   };
 }

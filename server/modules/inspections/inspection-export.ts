@@ -1,0 +1,183 @@
+import { once } from 'node:events';
+import type { Writable } from 'node:stream';
+import { stringify } from 'csv-stringify';
+import type { Inspection } from '../../../shared/schemas/safety';
+import { formatStudioDateTime } from '../../../shared/clearance';
+import { formulaSafeRow } from '../../../shared/records/csv-safe';
+
+/** What the foot of every export carries (PRODUCT.md §10). */
+export interface ExportMeta {
+  studioName: string;
+  timeZone: string;
+  exportedAt: Date;
+  /** The audit chain's head when the export began: `count:hash`. */
+  head: { count: number; hash: string };
+  /** The filters in words, e.g. "periodic inspections of point LS-1 from 1 Nov 2026". */
+  scope: string;
+}
+
+export const CHAIN_HEAD_LABEL = '# audit chain head';
+
+const kindWord: Record<Inspection['kind'], string> = { pre_use: 'pre-use', periodic: 'periodic', after_incident: 'after-incident' };
+const subjectOf = (i: Inspection) => (i.pointLabel ? `point ${i.pointLabel}` : i.gearSerial ? `gear ${i.gearSerial}` : 'an item no longer in the register');
+
+/** The point's status when signed, in words; never today's status. */
+export function statusWords(i: Inspection): { status: string; why: string } {
+  const s = i.pointStatus;
+  if (!s) return { status: '', why: '' };
+  const why = s.reasons.map((r) => r.message).join('; ');
+  if (s.status) return { status: s.status, why: s.recorded ? why : `${why}${why ? '; ' : ''}other reasons not recorded at the time` };
+  return { status: 'not recorded', why: i.clearanceSigned ? 'a clearance was signed; the point’s status at the time was not recorded' : '' };
+}
+
+export const CSV_COLUMNS = (timeZone: string) => [
+  'inspection',
+  `inspected at (${timeZone})`,
+  'kind',
+  'point',
+  'gear serial',
+  'inspector',
+  'result',
+  'cleared',
+  'cleared until',
+  'point status when signed',
+  'why',
+  'notes',
+  'photos',
+  'item',
+  'item result',
+  'item note',
+];
+
+/** The CSV lines of one inspection: one per checklist item (or one alone), every cell formula-safe. */
+export function csvRows(i: Inspection, timeZone: string): string[][] {
+  const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), timeZone) : '');
+  const { status, why } = statusWords(i);
+  const base = [
+    String(i.id),
+    when(i.inspectedAt),
+    kindWord[i.kind],
+    i.pointLabel ?? '',
+    i.gearSerial ?? '',
+    i.inspector ?? '',
+    i.result,
+    i.cleared ? 'yes' : 'no',
+    i.cleared ? when(i.clearedUntil) : '',
+    status,
+    why,
+    i.notes,
+    i.photos.map((p) => p.name).join('; '),
+  ];
+  const lines = i.items.length ? i.items.map((it) => [...base, it.label, it.result, it.note]) : [[...base, '', '', '']];
+  return lines.map(formulaSafeRow);
+}
+
+async function writeTo(out: Writable, chunk: string): Promise<void> {
+  if (!out.write(chunk)) await once(out, 'drain');
+}
+
+/**
+ * Streams the CSV: rows are written as each batch arrives, so memory holds one batch whatever the
+ * range. The last row is the trailer: `# audit chain head`, `count:hash`, the number of inspections,
+ * the export's time, padded to the header's width so a spreadsheet opens it as one more row.
+ */
+export async function streamCsv(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
+  const columns = CSV_COLUMNS(meta.timeZone);
+  const csv = stringify({ header: true, columns, record_delimiter: 'windows' });
+  csv.pipe(out);
+  let count = 0;
+  const push = async (row: string[]) => {
+    if (!csv.write(row)) await once(csv, 'drain');
+  };
+  for await (const batch of batches) {
+    for (const i of batch) {
+      count += 1;
+      for (const row of csvRows(i, meta.timeZone)) await push(row);
+    }
+  }
+  const trailer = formulaSafeRow([CHAIN_HEAD_LABEL, `${meta.head.count}:${meta.head.hash}`, `${count} inspections`, `exported ${formatStudioDateTime(meta.exportedAt, meta.timeZone)}`]);
+  await push([...trailer, ...Array<string>(columns.length - trailer.length).fill('')]);
+  csv.end();
+  await once(out, 'finish').catch(() => undefined);
+  return count;
+}
+
+const esc = (v: string) => v.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+
+const PRINT_CSS = `
+:root { color: #111; background: #fff; font-family: Lexend, "Segoe UI", system-ui, sans-serif; font-size: 10.5pt; line-height: 1.35; }
+body { margin: 0 auto; max-width: 52rem; padding: 1.5rem; }
+h1 { font-size: 16pt; margin: 0 0 .25rem; }
+.meta, .foot { font-size: 9pt; }
+.caution { border: 1px solid #555; padding: .4rem .6rem; font-size: 8.5pt; margin: .6rem 0 1rem; }
+.toolbar { display: flex; gap: .75rem; align-items: center; margin: .75rem 0; font-size: 10pt; }
+.toolbar button { font: inherit; min-height: 2.75rem; padding: 0 1rem; border: 1px solid #333; border-radius: .4rem; background: #fff; cursor: pointer; }
+article { border-top: 1.5pt solid #000; padding: .45rem 0 .6rem; break-inside: avoid; page-break-inside: avoid; }
+article h2 { font-size: 11pt; margin: 0; display: flex; flex-wrap: wrap; gap: .2rem .9rem; align-items: baseline; }
+article h2 .when { font-weight: 400; font-size: 9.5pt; }
+.outcome { margin: .2rem 0; }
+.outcome strong { text-transform: uppercase; letter-spacing: .03em; }
+.why { margin: .1rem 0 .2rem 1rem; padding: 0; }
+.notes { white-space: pre-line; margin: .2rem 0; }
+table { width: 100%; border-collapse: collapse; margin-top: .3rem; font-size: 9pt; }
+th, td { text-align: left; vertical-align: top; padding: .15rem .4rem .15rem 0; border-bottom: .5pt solid #888; }
+th { font-size: 8pt; text-transform: uppercase; letter-spacing: .04em; border-bottom: 1pt solid #000; }
+td.res { width: 6.5rem; white-space: nowrap; }
+.flag { font-weight: 700; }
+.photos { font-size: 9pt; margin: .2rem 0 0; }
+.foot { border-top: 1.5pt solid #000; margin-top: 1rem; padding-top: .4rem; }
+.foot code { font-size: 8pt; word-break: break-all; }
+.pageno { display: none; }
+@page { size: auto; margin: 14mm 14mm 16mm; @bottom-right { content: "Page " counter(page) " of " counter(pages); font: 8pt Lexend, system-ui, sans-serif; } }
+@media print {
+  body { max-width: none; padding: 0; }
+  .toolbar { display: none; }
+  a { color: inherit; text-decoration: none; }
+}
+`;
+
+/** The printable log: one page of HTML, streamed entry by entry, for the browser to print. */
+export async function streamPrintable(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
+  const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), meta.timeZone) : '');
+  const title = `${meta.studioName}: inspection log`;
+  await writeTo(
+    out,
+    `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${esc(title)}</title><style>${PRINT_CSS}</style><script src="/print-log.js" defer></script></head><body>
+<header><h1>${esc(title)}</h1>
+<p class="meta">${esc(meta.scope)}, newest first. Times in ${esc(meta.timeZone.replace(/_/g, ' '))}. Printed ${esc(formatStudioDateTime(meta.exportedAt, meta.timeZone))}.</p>
+<p class="caution"><strong>Caution.</strong> Figures come from the ratings entered and the rules configured. They do not replace inspection by a qualified rigger, the maker’s instructions, an engineer’s assessment of the structure, or local codes and licensed practice.</p>
+<div class="toolbar"><button type="button" data-print>Print this log</button><span>Every matching inspection is on this page; page numbers and the audit chain head print at the foot.</span></div>
+</header><main>`,
+  );
+  let count = 0;
+  for await (const batch of batches) {
+    let html = '';
+    for (const i of batch) {
+      count += 1;
+      const { status, why } = statusWords(i);
+      const outcome =
+        i.pointId === null
+          ? `<p class="outcome">Gear inspected on its own: it clears no point.</p>`
+          : i.kind === 'pre_use'
+            ? `<p class="outcome">Pre-use check (clears nothing). Point status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`
+            : i.cleared
+              ? `<p class="outcome"><strong>Cleared</strong> the point until ${esc(when(i.clearedUntil))}. Status when signed: ${esc(status)}.</p>`
+              : `<p class="outcome"><strong>Did not clear</strong> the point. Status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`;
+      const reasons = i.pointStatus?.reasons.length || (why && !i.cleared) ? `<ul class="why">${(i.pointStatus?.reasons ?? []).map((r) => `<li>${esc(r.message)}</li>`).join('')}${i.pointStatus && !i.pointStatus.recorded && i.pointId !== null ? `<li>${esc(i.pointStatus.status ? 'Other reasons were not recorded at the time.' : 'The point’s status at the time was not recorded.')}</li>` : ''}</ul>` : '';
+      const items = i.items.length
+        ? `<table><thead><tr><th scope="col">Item</th><th scope="col">Result</th><th scope="col">Note</th></tr></thead><tbody>${i.items
+            .map((it) => `<tr><td>${esc(it.label)}</td><td class="res${it.result === 'pass' ? '' : ' flag'}">${esc(it.result === 'fail' ? 'FAIL' : it.result === 'attention' ? 'ATTENTION' : 'pass')}</td><td>${esc(it.note)}</td></tr>`)
+            .join('')}</tbody></table>`
+        : '';
+      const photos = i.photos.length ? `<p class="photos">Photos: ${i.photos.map((p) => esc(p.name)).join(', ')}</p>` : '';
+      html += `<article data-inspection="${i.id}"><h2><span>#${i.id} · ${esc(subjectOf(i).replace(/^./, (c) => c.toUpperCase()))}</span><span>${esc(kindWord[i.kind])}</span><span>Result: ${esc(i.result === 'pass' ? 'pass' : i.result.toUpperCase())}</span><span class="when">${esc(when(i.inspectedAt))} · ${esc(i.inspector ?? 'former staff member')}</span></h2>${outcome}${reasons}${i.notes ? `<p class="notes">Notes: ${esc(i.notes)}</p>` : ''}${items}${photos}</article>`;
+    }
+    await writeTo(out, html);
+  }
+  await writeTo(
+    out,
+    `${count ? '' : '<p>No inspections match.</p>'}</main><footer class="foot" data-testid="chain-head"><p>${count} inspection${count === 1 ? '' : 's'} in this log. End of log.</p><p>Audit chain head when printed: <code>${meta.head.count}:${esc(meta.head.hash)}</code><br>The owner can check that this head is still in the studio’s audit chain (Inspections → Verify the audit chain).</p></footer></body></html>`,
+  );
+  out.end();
+  return count;
+}
