@@ -1,4 +1,4 @@
-import { Anchor, CalendarDays, ClipboardCheck, Mail, Settings, Sun, TriangleAlert, Users } from 'lucide-react';
+import { Anchor, CalendarDays, ClipboardCheck, Mail, ScrollText, Settings, Sun, TriangleAlert, Users } from 'lucide-react';
 import type { Role } from '../../shared/schemas/vocabulary';
 import { paths } from '../lib/paths';
 
@@ -19,6 +19,7 @@ export const navItems: NavItem[] = [
   { to: paths.staff, label: 'Staff', Icon: Users, roles: ['owner', 'reception'] },
   { to: paths.settings, label: 'Settings', Icon: Settings, roles: ['owner'] },
   { to: paths.mailbox, label: 'Mailbox', Icon: Mail, roles: ['owner'] },
+  { to: paths.audit, label: 'Audit', Icon: ScrollText, roles: ['owner'] },
 ];
 
 export const navFor = (role: Role) => navItems.filter((i) => i.roles.includes(role));

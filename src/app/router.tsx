@@ -31,6 +31,7 @@ export const routes: RouteObject[] = [
       { path: paths.settings, element: page(() => import('./routes/settings/settings-route')) },
       { path: paths.account, element: page(() => import('./routes/account/account-route')) },
       { path: paths.mailbox, element: page(() => import('./routes/mailbox/mailbox-route')) },
+      { path: paths.audit, element: page(() => import('./routes/audit/audit-route')) },
       { path: '*', element: <p className="rounded-xl border border-line bg-white p-6">There is no page at this address. Use the menu to find your way.</p> },
     ],
   },

@@ -18,5 +18,6 @@ export const paths = {
   staff: '/staff',
   settings: '/settings',
   mailbox: '/mailbox',
+  audit: '/audit',
   account: '/account',
 } as const;

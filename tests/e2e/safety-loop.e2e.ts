@@ -180,7 +180,7 @@ describe('the safety loop, from a lapsed point to a fault and back to cleared', 
     await shot(instructor, 'loop-06-phone-today-blocked');
 
     // The photo went with the report and is served back as a PNG.
-    const faults = await apiOf(instructor, baseUrl).get<Array<{ description: string; severity: string; photos: Array<{ url: string }> }>>(`/faults?pointId=${faulty.id}&status=open`);
+    const { items: faults } = await apiOf(instructor, baseUrl).get<{ items: Array<{ description: string; severity: string; photos: Array<{ url: string }> }> }>(`/faults?pointId=${faulty.id}&status=open`);
     expect(faults).toHaveLength(1);
     expect(faults[0]).toMatchObject({ description: faultText, severity: 'medium' });
     expect(faults[0].photos).toHaveLength(1);
@@ -190,7 +190,9 @@ describe('the safety loop, from a lapsed point to a fault and back to cleared', 
   });
 
   it('lets the rigger resolve that fault, leaves the point awaiting clearance, then re-inspects and clears it', async () => {
-    const [fault] = await riggerApi.get<Array<{ id: number }>>(`/faults?pointId=${faulty.id}&status=open`);
+    const {
+      items: [fault],
+    } = await riggerApi.get<{ items: Array<{ id: number }> }>(`/faults?pointId=${faulty.id}&status=open`);
     expect(fault, 'the fault reported in the previous test').toBeDefined();
     await rigger.goto(`${baseUrl}/faults`);
     const card = rigger.getByTestId(`fault-${fault.id}`);

@@ -116,7 +116,7 @@ describe('derived answers kept per data version', () => {
         const p = points[Math.floor(random() * points.length)];
         expect((await cached.rigger.post('/api/faults').send({ pointId: p.id, severity: 'medium', description: `Checked at step ${step}: clamp bolt loose` })).status).toBe(201);
       } else if (roll < 0.8) {
-        const open = (await cached.rigger.get('/api/faults?status=open')).body as Array<{ id: number }>;
+        const open = (await cached.rigger.get('/api/faults?status=open')).body.items as Array<{ id: number }>;
         if (open.length) {
           const f = open[Math.floor(random() * open.length)];
           expect((await cached.rigger.post(`/api/faults/${f.id}/resolve`).send({ resolution: 'no_fault_found', note: 'Looked again; sound' })).status).toBe(200);

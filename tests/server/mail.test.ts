@@ -289,8 +289,8 @@ describe('instructor reminders', () => {
     const owner = await as(ctx, 'owner');
     const res = await owner.get('/api/outbox?state=failed');
     expect(res.status).toBe(200);
-    expect(res.body).toEqual([expect.objectContaining({ id: row.id, kind: 'reminder', state: 'failed', attempts: MAX_ATTEMPTS, to: [s.instructor.email], lastError: expect.any(String) })]);
-    expect(res.body[0]).not.toHaveProperty('html');
+    expect(res.body).toEqual({ items: [expect.objectContaining({ id: row.id, kind: 'reminder', state: 'failed', attempts: MAX_ATTEMPTS, to: [s.instructor.email], lastError: expect.any(String) })], nextCursor: null });
+    expect(res.body.items[0]).not.toHaveProperty('html');
     expect((await owner.get('/api/outbox?state=nonsense')).status).toBe(400);
     const desk = await as(ctx, 'reception');
     expect((await desk.get('/api/outbox')).status).toBe(403);

@@ -97,7 +97,7 @@ describe('the fault loop', () => {
 
     // A point's fault list includes the faults on the gear in its path.
     const list = await instructor.get(`/api/faults?pointId=${p.id}&status=open`);
-    expect(list.body.map((f: { id: number }) => f.id)).toEqual([reported.body.id]);
+    expect(list.body.items.map((f: { id: number }) => f.id)).toEqual([reported.body.id]);
 
     expect((await instructor.post(`/api/faults/${reported.body.id}/resolve`).send({ resolution: 'repaired', note: 'x' })).status).toBe(403);
     const resolved = await rigger.post(`/api/faults/${reported.body.id}/resolve`).send({ resolution: 'no_fault_found', note: 'Greased; turns freely' });
@@ -167,7 +167,7 @@ describe('gear inspected on its own', () => {
     const g = await makeGear(ctx.db, { kind: 'fabric', material: 'nylon', majorKn: 25 });
     await rigger.post(`/api/gear/${g}/inspections`).send({ kind: 'periodic', result: 'fail', note: 'Pulled threads' });
     const faults = await rigger.get(`/api/faults?gearId=${g}`);
-    expect(faults.body).toHaveLength(1);
+    expect(faults.body.items).toHaveLength(1);
   });
 });
 

@@ -1,8 +1,9 @@
-import { queryOptions, useMutation } from '@tanstack/react-query';
+import { infiniteQueryOptions, queryOptions, useMutation } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { gearSchema, pointSchema } from '../../../shared/schemas/rig';
-import { faultSchema, type CreateFault, type FaultListQuery, type ResolveFault } from '../../../shared/schemas/safety';
+import { faultSchema, type CreateFault, type FaultFilters, type ResolveFault } from '../../../shared/schemas/safety';
+import { pageSchema } from '../../../shared/schemas/page';
 import type { GearKind } from '../../../shared/schemas/vocabulary';
 import { useInvalidateSafety } from '../today/api';
 
@@ -15,8 +16,14 @@ function searchOf(params: Record<string, string | number | undefined>): string {
 
 export const faultQueries = {
   all: ['faults'] as const,
-  list: (filters: FaultListQuery = {}) =>
-    queryOptions({ queryKey: [...faultQueries.all, 'list', filters], queryFn: () => api(`/faults${searchOf(filters)}`, { schema: z.array(faultSchema) }) }),
+  /** Open first, newest first, a page at a time (`fetchNextPage` for more). */
+  list: (filters: FaultFilters = {}) =>
+    infiniteQueryOptions({
+      queryKey: [...faultQueries.all, 'list', filters],
+      queryFn: ({ pageParam }) => api(`/faults${searchOf({ ...filters, cursor: pageParam })}`, { schema: pageSchema(faultSchema) }),
+      initialPageParam: undefined as string | undefined,
+      getNextPageParam: (last) => last.nextCursor ?? undefined,
+    }),
   detail: (id: number) => queryOptions({ queryKey: [...faultQueries.all, 'detail', id], queryFn: () => api(`/faults/${id}`, { schema: faultSchema }) }),
   // What a fault is about, and the stock a replacement comes from; kept under this feature's keys.
   point: (id: number) => queryOptions({ queryKey: [...faultQueries.all, 'point', id], queryFn: () => api(`/points/${id}`, { schema: pointSchema }) }),

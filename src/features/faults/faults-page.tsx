@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { useQuery } from '@tanstack/react-query';
+import { useInfiniteQuery } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router-dom';
 import { TriangleAlert, X } from 'lucide-react';
 import type { Fault } from '../../../shared/schemas/safety';
@@ -19,19 +19,19 @@ const filters = [
   { value: 'resolved', label: 'Resolved' },
   { value: 'all', label: 'All' },
 ] as const;
-const rank = (f: Fault) => (f.status === 'open' ? 0 : 1);
 
 /** Every fault, open ones first; riggers resolve them here. */
 export function FaultsPage() {
   const me = useSignedIn();
   const [params, setParams] = useSearchParams();
   const filter = (filters.some((f) => f.value === params.get('show')) ? params.get('show') : 'open') as Filter;
-  const list = useQuery(faultQueries.list(filter === 'all' ? {} : { status: filter }));
+  const list = useInfiniteQuery(faultQueries.list(filter === 'all' ? {} : { status: filter }));
   const zone = useStudioTimeZone();
   const [reporting, setReporting] = useState(false);
   const [justResolved, setJustResolved] = useState<{ fault: Fault; holder: FaultHolder } | null>(null);
   const canResolve = me.role === 'rigger';
-  const sorted = list.data ? [...list.data].sort((a, b) => rank(a) - rank(b) || b.reportedAt.localeCompare(a.reportedAt)) : [];
+  // The server sends open faults first, newest first, a page at a time.
+  const sorted = list.data?.pages.flatMap((p) => p.items) ?? [];
 
   return (
     <div className="max-w-4xl">
@@ -68,6 +68,11 @@ export function FaultsPage() {
           {sorted.map((f) => <FaultCard key={f.id} fault={f} timeZone={zone.data} canResolve={canResolve} onResolved={(fault, holder) => setJustResolved({ fault, holder })} />)}
         </ul>
       )}
+      {list.hasNextPage ? (
+        <div className="mt-4">
+          <Button variant="secondary" onClick={() => list.fetchNextPage()} busy={list.isFetchingNextPage}>Show older faults</Button>
+        </div>
+      ) : null}
     </div>
   );
 }

@@ -1,7 +1,7 @@
-import { queryOptions, useMutation } from '@tanstack/react-query';
-import { TZDate } from '@date-fns/tz';
+import { infiniteQueryOptions, queryOptions, useMutation } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
+import { studioMidnight } from '../../lib/studio-day';
 import { gearSchema, pointSchema } from '../../../shared/schemas/rig';
 import {
   checklistSchema,
@@ -11,6 +11,7 @@ import {
   type GearInspectionBody,
   type InspectionLogQuery,
 } from '../../../shared/schemas/safety';
+import { pageSchema } from '../../../shared/schemas/page';
 import { useInvalidateSafety } from '../today/api';
 
 export type InspectionKind = NonNullable<InspectionLogQuery['kind']>;
@@ -24,16 +25,10 @@ export interface LogFilters {
   gearId?: number;
 }
 
-/** Midnight at the start of a 'YYYY-MM-DD' day in the studio's zone, as an instant; `after` moves to the next midnight. */
-function studioMidnight(day: string, timeZone: string, after = false): string | undefined {
-  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(day);
-  if (!m) return undefined;
-  return new Date(new TZDate(Number(m[1]), Number(m[2]) - 1, Number(m[3]) + (after ? 1 : 0), timeZone).getTime()).toISOString();
-}
-
-/** The query string the log and its CSV export share: `to` includes the whole of its day. */
-export function logSearch(f: LogFilters, timeZone: string): string {
-  const q: InspectionLogQuery = {
+/** The query string the log and its exports share: `to` includes the whole of its day. */
+export function logSearch(f: LogFilters, timeZone: string, cursor?: string): string {
+  const q: Omit<InspectionLogQuery, 'cursor'> & { cursor?: string } = {
+    cursor,
     from: f.from ? studioMidnight(f.from, timeZone) : undefined,
     to: f.to ? studioMidnight(f.to, timeZone, true) : undefined,
     kind: f.kind,
@@ -48,10 +43,14 @@ export function logSearch(f: LogFilters, timeZone: string): string {
 
 export const inspectionQueries = {
   all: ['inspections'] as const,
-  log: (f: LogFilters, timeZone: string) => {
-    const search = logSearch(f, timeZone);
-    return queryOptions({ queryKey: [...inspectionQueries.all, 'log', search], queryFn: () => api(`/inspections${search}`, { schema: z.array(inspectionSchema) }) });
-  },
+  /** The log newest first, a page at a time (`fetchNextPage` for older ones). */
+  log: (f: LogFilters, timeZone: string) =>
+    infiniteQueryOptions({
+      queryKey: [...inspectionQueries.all, 'log', logSearch(f, timeZone)],
+      queryFn: ({ pageParam }) => api(`/inspections${logSearch(f, timeZone, pageParam)}`, { schema: pageSchema(inspectionSchema) }),
+      initialPageParam: undefined as string | undefined,
+      getNextPageParam: (last) => last.nextCursor ?? undefined,
+    }),
   checklist: (pointId: number) => queryOptions({ queryKey: [...inspectionQueries.all, 'checklist', pointId], queryFn: () => api(`/points/${pointId}/checklist`, { schema: checklistSchema }) }),
   points: () => queryOptions({ queryKey: [...inspectionQueries.all, 'points'], queryFn: () => api('/points', { schema: z.array(pointSchema) }) }),
   /** Gear a rigger should look at on its own: quarantined, or its own inspection due within `days`. */
@@ -70,6 +69,8 @@ export const inspectionQueries = {
 };
 
 export const exportCsvHref = (f: LogFilters, timeZone: string) => `/api/inspections/export.csv${logSearch(f, timeZone)}`;
+/** The complete printable log (a page of its own, streamed by the server). */
+export const printableHref = (f: LogFilters, timeZone: string) => `/api/inspections/export.html${logSearch(f, timeZone)}`;
 
 export function useClearance(pointId: number) {
   const invalidate = useInvalidateSafety();

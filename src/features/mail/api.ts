@@ -1,14 +1,28 @@
-import { queryOptions } from '@tanstack/react-query';
+import { infiniteQueryOptions, queryOptions } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { outboxMessageSchema } from '../../../shared/schemas/outbox';
+import { pageSchema } from '../../../shared/schemas/page';
 
 export const caughtMessageSchema = z.object({ to: z.array(z.string()), subject: z.string(), text: z.string(), html: z.string(), receivedAt: z.string() });
 export type CaughtMessage = z.infer<typeof caughtMessageSchema>;
 
 export const mailQueries = {
   all: ['mail'] as const,
+  /** Newest first, a page at a time. */
   outbox: (state?: 'failed' | 'queued') =>
-    queryOptions({ queryKey: [...mailQueries.all, 'outbox', state ?? 'all'], queryFn: () => api(`/outbox${state ? `?state=${state}` : ''}`, { schema: z.array(outboxMessageSchema) }), refetchInterval: 15_000 }),
+    infiniteQueryOptions({
+      queryKey: [...mailQueries.all, 'outbox', state ?? 'all'],
+      queryFn: ({ pageParam }) => {
+        const s = new URLSearchParams();
+        if (state) s.set('state', state);
+        if (pageParam) s.set('cursor', pageParam);
+        const q = s.toString();
+        return api(`/outbox${q ? `?${q}` : ''}`, { schema: pageSchema(outboxMessageSchema) });
+      },
+      initialPageParam: undefined as string | undefined,
+      getNextPageParam: (last) => last.nextCursor ?? undefined,
+      refetchInterval: 15_000,
+    }),
   mailbox: () => queryOptions({ queryKey: [...mailQueries.all, 'mailbox'], queryFn: () => api('/dev/mailbox', { schema: z.array(caughtMessageSchema) }), refetchInterval: 10_000 }),
 };

@@ -1,5 +1,6 @@
 import { useState } from 'react';
-import { useQuery } from '@tanstack/react-query';
+import { useInfiniteQuery, useQuery } from '@tanstack/react-query';
+import { Button } from '../../components/ui/button';
 import { Card, EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { ApiError } from '../../lib/api-client';
 import { mailQueries, type CaughtMessage } from './api';
@@ -37,12 +38,12 @@ export function MailboxPage() {
 
 /** Failed and waiting messages, so the owner sees a mail problem in production too. */
 function OutboxTrouble() {
-  const failed = useQuery(mailQueries.outbox('failed'));
-  const queued = useQuery(mailQueries.outbox('queued'));
+  const failed = useInfiniteQuery(mailQueries.outbox('failed'));
+  const queued = useInfiniteQuery(mailQueries.outbox('queued'));
   if (failed.isPending || queued.isPending) return <Loading label="Loading the outbox…" />;
   if (failed.isError) return <ErrorState error={failed.error} retry={() => failed.refetch()} />;
   if (queued.isError) return <ErrorState error={queued.error} retry={() => queued.refetch()} />;
-  const rows = [...failed.data, ...queued.data];
+  const rows = [...failed.data.pages.flatMap((p) => p.items), ...queued.data.pages.flatMap((p) => p.items)];
   return (
     <Card>
       <h2 className="mb-2 text-lg font-semibold">Outbox</h2>
@@ -58,6 +59,16 @@ function OutboxTrouble() {
           ))}
         </ul>
       )}
+      {failed.hasNextPage || queued.hasNextPage ? (
+        <Button
+          variant="secondary"
+          className="mt-3"
+          busy={failed.isFetchingNextPage || queued.isFetchingNextPage}
+          onClick={() => void Promise.all([failed.hasNextPage ? failed.fetchNextPage() : null, queued.hasNextPage ? queued.fetchNextPage() : null])}
+        >
+          Show older messages
+        </Button>
+      ) : null}
     </Card>
   );
 }

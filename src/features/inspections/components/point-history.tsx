@@ -1,4 +1,4 @@
-import { useQuery } from '@tanstack/react-query';
+import { useInfiniteQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { ErrorState, Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
@@ -18,8 +18,12 @@ import { InspectionEntry } from './inspection-entry';
 export function PointHistory({ pointId, gearId, limit = 10 }: { pointId?: number; gearId?: number; limit?: number }) {
   const zone = useStudioTimeZone();
   const about = gearId !== undefined ? { gearId } : { pointId };
-  const inspections = useQuery({ ...inspectionQueries.log(about, zone.data ?? 'UTC'), enabled: !!zone.data });
-  const faults = useQuery(faultQueries.list(about));
+  // The first page of each (at least 100 rows) is more than the history shows; the rest are in the full lists.
+  const inspections = useInfiniteQuery({ ...inspectionQueries.log(about, zone.data ?? 'UTC'), enabled: !!zone.data });
+  const faults = useInfiniteQuery(faultQueries.list(about));
+  const inspectionRows = inspections.data?.pages[0]?.items ?? [];
+  const faultRows = faults.data?.pages[0]?.items ?? [];
+  const moreInspections = inspectionRows.length > limit || !!inspections.data?.pages[0]?.nextCursor;
   if (zone.isPending) return <Loading label="Loading the history…" />;
   if (zone.isError) return <ErrorState error={zone.error} retry={() => zone.refetch()} />;
   const tz = zone.data;
@@ -27,24 +31,24 @@ export function PointHistory({ pointId, gearId, limit = 10 }: { pointId?: number
     <div className="grid gap-6 lg:grid-cols-2" data-testid="point-history">
       <section aria-labelledby="history-inspections" className="space-y-2">
         <h3 id="history-inspections" className="font-semibold">Inspections</h3>
-        {inspections.isPending ? <Loading /> : inspections.isError ? <ErrorState error={inspections.error} retry={() => inspections.refetch()} /> : inspections.data.length === 0 ? (
+        {inspections.isPending ? <Loading /> : inspections.isError ? <ErrorState error={inspections.error} retry={() => inspections.refetch()} /> : inspectionRows.length === 0 ? (
           <p className="text-sm text-muted">No inspections recorded yet.</p>
         ) : (
           <>
             <ol className="space-y-2">
-              {inspections.data.slice(0, limit).map((i) => <InspectionEntry key={i.id} inspection={i} timeZone={tz} />)}
+              {inspectionRows.slice(0, limit).map((i) => <InspectionEntry key={i.id} inspection={i} timeZone={tz} />)}
             </ol>
-            {inspections.data.length > limit ? <p className="text-sm text-muted">{inspections.data.length - limit} older inspections are in the <Link className="font-medium text-pine-700 underline" to={paths.inspections}>inspection log</Link>.</p> : null}
+            {moreInspections ? <p className="text-sm text-muted">The {limit} newest are shown. Older inspections are in the <Link className="font-medium text-pine-700 underline" to={paths.inspections}>inspection log</Link>.</p> : null}
           </>
         )}
       </section>
       <section aria-labelledby="history-faults" className="space-y-2">
         <h3 id="history-faults" className="font-semibold">Faults</h3>
-        {faults.isPending ? <Loading /> : faults.isError ? <ErrorState error={faults.error} retry={() => faults.refetch()} /> : faults.data.length === 0 ? (
+        {faults.isPending ? <Loading /> : faults.isError ? <ErrorState error={faults.error} retry={() => faults.refetch()} /> : faultRows.length === 0 ? (
           <p className="text-sm text-muted">No faults reported.</p>
         ) : (
           <ol className="space-y-2">
-            {[...faults.data].sort((a, b) => (a.status === b.status ? b.reportedAt.localeCompare(a.reportedAt) : a.status === 'open' ? -1 : 1)).slice(0, limit).map((f) => (
+            {faultRows.slice(0, limit).map((f) => (
               <li key={f.id} className="space-y-1 rounded-lg border border-line bg-white p-3 text-sm">
                 <div className="flex flex-wrap items-center gap-2"><FaultState status={f.status} /><SeverityBadge severity={f.severity} /></div>
                 <p><span className="font-medium">{faultSubject(f)}:</span> {f.description}</p>
