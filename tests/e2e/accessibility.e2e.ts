@@ -26,7 +26,7 @@ const visits = (): Visit[] => [
   {
     role: 'owner',
     viewport: DESKTOP,
-    pages: ['/today', '/schedule', '/rig', '/rig/gear', `/rig/points/${ids.point}`, `/rig/gear/${ids.gear}`, '/rig/labels', '/inspections', '/faults', '/faults/new', '/staff', '/settings', '/mailbox'],
+    pages: ['/today', '/schedule', '/rig', '/rig/gear', `/rig/points/${ids.point}`, `/rig/gear/${ids.gear}`, '/rig/labels', '/inspections', '/faults', '/faults/new', '/staff', '/settings', '/mailbox', '/audit'],
   },
   { role: 'reception', viewport: DESKTOP, pages: ['/today', '/schedule', '/rig', '/faults', '/staff'] },
   { role: 'instructor', viewport: PHONE, pages: ['/today', '/schedule', '/rig', '/faults'] },

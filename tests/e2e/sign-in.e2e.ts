@@ -10,7 +10,7 @@ beforeAll(async () => {
 afterAll(async () => browser?.close());
 
 const expected: Record<string, string[]> = {
-  owner: ['Today', 'Schedule', 'Rig', 'Inspections', 'Faults', 'Staff', 'Settings', 'Mailbox'],
+  owner: ['Today', 'Schedule', 'Rig', 'Inspections', 'Faults', 'Staff', 'Settings', 'Mailbox', 'Audit'],
   reception: ['Today', 'Schedule', 'Rig', 'Faults', 'Staff'],
   instructor: ['Today', 'Schedule', 'Rig', 'Faults'],
   rigger: ['Today', 'Schedule', 'Rig', 'Inspections', 'Faults'],

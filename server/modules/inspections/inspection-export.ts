@@ -1,5 +1,5 @@
-import { once } from 'node:events';
-import type { Writable } from 'node:stream';
+import { Readable, type Writable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
 import { stringify } from 'csv-stringify';
 import type { Inspection } from '../../../shared/schemas/safety';
 import { formatStudioDateTime } from '../../../shared/clearance';
@@ -72,33 +72,35 @@ export function csvRows(i: Inspection, timeZone: string): string[][] {
   return lines.map(formulaSafeRow);
 }
 
-async function writeTo(out: Writable, chunk: string): Promise<void> {
-  if (!out.write(chunk)) await once(out, 'drain');
+/** A client that goes away mid-download ends the export quietly; any other failure is reported. */
+async function pipeTo(out: Writable, source: Readable, through?: NodeJS.ReadWriteStream): Promise<void> {
+  try {
+    await (through ? pipeline(source, through, out) : pipeline(source, out));
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== 'ERR_STREAM_PREMATURE_CLOSE') throw err;
+  }
 }
 
 /**
- * Streams the CSV: rows are written as each batch arrives, so memory holds one batch whatever the
- * range. The last row is the trailer: `# audit chain head`, `count:hash`, the number of inspections,
- * the export's time, padded to the header's width so a spreadsheet opens it as one more row.
+ * Streams the CSV: rows are written as each batch arrives, with backpressure from the client, so
+ * memory holds one batch whatever the range. The last row is the trailer: `# audit chain head`,
+ * `count:hash`, the number of inspections and the export's time, padded to the header's width so
+ * a spreadsheet opens it as one more row.
  */
 export async function streamCsv(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
   const columns = CSV_COLUMNS(meta.timeZone);
-  const csv = stringify({ header: true, columns, record_delimiter: 'windows' });
-  csv.pipe(out);
   let count = 0;
-  const push = async (row: string[]) => {
-    if (!csv.write(row)) await once(csv, 'drain');
-  };
-  for await (const batch of batches) {
-    for (const i of batch) {
-      count += 1;
-      for (const row of csvRows(i, meta.timeZone)) await push(row);
+  async function* rows() {
+    for await (const batch of batches) {
+      for (const i of batch) {
+        count += 1;
+        yield* csvRows(i, meta.timeZone);
+      }
     }
+    const trailer = formulaSafeRow([CHAIN_HEAD_LABEL, `${meta.head.count}:${meta.head.hash}`, `${count} inspections`, `exported ${formatStudioDateTime(meta.exportedAt, meta.timeZone)}`]);
+    yield [...trailer, ...Array<string>(columns.length - trailer.length).fill('')];
   }
-  const trailer = formulaSafeRow([CHAIN_HEAD_LABEL, `${meta.head.count}:${meta.head.hash}`, `${count} inspections`, `exported ${formatStudioDateTime(meta.exportedAt, meta.timeZone)}`]);
-  await push([...trailer, ...Array<string>(columns.length - trailer.length).fill('')]);
-  csv.end();
-  await once(out, 'finish').catch(() => undefined);
+  await pipeTo(out, Readable.from(rows()), stringify({ header: true, columns, record_delimiter: 'windows' }));
   return count;
 }
 
@@ -138,46 +140,53 @@ td.res { width: 6.5rem; white-space: nowrap; }
 
 /** The printable log: one page of HTML, streamed entry by entry, for the browser to print. */
 export async function streamPrintable(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
-  const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), meta.timeZone) : '');
+  let count = 0;
+  async function* chunks() {
+    yield printableHead(meta);
+    for await (const batch of batches) {
+      count += batch.length;
+      yield batch.map((i) => printableEntry(i, meta.timeZone)).join('');
+    }
+    yield printableFoot(count, meta);
+  }
+  await pipeTo(out, Readable.from(chunks()));
+  return count;
+}
+
+function printableHead(meta: ExportMeta): string {
   const title = `${meta.studioName}: inspection log`;
-  await writeTo(
-    out,
-    `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${esc(title)}</title><style>${PRINT_CSS}</style><script src="/print-log.js" defer></script></head><body>
+  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${esc(title)}</title><style>${PRINT_CSS}</style><script src="/print-log.js" defer></script></head><body>
 <header><h1>${esc(title)}</h1>
 <p class="meta">${esc(meta.scope)}, newest first. Times in ${esc(meta.timeZone.replace(/_/g, ' '))}. Printed ${esc(formatStudioDateTime(meta.exportedAt, meta.timeZone))}.</p>
 <p class="caution"><strong>Caution.</strong> Figures come from the ratings entered and the rules configured. They do not replace inspection by a qualified rigger, the maker’s instructions, an engineer’s assessment of the structure, or local codes and licensed practice.</p>
-<div class="toolbar"><button type="button" data-print>Print this log</button><span>Every matching inspection is on this page; page numbers and the audit chain head print at the foot.</span></div>
-</header><main>`,
-  );
-  let count = 0;
-  for await (const batch of batches) {
-    let html = '';
-    for (const i of batch) {
-      count += 1;
-      const { status, why } = statusWords(i);
-      const outcome =
-        i.pointId === null
-          ? `<p class="outcome">Gear inspected on its own: it clears no point.</p>`
-          : i.kind === 'pre_use'
-            ? `<p class="outcome">Pre-use check (clears nothing). Point status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`
-            : i.cleared
-              ? `<p class="outcome"><strong>Cleared</strong> the point until ${esc(when(i.clearedUntil))}. Status when signed: ${esc(status)}.</p>`
-              : `<p class="outcome"><strong>Did not clear</strong> the point. Status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`;
-      const reasons = i.pointStatus?.reasons.length || (why && !i.cleared) ? `<ul class="why">${(i.pointStatus?.reasons ?? []).map((r) => `<li>${esc(r.message)}</li>`).join('')}${i.pointStatus && !i.pointStatus.recorded && i.pointId !== null ? `<li>${esc(i.pointStatus.status ? 'Other reasons were not recorded at the time.' : 'The point’s status at the time was not recorded.')}</li>` : ''}</ul>` : '';
-      const items = i.items.length
-        ? `<table><thead><tr><th scope="col">Item</th><th scope="col">Result</th><th scope="col">Note</th></tr></thead><tbody>${i.items
-            .map((it) => `<tr><td>${esc(it.label)}</td><td class="res${it.result === 'pass' ? '' : ' flag'}">${esc(it.result === 'fail' ? 'FAIL' : it.result === 'attention' ? 'ATTENTION' : 'pass')}</td><td>${esc(it.note)}</td></tr>`)
-            .join('')}</tbody></table>`
-        : '';
-      const photos = i.photos.length ? `<p class="photos">Photos: ${i.photos.map((p) => esc(p.name)).join(', ')}</p>` : '';
-      html += `<article data-inspection="${i.id}"><h2><span>#${i.id} · ${esc(subjectOf(i).replace(/^./, (c) => c.toUpperCase()))}</span><span>${esc(kindWord[i.kind])}</span><span>Result: ${esc(i.result === 'pass' ? 'pass' : i.result.toUpperCase())}</span><span class="when">${esc(when(i.inspectedAt))} · ${esc(i.inspector ?? 'former staff member')}</span></h2>${outcome}${reasons}${i.notes ? `<p class="notes">Notes: ${esc(i.notes)}</p>` : ''}${items}${photos}</article>`;
-    }
-    await writeTo(out, html);
-  }
-  await writeTo(
-    out,
-    `${count ? '' : '<p>No inspections match.</p>'}</main><footer class="foot" data-testid="chain-head"><p>${count} inspection${count === 1 ? '' : 's'} in this log. End of log.</p><p>Audit chain head when printed: <code>${meta.head.count}:${esc(meta.head.hash)}</code><br>The owner can check that this head is still in the studio’s audit chain (Inspections → Verify the audit chain).</p></footer></body></html>`,
-  );
-  out.end();
-  return count;
+<div class="toolbar"><button type="button" data-print>Print this log</button><span>Every matching inspection is on this page; page numbers and the audit chain head print with it.</span></div>
+</header><main>`;
+}
+
+function printableEntry(i: Inspection, timeZone: string): string {
+  const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), timeZone) : '');
+  const { status } = statusWords(i);
+  const outcome =
+    i.pointId === null
+      ? `<p class="outcome">Gear inspected on its own: it clears no point.</p>`
+      : i.kind === 'pre_use'
+        ? `<p class="outcome">Pre-use check (clears nothing). Point status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`
+        : i.cleared
+          ? `<p class="outcome"><strong>Cleared</strong> the point until ${esc(when(i.clearedUntil))}. Status when signed: ${esc(status || 'not recorded')}.</p>`
+          : `<p class="outcome"><strong>Did not clear</strong> the point. Status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`;
+  const s = i.pointStatus;
+  const notRecorded = s && !s.recorded && (s.reasons.length || !i.cleared) ? `<li>${s.status ? 'Other reasons were not recorded at the time.' : 'The point’s status at the time was not recorded.'}</li>` : '';
+  const reasons = s && (s.reasons.length || notRecorded) ? `<ul class="why">${s.reasons.map((r) => `<li>${esc(r.message)}</li>`).join('')}${notRecorded}</ul>` : '';
+  const items = i.items.length
+    ? `<table><thead><tr><th scope="col">Item</th><th scope="col">Result</th><th scope="col">Note</th></tr></thead><tbody>${i.items
+        .map((it) => `<tr><td>${esc(it.label)}</td><td class="res${it.result === 'pass' ? '' : ' flag'}">${it.result === 'fail' ? 'FAIL' : it.result === 'attention' ? 'ATTENTION' : 'pass'}</td><td>${esc(it.note)}</td></tr>`)
+        .join('')}</tbody></table>`
+    : '';
+  const photos = i.photos.length ? `<p class="photos">Photos: ${i.photos.map((p) => esc(p.name)).join(', ')}</p>` : '';
+  const subject = subjectOf(i).replace(/^./, (c) => c.toUpperCase());
+  return `<article data-inspection="${i.id}"><h2><span>#${i.id} · ${esc(subject)}</span><span>${esc(kindWord[i.kind])}</span><span>Result: ${i.result === 'pass' ? 'pass' : i.result.toUpperCase()}</span><span class="when">${esc(when(i.inspectedAt))} · ${esc(i.inspector ?? 'former staff member')}</span></h2>${outcome}${reasons}${i.notes ? `<p class="notes">Notes: ${esc(i.notes)}</p>` : ''}${items}${photos}</article>`;
+}
+
+function printableFoot(count: number, meta: ExportMeta): string {
+  return `${count ? '' : '<p>No inspections match.</p>'}</main><footer class="foot" data-testid="chain-head"><p>${count} inspection${count === 1 ? '' : 's'} in this log. End of log.</p><p>Audit chain head when printed: <code>${meta.head.count}:${esc(meta.head.hash)}</code><br>The owner can check that this head is still in the studio’s audit chain (Audit → Verify the audit chain).</p></footer></body></html>`;
 }
