@@ -119,6 +119,7 @@ article h2 { font-size: 11pt; margin: 0; display: flex; flex-wrap: wrap; gap: .2
 article h2 .when { font-weight: 400; font-size: 9.5pt; }
 .outcome { margin: .2rem 0; }
 .outcome strong { text-transform: uppercase; letter-spacing: .03em; }
+.outcome strong.status { text-transform: none; letter-spacing: 0; }
 .why { margin: .1rem 0 .2rem 1rem; padding: 0; }
 .notes { white-space: pre-line; margin: .2rem 0; }
 table { width: 100%; border-collapse: collapse; margin-top: .3rem; font-size: 9pt; }
@@ -165,18 +166,18 @@ function printableHead(meta: ExportMeta): string {
 
 function printableEntry(i: Inspection, timeZone: string): string {
   const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), timeZone) : '');
-  const { status } = statusWords(i);
+  const s = i.pointStatus;
+  // The status word as recorded when signed; an older row without one says so once, plainly.
+  const statusText = s?.status ? `<strong class="status">${esc(s.status)}</strong>` : 'not recorded (older entry)';
   const outcome =
     i.pointId === null
       ? `<p class="outcome">Gear inspected on its own: it clears no point.</p>`
       : i.kind === 'pre_use'
-        ? `<p class="outcome">Pre-use check (clears nothing). Point status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`
+        ? `<p class="outcome">Pre-use check (clears nothing). Point status when signed: ${statusText}.</p>`
         : i.cleared
-          ? `<p class="outcome"><strong>Cleared</strong> the point until ${esc(when(i.clearedUntil))}. Status when signed: ${esc(status || 'not recorded')}.</p>`
-          : `<p class="outcome"><strong>Did not clear</strong> the point. Status when signed: <strong>${esc(status || 'not recorded')}</strong>.</p>`;
-  const s = i.pointStatus;
-  const notRecorded = s && !s.recorded && (s.reasons.length || !i.cleared) ? `<li>${s.status ? 'Other reasons were not recorded at the time.' : 'The point’s status at the time was not recorded.'}</li>` : '';
-  const reasons = s && (s.reasons.length || notRecorded) ? `<ul class="why">${s.reasons.map((r) => `<li>${esc(r.message)}</li>`).join('')}${notRecorded}</ul>` : '';
+          ? `<p class="outcome"><strong>Cleared</strong> the point until ${esc(when(i.clearedUntil))}. Status when signed: ${statusText}.</p>`
+          : `<p class="outcome"><strong>Did not clear</strong> the point. Status when signed: ${statusText}.</p>`;
+  const reasons = s?.reasons.length ? `<ul class="why">${s.reasons.map((r) => `<li>${esc(r.message)}</li>`).join('')}${s.recorded ? '' : '<li>Other reasons were not recorded at the time.</li>'}</ul>` : '';
   const items = i.items.length
     ? `<table><thead><tr><th scope="col">Item</th><th scope="col">Result</th><th scope="col">Note</th></tr></thead><tbody>${i.items
         .map((it) => `<tr><td>${esc(it.label)}</td><td class="res${it.result === 'pass' ? '' : ' flag'}">${it.result === 'fail' ? 'FAIL' : it.result === 'attention' ? 'ATTENTION' : 'pass'}</td><td>${esc(it.note)}</td></tr>`)

@@ -58,7 +58,7 @@ export function PageHeader({ title, children, actions }: { title: string; childr
         <h1 className="text-2xl font-semibold text-ink">{title}</h1>
         {children ? <p className="mt-1 text-muted">{children}</p> : null}
       </div>
-      {actions ? <div className="flex flex-wrap gap-2">{actions}</div> : null}
+      {actions ? <div className="no-print flex flex-wrap gap-2">{actions}</div> : null}
     </header>
   );
 }

@@ -6,6 +6,8 @@ import { LabelsPage } from '../../../features/rig/labels-page';
 import { PointPage } from '../../../features/rig/point-page';
 import { RigPage } from '../../../features/rig/rig-page';
 import { PointHistory } from '../../../features/inspections/components/point-history';
+import { useStudioTimeZone } from '../../../features/today/api';
+import { formatInZone } from '../../../components/ui/zoned-time';
 
 /** `/rig/*`: the register, a point, the gear list, a gear item, and the label sheet. */
 export default function RigRoute() {
@@ -30,8 +32,11 @@ function WithId({ render }: { render: (id: number) => ReactNode }) {
 
 /** The rig pages with the inspection and fault history beneath, composed here so features stay apart. */
 function WithHistory({ children, history }: { children: ReactNode; history: ReactNode }) {
+  const zone = useStudioTimeZone();
   return (
     <>
+      {/* On paper, say when it was printed: the page shows the record as it stood then. */}
+      {zone.data ? <p className="mb-2 hidden text-sm print:block">Printed {formatInZone(new Date().toISOString(), zone.data)} ({zone.data.replace(/_/g, ' ')}). Each inspection shows the point’s status when it was signed.</p> : null}
       {children}
       <section aria-labelledby="history-heading" className="mt-6 max-w-5xl rounded-xl border border-line bg-white p-5">
         <h2 id="history-heading" className="mb-3 text-lg font-semibold">History</h2>

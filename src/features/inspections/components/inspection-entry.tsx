@@ -19,12 +19,12 @@ export function InspectionOutcomeLine({ inspection: i, timeZone }: { inspection:
       <p className="flex flex-wrap items-center gap-x-2 gap-y-1">
         {clears ? <span>{i.cleared ? `Cleared the point until ${formatInZone(i.clearedUntil, timeZone)}.` : 'Did not clear the point.'}</span> : null}
         <span className="text-muted">Status when signed:</span>
-        {s.status ? <StatusBadge status={s.status} /> : <span>not recorded</span>}
+        {s.status ? <StatusBadge status={s.status} /> : <span className="text-muted">not recorded (older entry)</span>}
       </p>
-      {s.reasons.length || (!s.recorded && !i.cleared && clears) ? (
+      {s.reasons.length ? (
         <ul className="list-disc pl-6">
           {s.reasons.map((r, n) => <li key={`${r.code}-${n}`}>{r.message}</li>)}
-          {!s.recorded ? <li className="text-muted">{s.status ? 'Other reasons were not recorded at the time.' : 'The point’s status at the time was not recorded.'}</li> : null}
+          {!s.recorded ? <li className="text-muted">Other reasons were not recorded at the time.</li> : null}
         </ul>
       ) : null}
     </div>

@@ -57,7 +57,7 @@ export function PointHistory({ pointId, gearId, limit = 10 }: { pointId?: number
             ))}
           </ol>
         )}
-        <Link to={paths.faults} className="inline-block text-sm font-medium text-pine-700 underline">All faults</Link>
+        <Link to={paths.faults} className="no-print inline-block text-sm font-medium text-pine-700 underline">All faults</Link>
       </section>
     </div>
   );
