@@ -63,7 +63,7 @@ export function InspectionEntry({ inspection: i, timeZone }: { inspection: Inspe
         <table className={`w-full text-left text-sm ${open ? '' : 'hidden print:table'}`}>
           <caption className="sr-only">Items of inspection {i.id}</caption>
           <thead className="text-xs uppercase tracking-wide text-muted">
-            <tr><th scope="col" className="py-1 pr-2">Item</th><th scope="col" className="py-1 pr-2">Result</th><th scope="col" className="py-1">Note</th></tr>
+            <tr><th scope="col" className="w-1/2 py-1 pr-2">Item</th><th scope="col" className="w-28 py-1 pr-2">Result</th><th scope="col" className="py-1">Note</th></tr>
           </thead>
           <tbody>
             {i.items.map((it) => (

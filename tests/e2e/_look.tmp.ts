@@ -1,0 +1,32 @@
+import { openBrowser, signInAs, apiOf } from './browser';
+const base = 'http://127.0.0.1:4719';
+const out = '/tmp/i12b-run/shots';
+const b = await openBrowser();
+const rig = await b.newPage();
+await signInAs(rig, base, 'rigger@loftwise.test');
+const api = apiOf(rig, base);
+const points = await api.get<Array<{ id: number; label: string; links?: unknown }>>('/points');
+const detail = await api.get<{ id: number; label: string; links: Array<{ gear: { id: number; kind: string } }> }>(`/points/${points.find((p) => p.label === 'LS-1')!.id}`);
+const hoop = detail.links.find((l) => l.gear.kind === 'hoop');
+if (hoop && process.env.QUARANTINE) {
+  await api.post(`/gear/${hoop.gear.id}/quarantine`, { reason: 'Weld crack at the tab' });
+  const { items } = await api.get<{ items: Array<{ key: string }> }>(`/points/${detail.id}/checklist`);
+  await api.post(`/points/${detail.id}/clearances`, { items: items.map((i, n) => ({ key: i.key, result: n === 2 ? 'attention' : 'pass', note: n === 2 ? '=HYPERLINK("http://x.test"&B2,"Gate OK")' : undefined })), notes: 'Hoop weld looked at again; left quarantined.' });
+}
+const page = await b.newPage();
+await signInAs(page, base, 'owner@loftwise.test');
+await page.goto(`${base}/api/inspections/export.html?pointId=${detail.id}`);
+await page.screenshot({ path: `${out}/printable-screen.png` });
+for (const format of ['A4', 'Letter'] as const) await page.pdf({ path: `${out}/log-${format}.pdf`, format });
+await page.goto(`${base}/rig/points/${detail.id}`);
+await page.getByTestId('point-history').waitFor();
+await page.waitForTimeout(1500);
+for (const format of ['A4', 'Letter'] as const) await page.pdf({ path: `${out}/point-${format}.pdf`, format });
+await page.goto(`${base}/audit`);
+await page.getByTestId('audit-entries').waitFor();
+await page.screenshot({ path: `${out}/audit.png`, fullPage: false });
+await page.goto(`${base}/inspections?point=${detail.id}`);
+await page.getByTestId('inspection-log').waitFor();
+await page.waitForTimeout(1500);
+await page.screenshot({ path: `${out}/inspections.png`, fullPage: true });
+await b.close();
