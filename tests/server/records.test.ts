@@ -113,6 +113,9 @@ describe('GET /api/inspections/export.csv on a long history', () => {
 
     const res = await owner.get('/api/inspections/export.csv');
     expect(res.status).toBe(200);
+    // Streamed as it is read (chunked), not built whole and sent with a length.
+    expect(res.headers['transfer-encoding']).toBe('chunked');
+    expect(res.headers['content-length']).toBeUndefined();
     const { header, records, trailer } = csvRecords(res.text);
     const ids = new Set(records.map((r) => r.inspection));
     expect(ids.size).toBe(5_201);

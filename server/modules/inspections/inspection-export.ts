@@ -113,7 +113,7 @@ h1 { font-size: 16pt; margin: 0 0 .25rem; }
 .meta, .foot { font-size: 9pt; }
 .caution { border: 1px solid #555; padding: .4rem .6rem; font-size: 8.5pt; margin: .6rem 0 1rem; }
 .toolbar { display: flex; gap: .75rem; align-items: center; margin: .75rem 0; font-size: 10pt; }
-.toolbar button { font: inherit; min-height: 2.75rem; padding: 0 1rem; border: 1px solid #333; border-radius: .4rem; background: #fff; cursor: pointer; }
+.toolbar button { white-space: nowrap; font: inherit; min-height: 2.75rem; padding: 0 1rem; border: 1px solid #333; border-radius: .4rem; background: #fff; cursor: pointer; }
 article { border-top: 1.5pt solid #000; padding: .45rem 0 .6rem; break-inside: avoid; page-break-inside: avoid; }
 article h2 { font-size: 11pt; margin: 0; display: flex; flex-wrap: wrap; gap: .2rem .9rem; align-items: baseline; }
 article h2 .when { font-weight: 400; font-size: 9.5pt; }
@@ -122,10 +122,12 @@ article h2 .when { font-weight: 400; font-size: 9.5pt; }
 .outcome strong.status { text-transform: none; letter-spacing: 0; }
 .why { margin: .1rem 0 .2rem 1rem; padding: 0; }
 .notes { white-space: pre-line; margin: .2rem 0; }
-table { width: 100%; border-collapse: collapse; margin-top: .3rem; font-size: 9pt; }
+table { width: 100%; table-layout: fixed; border-collapse: collapse; margin-top: .3rem; font-size: 9pt; }
 th, td { text-align: left; vertical-align: top; padding: .15rem .4rem .15rem 0; border-bottom: .5pt solid #888; }
 th { font-size: 8pt; text-transform: uppercase; letter-spacing: .04em; border-bottom: 1pt solid #000; }
-td.res { width: 6.5rem; white-space: nowrap; }
+th:nth-child(1) { width: 55%; } th:nth-child(2) { width: 6.5rem; }
+td { overflow-wrap: anywhere; }
+td.res { white-space: nowrap; }
 .flag { font-weight: 700; }
 .photos { font-size: 9pt; margin: .2rem 0 0; }
 .foot { border-top: 1.5pt solid #000; margin-top: 1rem; padding-top: .4rem; }
