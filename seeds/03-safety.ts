@@ -61,7 +61,10 @@ export async function seedSafety(trx: Db, now: Date): Promise<void> {
       const watchKey = watch ? (watch.item === 'structure' ? 'structure' : `link:${path[watch.item].gear.id}`) : null;
       const items: Item[] = inspectionChecklist(b.point, path).map((c) => ({ key: c.key, label: c.label, gearId: c.gearId ?? null, result: c.key === watchKey ? 'attention' : 'pass', note: c.key === watchKey ? watch!.note : '' }));
       const until = clearanceEnd(path, at, policy);
-      const inspectionId = await inspect({ kind: 'periodic', point_id: b.point.id, gear_id: null, inspector_id: rigger, notes: latest ? (plan.notes ?? '') : '', cleared: true, cleared_until: until.toISOString() }, at, items);
+      // The story clears a sound point: as the service would record it, cleared (expiring when the
+      // clearance ends inside the warning window) with nothing against it when signed.
+      const statusWhenSigned = until.getTime() <= addStudioDays(at, policy.warningDays, tz).getTime() ? 'expiring' : 'cleared';
+      const inspectionId = await inspect({ kind: 'periodic', point_id: b.point.id, gear_id: null, inspector_id: rigger, notes: latest ? (plan.notes ?? '') : '', cleared: true, cleared_until: until.toISOString(), point_status: statusWhenSigned, point_reasons_json: '[]' }, at, items);
       for (const l of path) await renew(l.gear, at);
       await trx('points').where({ id: b.point.id }).update({ last_cleared_at: at.toISOString(), clearance_voided_at: null, updated_at: at.toISOString() });
       audit(at, { actorId: rigger, action: 'point.cleared', entity: 'point', entityId: b.point.id, after: { inspectionId, cleared: true, clearedUntil: until.toISOString(), failed: [] } });
