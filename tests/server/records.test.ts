@@ -155,6 +155,24 @@ describe('GET /api/inspections/export.csv on a long history', () => {
   }, 60_000);
 });
 
+describe('photos in the log', () => {
+  it('lists by name the photos kept with an inspection and with the fault it opened', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const p = await makePoint(ctx.db);
+    await makeStandardPath(ctx.db, p.id);
+    const list = await rigger.get(`/api/points/${p.id}/checklist`);
+    const items = list.body.items.map((i: { key: string }, n: number) => ({ key: i.key, result: n === 2 ? 'fail' : 'pass', note: n === 2 ? 'Gate sticks open' : undefined }));
+    const res = await rigger.post(`/api/points/${p.id}/clearances`).send({ items });
+    const doc = (owner_type: string, owner_id: number, name: string) => ({ owner_type, owner_id, kind: 'photo', original_name: name, stored_name: `${name}-${owner_id}`, mime: 'image/jpeg', size: 10, uploaded_by: rigger.user.id, uploaded_at: '2026-12-01T10:00:00Z' });
+    await ctx.db('documents').insert([doc('inspection', res.body.inspectionId, 'gate-close-up.jpg'), doc('fault', res.body.faultIds[0], 'gate-open.jpg')]);
+    const [entry] = (await rigger.get(`/api/inspections?pointId=${p.id}`)).body.items;
+    expect(entry.photos.map((ph: { name: string }) => ph.name)).toEqual(['gate-close-up.jpg', 'gate-open.jpg']);
+    const rows = csvRecords((await rigger.get('/api/inspections/export.csv')).text).records;
+    expect(new Set(rows.map((r) => r.photos))).toEqual(new Set(['gate-close-up.jpg; gate-open.jpg']));
+    expect((await rigger.get('/api/inspections/export.html')).text).toContain('Photos: gate-close-up.jpg, gate-open.jpg');
+  });
+});
+
 describe('formula-safe cells, end to end', () => {
   it('neutralises a pre-use note that would run as a formula, and leaves plain text alone', async () => {
     const instructor = await as(ctx, 'instructor');
