@@ -320,3 +320,22 @@ describe('GET /api/faults and GET /api/outbox by cursor', () => {
     expect(failed.items.every((m) => m.state === 'failed')).toBe(true);
   });
 });
+
+describe('paged lists and exports with hostile queries', () => {
+  it('never answer 5xx for any cursor, limit or range a caller sends', async () => {
+    const owner = await as(ctx, 'owner');
+    const p = await makePoint(ctx.db);
+    await bulkInspections(p.id, owner.user.id, 3);
+    const junk = ['', 'a', '%00', 'WzFd', 'WyJ4Il0', 'WyIyMDI2IiwxXQ', 'W251bGxd', 'eyJhIjoxfQ', 'WzEsMiwzXQ', '_-_-', 'W1tbW1tbXV1dXV1d', 'x'.repeat(500), '-1', '1e9', 'NaN', '2026-13-45T99:99:99Z'];
+    const paths = ['/api/inspections', '/api/faults', '/api/audit', '/api/outbox', '/api/inspections/export.csv', '/api/inspections/export.html'];
+    for (const path of paths) {
+      for (const v of junk) {
+        for (const key of ['cursor', 'limit', 'from', 'to', 'entityId', 'actorId', 'status', 'kind']) {
+          const res = await owner.get(`${path}?${key}=${encodeURIComponent(v)}`);
+          expect(res.status, `${path}?${key}=${v} → ${res.status} ${res.text.slice(0, 200)}`).toBeLessThan(500);
+          if (res.status >= 400) expect(res.body.error.code).toEqual(expect.any(String));
+        }
+      }
+    }
+  }, 120_000);
+});
