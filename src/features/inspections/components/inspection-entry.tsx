@@ -38,8 +38,9 @@ export function InspectionEntry({ inspection: i, timeZone }: { inspection: Inspe
   const flagged = [count('fail') ? `${count('fail')} fail` : '', count('attention') ? `${count('attention')} attention` : ''].filter(Boolean).join(', ');
   const subject = i.pointLabel ? `Point ${i.pointLabel}` : i.gearSerial ? `Gear ${i.gearSerial}` : 'Unknown item';
   return (
-    <li className="break-inside-avoid space-y-1 rounded-lg border border-line bg-white px-3 py-2 print:rounded-none print:border-x-0 print:border-b-0 print:border-t-2 print:border-t-ink print:px-0" data-testid="inspection-entry">
-      <div className="flex flex-wrap items-center gap-x-3 gap-y-1">
+    <li className="space-y-1 rounded-lg border print:break-inside-auto border-line bg-white px-3 py-2 print:rounded-none print:border-x-0 print:border-b-0 print:border-t-2 print:border-t-ink print:px-0" data-testid="inspection-entry">
+      {/* On paper an inspection may run onto the next page (its table head repeats); its heading never ends a page. */}
+      <div className="flex flex-wrap items-center gap-x-3 gap-y-1 break-after-avoid">
         <span className="font-semibold">{subject}</span>
         <span className="text-sm">{kindText[i.kind]}</span>
         <ResultBadge result={i.result} />
@@ -60,7 +61,7 @@ export function InspectionEntry({ inspection: i, timeZone }: { inspection: Inspe
         </p>
       ) : null}
       {i.items.length ? (
-        <table className={`w-full text-left text-sm ${open ? '' : 'hidden print:table'}`}>
+        <table className={`w-full table-fixed text-left text-sm ${open ? '' : 'hidden print:table'}`}>
           <caption className="sr-only">Items of inspection {i.id}</caption>
           <thead className="text-xs uppercase tracking-wide text-muted">
             <tr><th scope="col" className="w-1/2 py-1 pr-2">Item</th><th scope="col" className="w-28 py-1 pr-2">Result</th><th scope="col" className="py-1">Note</th></tr>
@@ -70,7 +71,7 @@ export function InspectionEntry({ inspection: i, timeZone }: { inspection: Inspe
               <tr key={it.key} className="border-t border-line align-top">
                 <td className="py-1 pr-2">{it.label}</td>
                 <td className="py-1 pr-2"><ResultBadge result={it.result} /></td>
-                <td className="py-1">{it.note}</td>
+                <td className="py-1 [overflow-wrap:anywhere]">{it.note}</td>
               </tr>
             ))}
           </tbody>
