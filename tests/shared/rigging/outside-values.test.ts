@@ -79,7 +79,8 @@ describe('force units', () => {
   it('shows a 7 kN gate-open rating as 1,573.66 lbf, about 1,500 lb [common practice; matches EN 12275 class B]', () => {
     expectPrinted(fromKn(7, 'lbf'), 1573.66, 2);
     expect(formatForce(7, 'lbf', 2)).toBe('1,573.66 lbf');
-    expect(formatForce(7, 'lbf')).toBe('1,574 lbf');
+    // A rating reads cut down at whole pounds (PRODUCT.md §4.8).
+    expect(formatForce(7, 'lbf')).toBe('1,573 lbf');
     expect(formatForce(7, 'kN')).toBe('7.0 kN');
   });
 
