@@ -103,3 +103,15 @@ export function workingFigureToward(step: string, input: string | null): Toward 
   if (input === null) return UP_STEPS.has(step) ? 'up' : 'down';
   return UP_INPUTS.has(input) ? 'up' : 'down';
 }
+
+/** Decimals a force field shows when it opens or its unit is switched: 5000 lbf reads 22.24 kN. */
+export const FORCE_INPUT_PLACES: Record<ForceUnit, number> = { kN: 2, lbf: 1, kgf: 1 };
+
+/**
+ * A force stored in kN as a form field shows it in `unit`: cut down (a rating never reads above
+ * its marking), without grouping or trailing zeros, so it can be typed over and read back.
+ */
+export function forceInputText(kn: number, unit: ForceUnit): string {
+  const text = fixedToward(fromKn(kn, unit), FORCE_INPUT_PLACES[unit], 'down');
+  return text === '—' ? '' : trimZeros(text);
+}

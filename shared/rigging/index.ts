@@ -11,7 +11,9 @@ export { G, KGF_IN_N, LBF_IN_N, fromKn, toKn } from './units';
 export {
   FACTOR_PLACES,
   FORCE_PLACES,
+  FORCE_INPUT_PLACES,
   fixedToward,
+  forceInputText,
   formatFactor,
   formatForce,
   formatLoad,

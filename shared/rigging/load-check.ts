@@ -213,6 +213,7 @@ export function checkLoadPath(input: LoadCheckInput): LoadCheckResult {
     chainStrengthKn,
     achievedFactor,
     requiredFactor,
+    requiredFactorReason: input.requiredFactorReason?.trim() || null,
     structuralRatingKn,
     pass: violations.length === 0,
     violations,

@@ -240,6 +240,8 @@ export const loadCheckSchema = z.object({
   designLoadKn: z.number(),
   achievedFactor: z.number().nullable(),
   requiredFactor: z.number(),
+  /** The owner's reason for a required factor below 5, shown beside the factor. */
+  requiredFactorReason: z.string().nullable().optional(),
   structuralRatingKn: z.number(),
   pass: z.boolean(),
   violations: z.array(findingSchema),

@@ -7,7 +7,7 @@ import { impossibleGearFacts, type CreateGear, type CreatePoint, type GearEventB
 import { pointStatusAt, serviceLifeEnd, studioDay, voidsClearance, gearRatingChangeVoids, pathConfigOf, type PathConfig, type PointStatus } from '../../../shared/clearance';
 import { checkLoadPath, type LoadProfile } from '../../../shared/rigging';
 import { isApparatusKind } from '../../../shared/schemas/vocabulary';
-import type { Policy } from '../../../shared/schemas/policy';
+import { requiredFactorReasonOf, type Policy } from '../../../shared/schemas/policy';
 import type { GearRecord, RigRepository } from './rig.repository';
 import { loadSnapshots, type SnapshotBundle } from './point-snapshots';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
@@ -174,7 +174,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       let profile: LoadProfile & { name?: string };
       if (q.classTypeId !== undefined) profile = await deps.classProfiles.profileOf(q.classTypeId, policy);
       else profile = { performers: q.performers!, bodyMassKg: q.bodyMassKg ?? policy.bodyMassKg, dynamicFactor: q.dynamicFactor! };
-      const result = checkLoadPath({ links: b.snapshot.links, structuralRatingKn: b.point.structuralRatingKn, profile, requiredFactor: policy.requiredFactor, displayUnit: policy.units });
+      const result = checkLoadPath({ links: b.snapshot.links, structuralRatingKn: b.point.structuralRatingKn, profile, requiredFactor: policy.requiredFactor, requiredFactorReason: requiredFactorReasonOf(policy), displayUnit: policy.units });
       return { ...result, profile: { performers: profile.performers, bodyMassKg: profile.bodyMassKg, dynamicFactor: profile.dynamicFactor } };
     },
 

@@ -106,7 +106,7 @@ describe('forces', () => {
 
   it('never shows a load above a strength as within it, nor a strength below a load as enough', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.01, max: 2000, noNaN: true }), fc.double({ min: 0.01, max: 2000, noNaN: true }), fc.constantFrom(...units), (load, strength) => {
+      fc.property(fc.double({ min: 0.01, max: 2000, noNaN: true }), fc.double({ min: 0.01, max: 2000, noNaN: true }), (load, strength) => {
         fc.pre(load > strength);
         for (const unit of units) expect(numberIn(formatLoad(load, unit))).toBeGreaterThanOrEqual(numberIn(formatForce(strength, unit)));
       }),
