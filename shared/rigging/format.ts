@@ -112,6 +112,12 @@ export const FORCE_INPUT_PLACES: Record<ForceUnit, number> = { kN: 2, lbf: 1, kg
  * its marking), without grouping or trailing zeros, so it can be typed over and read back.
  */
 export function forceInputText(kn: number, unit: ForceUnit): string {
-  const text = fixedToward(fromKn(kn, unit), FORCE_INPUT_PLACES[unit], 'down');
-  return text === '—' ? '' : trimZeros(text);
+  const value = fromKn(kn, unit);
+  if (!Number.isFinite(value)) return '';
+  // A conversion's last-bit noise (5000 lbf → kN → 4999.999999999999 lbf) is not a figure to cut:
+  // the field shows the marking. The exact kN behind the field is kept by the form (useForceUnits).
+  const places = FORCE_INPUT_PLACES[unit];
+  const nearest = Number(value.toFixed(places));
+  const figure = Math.abs(value - nearest) <= 1e-9 * Math.abs(value) ? nearest : value;
+  return trimZeros(fixedToward(figure, places, 'down'));
 }

@@ -131,3 +131,15 @@ describe('forces', () => {
     expect(workingFigureToward('link_strength', 'majorKn')).toBe('down');
   });
 });
+
+describe('force fields', () => {
+  it('show 5000 lbf switched to kN as 22.24, and a stored 22.2411 kN opened in lbf as 5000', async () => {
+    const { forceInputText, toKn } = await import('../../../shared/rigging');
+    expect(forceInputText(toKn(5000, 'lbf'), 'kN')).toBe('22.24');
+    expect(forceInputText(toKn(5000, 'lbf'), 'lbf')).toBe('5000');
+    expect(forceInputText(45, 'kN')).toBe('45');
+    // 45 kN is 10,116.41 lbf and 4,588.72 kgf: a rating is cut down.
+    expect(forceInputText(45, 'lbf')).toBe('10116.4');
+    expect(forceInputText(45, 'kgf')).toBe('4588.7');
+  });
+});
