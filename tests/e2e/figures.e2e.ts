@@ -88,6 +88,49 @@ describe('figures shown honestly', () => {
   });
 });
 
+describe('the studio’s display unit and a factor below 5', () => {
+  it('opens stored ratings in lbf when the studio shows lbf, writes the working in lbf with kN beside, and shows the reason beside a factor below 5', async () => {
+    const { page, api } = await signedIn('owner@loftwise.test');
+    const original = await api.get<{ name: string; policy: Record<string, unknown> }>('/studio');
+    const reason = `Static trial term, engineer’s letter ${uniqueTag()}`;
+    try {
+      const tag = uniqueTag();
+      const room = await api.post<{ id: number }>('/rooms', { name: `E2E Units Room ${tag}` });
+      const point = await api.post<{ id: number }>('/points', { roomId: room.id, label: `U${tag}`, structure: 'beam', structuralRatingKn: 20, apparatus: ['fabric'], maxPerformers: 1 });
+      const gear = (kind: string, extra: Record<string, unknown>) => api.post<{ id: number }>('/gear', { kind, multiDirectional: false, serial: `U${kind.slice(0, 2).toUpperCase()}-${tag}`, ...extra });
+      const biner = await gear('carabiner', { material: 'steel', gate: 'screw', majorKn: (5000 * LBF_IN_N) / 1000 });
+      const chain = [await gear('beam_clamp', { material: 'steel', gate: 'none', majorKn: 50 }), biner, await gear('fabric', { material: 'nylon', gate: 'none', majorKn: 32 })];
+      await api.put(`/points/${point.id}/load-path`, { links: chain.map((g) => ({ gearId: g.id, mode: 'major', threeWay: false, basketOverHalf: false })) });
+      const saved = await page.request.patch(`${baseUrl}/api/studio`, { data: { name: original.name, policy: { ...original.policy, units: 'lbf', requiredFactor: 4, requiredFactorReason: reason } }, headers: { Origin: baseUrl } });
+      expect(saved.ok()).toBe(true);
+
+      // The edit form opens the stored 22.2411 kN as the 5000 lbf of its marking.
+      await page.goto(`${baseUrl}/rig/gear/${biner.id}`);
+      await page.getByRole('button', { name: 'Edit item' }).click();
+      const form = page.getByRole('form', { name: /^Edit / });
+      expect(await form.getByLabel('Breaking strength, major axis (lbf)').inputValue()).toBe('5000');
+      await form.getByRole('button', { name: 'Cancel' }).click();
+
+      // The saved path's check: the reason beside the factor, the working in lbf with kN beside.
+      await page.goto(`${baseUrl}/rig/points/${point.id}`);
+      const row = page.locator('details').filter({ has: page.getByText('Silks Foundations', { exact: true }) }).first();
+      const summary = row.locator('summary').first();
+      await until(() => summary.innerText()).toContain('of 4 × required');
+      expect(await summary.innerText()).toContain(`below 5 × because: ${reason}`);
+      if (!(await row.evaluate((d) => (d as HTMLDetailsElement).open))) await summary.click();
+      expect(await row.getByTestId('factor-reason').innerText()).toContain(reason);
+      await row.getByText('Show the working, step by step').click();
+      const strengthRow = await row.getByRole('row').filter({ hasText: `Link 2, Carabiner UCA-${tag}` }).first().innerText();
+      expect(strengthRow).toContain("5,000.0 lbf (22.2411 kN)");
+      await shot(page, 'figures-04-lbf-working-and-reason');
+    } finally {
+      const res = await page.request.patch(`${baseUrl}/api/studio`, { data: { name: original.name, policy: original.policy }, headers: { Origin: baseUrl } });
+      expect(res.ok()).toBe(true);
+      await page.close();
+    }
+  });
+});
+
 describe('a policy change', () => {
   it('asks for confirmation, shows what it does to today’s points, and saves only when confirmed', async () => {
     // A point of our own, cleared today: its round sling gives it the textile interval.
