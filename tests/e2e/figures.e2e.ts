@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
 import { apiOf, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag } from './browser';
 
@@ -156,6 +157,9 @@ describe('a policy change', () => {
       await ours.waitFor();
       expect(await ours.innerText()).toMatch(/Cleared\s*→\s*Expiring/);
       expect(await dialog.getByTestId('safety-caution').isVisible()).toBe(true);
+      // The confirmation passes the same accessibility gate as the pages (nothing serious or critical).
+      const { violations } = await new AxeBuilder({ page }).include('dialog[open]').analyze();
+      expect(violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);
       await shotScreen(page, 'figures-03-policy-confirm');
       await dialog.getByRole('button', { name: 'Cancel' }).click();
       await dialog.waitFor({ state: 'hidden' });

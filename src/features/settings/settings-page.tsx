@@ -157,7 +157,8 @@ function PolicyEffects({ pending }: { pending: Pending }) {
   const { preview, changes, body } = pending;
   const fmt = studioFormat(body.policy);
   return (
-    <div className="max-h-[60vh] space-y-4 overflow-y-auto text-ink">
+    // Focusable, so the list scrolls from the keyboard too.
+    <div tabIndex={0} role="region" aria-label="What this change does" className="max-h-[60vh] space-y-4 overflow-y-auto text-ink">
       <section aria-label="Changes">
         <h3 className="font-medium">You are changing</h3>
         <ul className="list-disc pl-5">{changes.map((c) => <li key={c}>{c}</li>)}</ul>
