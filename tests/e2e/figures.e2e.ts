@@ -89,6 +89,32 @@ describe('figures shown honestly', () => {
   });
 });
 
+describe('gear data that cannot be true', () => {
+  it('is refused next to its field in the gear form, and nothing is added', async () => {
+    const { page, api } = await signedIn('rigger@loftwise.test');
+    const serial = `CS-BAD-${uniqueTag()}`;
+    await page.goto(`${baseUrl}/rig/gear`);
+    await page.getByRole('button', { name: 'Add a gear item' }).click();
+    const form = page.getByRole('form', { name: 'Add a gear item' });
+    await form.getByLabel('Serial or lot number').fill(serial);
+    await form.getByLabel('Breaking strength, major axis (kN)').fill('22');
+    await form.getByLabel('Working load limit (optional) (kN)').fill('1100');
+    await form.getByLabel('Manufactured on (optional)').fill('2024-05-01');
+    await form.getByLabel('In service since (optional)').fill('2023-01-10');
+    await form.getByRole('button', { name: 'Add item' }).click();
+    const wll = form.getByLabel('Working load limit (optional) (kN)');
+    const since = form.getByLabel('In service since (optional)');
+    await until(() => wll.getAttribute('aria-invalid')).toBe('true');
+    await form.getByText('The working load limit cannot exceed the major-axis breaking strength').waitFor();
+    await form.getByText('It cannot go into service before it was manufactured').waitFor();
+    expect(await since.getAttribute('aria-invalid')).toBe('true');
+    await shot(page, 'figures-05-impossible-gear');
+    const found = await api.get<Array<{ serial: string }>>(`/gear?q=${encodeURIComponent(serial)}`);
+    expect(found).toEqual([]);
+    await page.close();
+  });
+});
+
 describe('the studio’s display unit and a factor below 5', () => {
   it('opens stored ratings in lbf when the studio shows lbf, writes the working in lbf with kN beside, and shows the reason beside a factor below 5', async () => {
     const { page, api } = await signedIn('owner@loftwise.test');
