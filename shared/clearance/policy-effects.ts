@@ -27,7 +27,8 @@ export interface EffectSession {
   startsAt: Date;
   cancelled: boolean;
   classType: Parameters<typeof profileFor>[0];
-  pointIds: number[];
+  /** Each booked point as it hangs for this class (the caller knows which apparatus that is). */
+  points: PointSnapshot[];
 }
 
 export interface PointStatusChange {
@@ -58,7 +59,7 @@ export interface PolicyEffects {
 /**
  * What changing the policy from `before` to `after` does at `now`, before it is saved (PRODUCT.md
  * §4.9): each point whose status or clearance end changes, and each booked, future class whose
- * load check passes under `before` and fails under `after` on a point as it hangs now.
+ * load check passes under `before` and fails under `after` on a point as it hangs for that class.
  */
 export function policyChangeEffects(input: { points: EffectPoint[]; sessions: EffectSession[]; before: Policy; after: Policy; now: Date }): PolicyEffects {
   const { before, after, now } = input;
@@ -71,15 +72,13 @@ export function policyChangeEffects(input: { points: EffectPoint[]; sessions: Ef
     }
   }
 
-  const byId = new Map(input.points.map((p) => [p.snapshot.id, p.snapshot]));
   const sessions: SessionLoadCheckChange[] = [];
   let sessionsChecked = 0;
   for (const session of input.sessions) {
     if (session.cancelled || session.startsAt.getTime() <= now.getTime()) continue;
     sessionsChecked += 1;
-    for (const pointId of session.pointIds) {
-      const point = byId.get(pointId);
-      if (!point || splitPath(point.links).fixed.length === 0) continue;
+    for (const point of session.points) {
+      if (splitPath(point.links).fixed.length === 0) continue;
       const check = (policy: Policy) =>
         checkLoadPath({
           links: point.links,
@@ -96,7 +95,7 @@ export function policyChangeEffects(input: { points: EffectPoint[]; sessions: Ef
         sessionId: session.id,
         className: session.classType.name,
         startsAt: session.startsAt,
-        pointId,
+        pointId: point.id,
         label: point.label,
         achievedFactor: next.achievedFactor,
         requiredFactor: next.requiredFactor,

@@ -20,10 +20,13 @@ export function policyPreviewService(deps: { db: Db; studio: StudioRepository; r
       const now = clock.now();
       const { policy: current } = await studio.get();
       const bundles = await loadSnapshots(db, rig, {});
+      const byId = new Map(bundles.map((b) => [b.point.id, b.snapshot]));
       const types = new Map((await classTypes.list()).map((c) => [c.id, c]));
+      // Each booked point as it hangs now (the path with its mounted apparatus).
       const booked = (await sessions.list({ from: now, to: new Date(now.getTime() + HORIZON_MS) })).flatMap((s) => {
         const classType = types.get(s.classTypeId);
-        return classType ? [{ id: s.id, startsAt: new Date(s.startsAt), cancelled: s.cancelled, classType, pointIds: s.pointIds }] : [];
+        const points = s.pointIds.flatMap((id) => byId.get(id) ?? []);
+        return classType ? [{ id: s.id, startsAt: new Date(s.startsAt), cancelled: s.cancelled, classType, points }] : [];
       });
       const effects = policyChangeEffects({
         points: bundles.map((b) => ({ snapshot: b.snapshot, roomName: b.point.roomName })),
