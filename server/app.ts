@@ -17,6 +17,7 @@ import { staffRoutes } from './modules/staff/staff.router';
 import { studioRepository } from './modules/studio/studio.repository';
 import { studioService } from './modules/studio/studio.service';
 import { studioRoutes } from './modules/studio/studio.router';
+import { policyPreviewService } from './modules/studio/policy-preview.service';
 import { mailboxRoutes } from './modules/mail/mailbox.router';
 import { auditRepository } from './modules/audit/audit.repository';
 import { rigRepository } from './modules/rig/rig.repository';
@@ -129,7 +130,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
 
   const api = new ApiRouter('/api');
   staffRoutes(api, staff);
-  studioRoutes(api, studioService(studioRepo, clock));
+  studioRoutes(api, studioService(studioRepo, clock), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
   rigRoutes(api, rig, docs, db);

@@ -6,3 +6,4 @@ export * from './preuse';
 export * from './checklist';
 export * from './validity';
 export { freezeSnapshot } from './memo';
+export * from './policy-effects';

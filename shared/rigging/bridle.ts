@@ -1,6 +1,7 @@
 import type { BridleLeg } from '../schemas/vocabulary';
 import { describeGear } from './strength';
 import type { Finding, LinkInput } from './types';
+import { fixedToward } from './format';
 
 /** Above this included angle a bridle is flagged as wide (a warning). */
 export const BRIDLE_WIDE_ABOVE_DEG = 90;
@@ -164,13 +165,13 @@ export function parseBridle(links: LinkInput[]): BridleLayout {
   if (theta > BRIDLE_MAX_DEG) {
     violations.push({
       code: 'bridle_angle_too_wide',
-      message: `The bridle meeting at ${meeting} has an included angle of ${theta}°, above the ${BRIDLE_MAX_DEG}° limit: each leg would carry ${share.toFixed(2)} times the whole load. Narrow the bridle.`,
+      message: `The bridle meeting at ${meeting} has an included angle of ${theta}°, above the ${BRIDLE_MAX_DEG}° limit: each leg would carry ${fixedToward(share, 2, 'up')} times the whole load. Narrow the bridle.`,
       linkIndex: meetingIndex,
     });
   } else if (theta > BRIDLE_WIDE_ABOVE_DEG) {
     warnings.push({
       code: 'bridle_angle_wide',
-      message: `The bridle meeting at ${meeting} has an included angle of ${theta}°, wider than ${BRIDLE_WIDE_ABOVE_DEG}°: each leg carries ${share.toFixed(2)} times the load. A narrower bridle puts less on the legs.`,
+      message: `The bridle meeting at ${meeting} has an included angle of ${theta}°, wider than ${BRIDLE_WIDE_ABOVE_DEG}°: each leg carries ${fixedToward(share, 2, 'up')} times the load. A narrower bridle puts less on the legs.`,
       linkIndex: meetingIndex,
     });
   }

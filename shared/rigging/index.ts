@@ -7,7 +7,20 @@ export type {
   RatedGear,
   WorkingStep,
 } from './types';
-export { G, KGF_IN_N, LBF_IN_N, formatForce, fromKn, toKn } from './units';
+export { G, KGF_IN_N, LBF_IN_N, fromKn, toKn } from './units';
+export {
+  FACTOR_PLACES,
+  FORCE_PLACES,
+  FORCE_INPUT_PLACES,
+  fixedToward,
+  forceInputText,
+  formatFactor,
+  formatForce,
+  formatLoad,
+  formatRequiredFactor,
+  workingFigureToward,
+  type Toward,
+} from './format';
 export {
   MINOR_DEFAULT_FRACTION,
   describeGear,

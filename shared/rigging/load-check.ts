@@ -10,7 +10,8 @@ import {
   type StrengthBasis,
 } from './strength';
 import type { Finding, LoadCheckInput, LoadCheckResult, LoadProfile, WorkingStep } from './types';
-import { formatForce, G } from './units';
+import { formatFactor, formatForce, formatLoad, formatRequiredFactor } from './format';
+import { G } from './units';
 
 /** W = performers × body mass × g × dynamic factor, in kN (PRODUCT.md §4.2). */
 export function designLoadKn(profile: LoadProfile): number {
@@ -30,11 +31,6 @@ const BASIS_WORDS: Record<StrengthBasis, string> = {
   gate_open: 'its gate-open rating',
   gate_open_unrated: 'nothing, as no gate-open rating is entered',
 };
-
-/** A factor as a rigger would say it: at most two decimals, no trailing zeros. */
-function formatFactor(factor: number): string {
-  return String(Number(factor.toFixed(2)));
-}
 
 interface LinkFigures {
   name: string;
@@ -163,7 +159,7 @@ export function checkLoadPath(input: LoadCheckInput): LoadCheckResult {
   if (achievedFactor !== null && !(achievedFactor >= requiredFactor)) {
     violations.push({
       code: 'factor_below_required',
-      message: `The chain's strength of ${formatForce(chainStrengthKn as number, unit)} is ${formatFactor(achievedFactor)} times the design load of ${formatForce(w, unit, unit === 'kN' ? 2 : 0)}; the studio requires at least ${formatFactor(requiredFactor)} times. The weakest link is ${figures[weakestIndex].name} (link ${weakestIndex + 1}).`,
+      message: `The chain's strength of ${formatForce(chainStrengthKn as number, unit)} is ${formatFactor(achievedFactor)} times the design load of ${formatLoad(w, unit, unit === 'kN' ? 2 : 0)}; the studio requires at least ${formatRequiredFactor(requiredFactor)} times. The weakest link is ${figures[weakestIndex].name} (link ${weakestIndex + 1}).`,
       linkIndex: weakestIndex,
     });
   }
@@ -180,7 +176,7 @@ export function checkLoadPath(input: LoadCheckInput): LoadCheckResult {
       code: 'structure_overloaded',
       message:
         Number.isFinite(structuralRatingKn) && structuralRatingKn > 0
-          ? `The design load of ${formatForce(w, unit, unit === 'kN' ? 2 : 0)} is above the point's structural rating of ${formatForce(structuralRatingKn, unit)}.`
+          ? `The design load of ${formatLoad(w, unit, unit === 'kN' ? 2 : 0)} is above the point's structural rating of ${formatForce(structuralRatingKn, unit)}.`
           : `The point's structural rating (${String(structuralRatingKn)} kN) is not a positive figure, so the design load cannot be shown to be within it.`,
     });
   }
@@ -198,7 +194,7 @@ export function checkLoadPath(input: LoadCheckInput): LoadCheckResult {
     if (within === false) {
       violations.push({
         code: 'wll_exceeded',
-        message: `${figure.name} (link ${index + 1}) carries ${formatForce(figure.loadKn as number, unit, unit === 'kN' ? 2 : 0)}, above its working load limit of ${formatForce(wllKn, unit)}.`,
+        message: `${figure.name} (link ${index + 1}) carries ${formatLoad(figure.loadKn as number, unit, unit === 'kN' ? 2 : 0)}, above its working load limit of ${formatForce(wllKn, unit)}.`,
         linkIndex: index,
       });
     }
@@ -217,6 +213,7 @@ export function checkLoadPath(input: LoadCheckInput): LoadCheckResult {
     chainStrengthKn,
     achievedFactor,
     requiredFactor,
+    requiredFactorReason: input.requiredFactorReason?.trim() || null,
     structuralRatingKn,
     pass: violations.length === 0,
     violations,

@@ -2,7 +2,7 @@ import { isApparatusKind, isConnectorKind, type ForceUnit } from '../schemas/voc
 import { parseBridle, type BridleLayout } from './bridle';
 import { describeGear, effectiveStrengthKn, isUsableStrength, validateRatings } from './strength';
 import type { Finding, LinkInput } from './types';
-import { formatForce } from './units';
+import { formatForce } from './format';
 
 /** A standing item of every inspection checklist (PRODUCT.md §4.3). */
 export const SCREW_GATE_CHECKLIST_LABEL = 'Screw gates hang gate down and locked';

@@ -50,6 +50,8 @@ export interface LoadCheckResult {
   chainStrengthKn: number | null;
   achievedFactor: number | null;
   requiredFactor: number;
+  /** Why the studio accepts a required factor below 5, shown beside the factor; null otherwise. */
+  requiredFactorReason: string | null;
   structuralRatingKn: number;
   pass: boolean;
   violations: Finding[];
@@ -65,6 +67,8 @@ export interface LoadCheckInput<G extends RatedGear = RatedGear> {
   profile: LoadProfile;
   /** The studio's required ratio of chain strength to design load. */
   requiredFactor: number;
+  /** The owner's reason for a required factor below 5 (PRODUCT.md §4.9), carried to the result. */
+  requiredFactorReason?: string | null;
   /** Unit for forces quoted in messages (the studio's display units); figures stay in kN. */
   displayUnit?: ForceUnit;
 }

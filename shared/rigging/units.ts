@@ -26,26 +26,3 @@ export function fromKn(kn: number, unit: ForceUnit): number {
   if (unit === 'kN') return kn;
   return (kn * 1000) / NEWTONS_PER_UNIT[unit];
 }
-
-/** Digits after the point by unit: kN figures are small, lbf and kgf figures are in the thousands. */
-const DEFAULT_DIGITS: Record<ForceUnit, number> = { kN: 1, lbf: 0, kgf: 0 };
-
-/** Groups the integer part in threes with commas, independent of the runtime's locale. */
-function groupThousands(digits: string): string {
-  return digits.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-}
-
-/**
- * A force in kN shown in `unit`: `12.5 kN`, `2,810 lbf`, `1,020 kgf`.
- * Formatting is our own rather than Intl's so that server mail and the client read the same.
- */
-export function formatForce(kn: number, unit: ForceUnit, digits: number = DEFAULT_DIGITS[unit]): string {
-  const value = fromKn(kn, unit);
-  if (!Number.isFinite(value)) return `— ${unit}`;
-  const places = Math.max(0, Math.min(6, Math.floor(digits)));
-  const fixed = Math.abs(value).toFixed(places);
-  const [whole, fraction] = fixed.split('.');
-  const isZero = Number(fixed) === 0;
-  const sign = value < 0 && !isZero ? '-' : '';
-  return `${sign}${groupThousands(whole)}${fraction ? `.${fraction}` : ''} ${unit}`;
-}

@@ -15,6 +15,8 @@ export const policySchema = z.object({
   }),
   warningDays: z.number().int().min(0).max(365),
   requiredFactor: z.number().min(1).max(50),
+  /** Why the studio accepts a required factor below 5; kept with the policy, shown beside the factor on every load check. */
+  requiredFactorReason: z.string().trim().max(500, 'Keep the reason under 500 characters').nullable().optional(),
   bodyMassKg: z.number().min(20).max(300),
   dynamicFactors: z.object({
     fabric: z.number().min(1).max(20),
@@ -27,6 +29,28 @@ export const policySchema = z.object({
   reminderLeadHours: z.array(z.number().min(0.25).max(24 * 14)).max(6),
 });
 export type Policy = z.infer<typeof policySchema>;
+
+/**
+ * Below this required factor the owner must type a reason: 5 is the studio default and the design
+ * factor of lifting hardware [published: ASME B30.26 §26-1.2, via mirrors].
+ */
+export const FACTOR_NEEDS_REASON_BELOW = 5;
+
+/** The reason a policy's required factor needs, if any; null when the factor is at least 5. */
+export function requiredFactorReasonOf(policy: Pick<Policy, 'requiredFactor' | 'requiredFactorReason'>): string | null {
+  return policy.requiredFactor < FACTOR_NEEDS_REASON_BELOW ? (policy.requiredFactorReason ?? '').trim() || null : null;
+}
+
+/** A required factor below 5 is never taken silently: it needs a typed reason, next to the field. */
+export function requireFactorReason(policy: Pick<Policy, 'requiredFactor' | 'requiredFactorReason'>, ctx: z.RefinementCtx): void {
+  if (policy.requiredFactor < FACTOR_NEEDS_REASON_BELOW && !(policy.requiredFactorReason ?? '').trim()) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['requiredFactorReason'],
+      message: `A required factor below ${FACTOR_NEEDS_REASON_BELOW} needs a reason: say why the studio accepts a smaller margin`,
+    });
+  }
+}
 
 export const defaultPolicy: Policy = {
   timeZone: 'Europe/London',

@@ -65,15 +65,63 @@ const gearFields = {
   serviceLifeYears: z.number().min(0.5, 'At least half a year').max(100).nullable().optional(),
   notes: text(2000).nullable().optional(),
 };
-type GearRatings = { majorKn?: number; minorKn?: number | null; gateOpenKn?: number | null };
-const ratingsConsistent = (g: GearRatings, ctx: z.RefinementCtx) => {
-  if (g.majorKn === undefined) return;
-  if (g.minorKn != null && g.minorKn > g.majorKn) ctx.addIssue({ code: 'custom', path: ['minorKn'], message: 'The minor-axis rating cannot exceed the major-axis rating' });
-  if (g.gateOpenKn != null && g.gateOpenKn > g.majorKn) ctx.addIssue({ code: 'custom', path: ['gateOpenKn'], message: 'The gate-open rating cannot exceed the major-axis rating' });
-};
-export const createGearSchema = z.object(gearFields).superRefine(ratingsConsistent);
+/** The earliest date the register accepts for manufacture or service: older rigging is not in use. */
+export const EARLIEST_GEAR_DATE = '1950-01-01';
+/** An item may be registered before it goes into use, up to this many days ahead. */
+export const IN_SERVICE_AHEAD_DAYS = 366;
+
+type GearFacts = { majorKn?: number; minorKn?: number | null; gateOpenKn?: number | null; wllKn?: number | null; manufacturedOn?: string | null; inServiceOn?: string | null };
+type GearFactField = 'minorKn' | 'gateOpenKn' | 'wllKn' | 'manufacturedOn' | 'inServiceOn';
+
+/** 'YYYY-MM-DD' plus `days` calendar days. */
+export function addCalendarDays(day: string, days: number): string {
+  const d = new Date(`${day}T00:00:00Z`);
+  d.setUTCDate(d.getUTCDate() + days);
+  return d.toISOString().slice(0, 10);
+}
+
+/**
+ * Gear data that cannot be true, by field, in product words (PRODUCT.md §3): a rating above the
+ * major-axis breaking strength (a working load limit is a fraction of it; a connector is never
+ * stronger across its axis or gate open), a manufacture date after `today` or before 1950, a
+ * service start before manufacture or before 1950. A service start ahead of today is allowed, up
+ * to a year: gear is registered before it goes into use. `today` is the studio's calendar day;
+ * dates compare as 'YYYY-MM-DD' text. Used by the schemas (so the form shows the same message)
+ * and by the server on the record as an edit leaves it.
+ */
+export function impossibleGearFacts(g: GearFacts, today: string): Partial<Record<GearFactField, string>> {
+  const found: Partial<Record<GearFactField, string>> = {};
+  if (g.majorKn !== undefined) {
+    if (g.minorKn != null && g.minorKn > g.majorKn) found.minorKn = 'The minor-axis rating cannot exceed the major-axis rating';
+    if (g.gateOpenKn != null && g.gateOpenKn > g.majorKn) found.gateOpenKn = 'The gate-open rating cannot exceed the major-axis rating';
+    if (g.wllKn != null && g.wllKn > g.majorKn) found.wllKn = 'The working load limit cannot exceed the major-axis breaking strength: check the marking';
+  }
+  const made = g.manufacturedOn ?? null;
+  const since = g.inServiceOn ?? null;
+  if (made !== null) {
+    if (made > today) found.manufacturedOn = 'The manufacture date cannot be in the future';
+    else if (made < EARLIEST_GEAR_DATE) found.manufacturedOn = 'Check the manufacture date: rigging made before 1950 is not accepted';
+  }
+  if (since !== null) {
+    if (since < EARLIEST_GEAR_DATE) found.inServiceOn = 'Check the date it went into service: before 1950 is not accepted';
+    else if (made !== null && since < made) found.inServiceOn = 'It cannot go into service before it was manufactured';
+    else if (since > addCalendarDays(today, IN_SERVICE_AHEAD_DAYS)) found.inServiceOn = 'Enter a service date within the next year';
+  }
+  return found;
+}
+
+/**
+ * The schema's side of impossibleGearFacts. Its "today" is the latest calendar day anywhere
+ * (UTC + 1 day), so a studio east of UTC is never refused its own today; the server checks again
+ * with the studio's day from its clock.
+ */
+function factsRefinement(g: GearFacts, ctx: z.RefinementCtx) {
+  const latestToday = addCalendarDays(new Date().toISOString().slice(0, 10), 1);
+  for (const [field, message] of Object.entries(impossibleGearFacts(g, latestToday))) ctx.addIssue({ code: 'custom', path: [field], message });
+}
+export const createGearSchema = z.object(gearFields).superRefine(factsRefinement);
 export type CreateGear = z.infer<typeof createGearSchema>;
-export const updateGearSchema = z.object(gearFields).partial().strict().superRefine(ratingsConsistent);
+export const updateGearSchema = z.object(gearFields).partial().strict().superRefine(factsRefinement);
 export type UpdateGear = z.infer<typeof updateGearSchema>;
 
 export const gearSchema = z.object({
@@ -192,6 +240,8 @@ export const loadCheckSchema = z.object({
   designLoadKn: z.number(),
   achievedFactor: z.number().nullable(),
   requiredFactor: z.number(),
+  /** The owner's reason for a required factor below 5, shown beside the factor. */
+  requiredFactorReason: z.string().nullable().optional(),
   structuralRatingKn: z.number(),
   pass: z.boolean(),
   violations: z.array(findingSchema),

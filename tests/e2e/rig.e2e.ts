@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
-import { formatForce } from '../../shared/rigging';
+import { fixedToward, formatFactor, formatForce, formatLoad } from '../../shared/rigging';
 import { apiOf, DESKTOP, openBrowser, shot, signInAs, uniqueTag } from './browser';
 
 // The rigger's journeys on the rig pages (JOURNEYS.md, Rigger 4 and 5), at a desktop's width.
@@ -61,11 +61,12 @@ async function makePoint(tag: string, label: string, links: MadeGear[]) {
 function silksDesignLoadKn() {
   return (silks.performersPerPoint * (silks.bodyMassKg ?? policy.bodyMassKg) * G * (silks.dynamicFactor ?? policy.dynamicFactors.fabric)) / 1000;
 }
-/** As the load check view writes a design load: two decimals in kN, whole figures otherwise. */
-const designLoadText = (kn: number) => (policy.units === 'kN' ? `${kn.toFixed(2)} kN` : formatForce(kn, policy.units));
-const factorText = (f: number) => `${String(Number(f.toFixed(2)))} ×`;
-/** As the working table writes a kN figure: up to four decimals. */
-const workingKn = (kn: number) => `${Number(kn.toFixed(4))} kN`;
+/** As the load check view writes a design load (a load, cut up): two decimals in kN, whole figures otherwise. */
+const designLoadText = (kn: number) => formatLoad(kn, policy.units, policy.units === 'kN' ? 2 : 0);
+/** A factor is cut down to two decimals (PRODUCT.md §4.8). */
+const factorText = (f: number) => `${formatFactor(f)} ×`;
+/** As the working table writes a load in kN: up to four decimals, cut up. */
+const workingKn = (kn: number) => `${Number(fixedToward(kn, 4, 'up'))} kN`;
 
 const until = <T>(fn: () => Promise<T>) => expect.poll(fn, { timeout: 15_000, interval: 200 });
 
@@ -160,7 +161,7 @@ describe('the rigger builds and checks load paths', () => {
     expect(chainRow).toContain(`link 4: ${fabric.majorKn} kN`);
     expect(chainRow).toContain(`weakest link: 4 (${fabric.name})`);
     expect(chainRow).toContain(`${strength} kN`);
-    expect(await working.getByRole('row').filter({ hasText: 'Achieved factor = chain strength ÷ W' }).innerText()).toContain(String(Number((strength / w).toFixed(4))));
+    expect(await working.getByRole('row').filter({ hasText: 'Achieved factor = chain strength ÷ W' }).innerText()).toContain(String(Number(fixedToward(strength / w, 4, 'down'))));
     await expect(row.getByTestId('safety-caution').innerText()).resolves.toContain('do not replace inspection by a qualified rigger');
     await shot(page, 'rig-02-preview-passes');
 
@@ -291,9 +292,9 @@ describe('the rigger builds and checks load paths', () => {
     const major = form.getByLabel('Breaking strength, major axis (lbf)');
     await major.fill('4950');
     await form.getByLabel('Minor axis (optional) (lbf)').fill('1575');
-    // 4950 lbf × 4.4482216152605 N = 22.0187 kN; 1575 lbf = 7.0059 kN.
-    await form.getByText('Stored as 22.02 kN (from 4950 lbf).').waitFor();
-    await form.getByText('Stored as 7.01 kN (from 1575 lbf).').waitFor();
+    // 4950 lbf × 4.4482216152605 N = 22.0187 kN; 1575 lbf = 7.0059 kN; a rating reads cut down.
+    await form.getByText('Stored as 22.01 kN (from 4950 lbf).').waitFor();
+    await form.getByText('Stored as 7.00 kN (from 1575 lbf).').waitFor();
     await shot(page, 'rig-10-gear-in-lbf');
     await form.getByRole('button', { name: 'Add item' }).click();
 
@@ -303,8 +304,8 @@ describe('the rigger builds and checks load paths', () => {
     const ratings = page.locator('dl > div');
     const majorShown = await ratings.filter({ has: page.locator('dt', { hasText: /^Breaking strength, major axis$/ }) }).locator('dd').innerText();
     const minorShown = await ratings.filter({ has: page.locator('dt', { hasText: /^Minor axis$/ }) }).locator('dd').innerText();
-    expect(majorShown).toMatch(policy.units === 'kN' ? /^22\.0 kN$/ : /\(22\.02 kN\)$/);
-    expect(minorShown).toMatch(policy.units === 'kN' ? /^7\.0 kN$/ : /\(7\.01 kN\)$/);
+    expect(majorShown).toMatch(policy.units === 'kN' ? /^22\.0 kN$/ : /\(22\.01 kN\)$/);
+    expect(minorShown).toMatch(policy.units === 'kN' ? /^7\.0 kN$/ : /\(7\.00 kN\)$/);
     const stored = await api.get<{ majorKn: number; minorKn: number }>(`/gear/${id}`);
     expect(stored.majorKn).toBeCloseTo((4950 * 4.4482216152605) / 1000, 6);
     expect(stored.minorKn).toBeCloseTo((1575 * 4.4482216152605) / 1000, 6);

@@ -4,18 +4,11 @@ import { conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
 import type { CreateClassType, ClassType } from '../../../shared/schemas/class-types';
 import type { Policy } from '../../../shared/schemas/policy';
-import type { LoadProfile } from '../../../shared/rigging';
+import { profileFor } from '../../../shared/clearance';
 import type { ClassTypesRepository } from './class-types.repository';
 
-/** The class's load profile: its own figures where set, else the policy's (PRODUCT.md §3). */
-export function profileFor(c: ClassType, policy: Policy): LoadProfile & { name: string } {
-  return {
-    name: c.name,
-    performers: c.performersPerPoint,
-    bodyMassKg: c.bodyMassKg ?? policy.bodyMassKg,
-    dynamicFactor: c.dynamicFactor ?? policy.dynamicFactors[c.apparatus],
-  };
-}
+// The profile rule is shared with the policy preview; kept under its old name here.
+export { profileFor } from '../../../shared/clearance';
 
 export function classTypesService(deps: { db: Db; repo: ClassTypesRepository; audit: AuditRepository; clock: Clock }) {
   const { db, repo, audit, clock } = deps;

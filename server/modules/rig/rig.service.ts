@@ -3,11 +3,11 @@ import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
 import type { StudioRepository } from '../studio/studio.repository';
-import type { CreateGear, CreatePoint, GearEventBody, GearListQuery, LoadPathBody, UpdateGear, UpdatePoint } from '../../../shared/schemas/rig';
-import { pointStatusAt, serviceLifeEnd, voidsClearance, gearRatingChangeVoids, pathConfigOf, type PathConfig, type PointStatus } from '../../../shared/clearance';
+import { impossibleGearFacts, type CreateGear, type CreatePoint, type GearEventBody, type GearListQuery, type LoadPathBody, type UpdateGear, type UpdatePoint } from '../../../shared/schemas/rig';
+import { pointStatusAt, serviceLifeEnd, studioDay, voidsClearance, gearRatingChangeVoids, pathConfigOf, type PathConfig, type PointStatus } from '../../../shared/clearance';
 import { checkLoadPath, type LoadProfile } from '../../../shared/rigging';
 import { isApparatusKind } from '../../../shared/schemas/vocabulary';
-import type { Policy } from '../../../shared/schemas/policy';
+import { requiredFactorReasonOf, type Policy } from '../../../shared/schemas/policy';
 import type { GearRecord, RigRepository } from './rig.repository';
 import { loadSnapshots, type SnapshotBundle } from './point-snapshots';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
@@ -44,6 +44,14 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     const g = await rig.gearById(id, trx);
     if (!g) throw notFound('That gear item');
     return g;
+  }
+
+  /** 400 with a message next to each field when the gear data cannot be true (today is the studio's day). */
+  async function refuseImpossibleFacts(g: Parameters<typeof impossibleGearFacts>[0]) {
+    const { policy } = await studio.get();
+    const fields = impossibleGearFacts(g, studioDay(clock.now(), policy.timeZone));
+    const messages = Object.values(fields);
+    if (messages.length) throw new HttpError(400, 'invalid_request', `${messages.join('. ')}.`, { source: 'body', fields });
   }
 
   return {
@@ -166,7 +174,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       let profile: LoadProfile & { name?: string };
       if (q.classTypeId !== undefined) profile = await deps.classProfiles.profileOf(q.classTypeId, policy);
       else profile = { performers: q.performers!, bodyMassKg: q.bodyMassKg ?? policy.bodyMassKg, dynamicFactor: q.dynamicFactor! };
-      const result = checkLoadPath({ links: b.snapshot.links, structuralRatingKn: b.point.structuralRatingKn, profile, requiredFactor: policy.requiredFactor, displayUnit: policy.units });
+      const result = checkLoadPath({ links: b.snapshot.links, structuralRatingKn: b.point.structuralRatingKn, profile, requiredFactor: policy.requiredFactor, requiredFactorReason: requiredFactorReasonOf(policy), displayUnit: policy.units });
       return { ...result, profile: { performers: profile.performers, bodyMassKg: profile.bodyMassKg, dynamicFactor: profile.dynamicFactor } };
     },
 
@@ -186,6 +194,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       return { ...gearWire(await gearOrThrow(id), policy.timeZone), events: await rig.gearEvents(id) };
     },
     async createGear(input: CreateGear, actorId: number) {
+      await refuseImpossibleFacts(input);
       if (await rig.serialTaken(input.serial)) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
       const id = await writeTransaction(db, async (trx) => {
         const newId = await rig.insertGear(input, clock.now(), trx);
@@ -198,8 +207,8 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       const before = await gearOrThrow(id);
       if (patch.serial !== undefined && (await rig.serialTaken(patch.serial, id))) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
       const after = { ...before, ...patch } as GearRecord;
-      if (after.minorKn != null && after.minorKn > after.majorKn) throw new HttpError(400, 'invalid_request', 'The minor-axis rating cannot exceed the major-axis rating.', { source: 'body', fields: { minorKn: 'Cannot exceed the major rating' } });
-      if (after.gateOpenKn != null && after.gateOpenKn > after.majorKn) throw new HttpError(400, 'invalid_request', 'The gate-open rating cannot exceed the major-axis rating.', { source: 'body', fields: { gateOpenKn: 'Cannot exceed the major rating' } });
+      // The edit may be consistent on its own yet not with what is stored (a service date before the stored manufacture).
+      await refuseImpossibleFacts(after);
       if (before.pointId !== null && patch.kind !== undefined && isApparatusKind(patch.kind) !== isApparatusKind(before.kind)) {
         throw conflict('gear_in_use', 'Take the item out of its load path before changing it between apparatus and fixed gear.');
       }

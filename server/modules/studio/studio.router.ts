@@ -1,8 +1,11 @@
 import type { ApiRouter } from '../../http/route';
-import { updateStudioSchema } from '../../../shared/schemas/studio';
+import { policyPreviewBodySchema, updateStudioSchema } from '../../../shared/schemas/studio';
 import type { StudioService } from './studio.service';
+import type { PolicyPreviewService } from './policy-preview.service';
 
-export function studioRoutes(api: ApiRouter, studio: StudioService) {
+export function studioRoutes(api: ApiRouter, studio: StudioService, preview: PolicyPreviewService) {
   api.get('/studio', { access: 'signed_in', handler: () => studio.get() });
   api.patch('/studio', { access: ['owner'], body: updateStudioSchema, handler: ({ body }) => studio.update(body) });
+  // Changes nothing: shows the owner what a proposed policy would do now, before they confirm it.
+  api.post('/studio/policy/preview', { access: ['owner'], body: policyPreviewBodySchema, handler: ({ body }) => preview.preview(body.policy) });
 }

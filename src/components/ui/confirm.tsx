@@ -9,6 +9,7 @@ export function ConfirmDialog({
   confirmLabel,
   cancelLabel = 'Cancel',
   danger = true,
+  wide = false,
   busy,
   onConfirm,
   onCancel,
@@ -19,6 +20,8 @@ export function ConfirmDialog({
   confirmLabel: string;
   cancelLabel?: string;
   danger?: boolean;
+  /** Room for a list (a policy change's effects). */
+  wide?: boolean;
   busy?: boolean;
   onConfirm: () => void;
   onCancel: () => void;
@@ -33,7 +36,7 @@ export function ConfirmDialog({
     if (!open && d.open) d.close();
   }, [open]);
   return (
-    <dialog ref={ref} onCancel={(e) => { e.preventDefault(); onCancel(); }} className="m-auto w-full max-w-md rounded-2xl p-0 backdrop:bg-ink/40" aria-labelledby={titleId}>
+    <dialog ref={ref} onCancel={(e) => { e.preventDefault(); onCancel(); }} className={`m-auto w-full ${wide ? 'max-w-2xl' : 'max-w-md'} rounded-2xl p-0 backdrop:bg-ink/40`} aria-labelledby={titleId}>
       <div className="space-y-4 p-6">
         <h2 id={titleId} className="text-lg font-semibold">{title}</h2>
         {children ? <div className="text-sm text-muted">{children}</div> : null}

@@ -71,8 +71,5 @@ export function byUrgency(a: Point, b: Point): number {
   return a.label.localeCompare(b.label, undefined, { numeric: true });
 }
 
-/** Whether a rounded figure reads well: factors and the like, at most two decimals. */
-export function formatFactor(factor: number | null | undefined): string {
-  if (factor == null || !Number.isFinite(factor)) return '—';
-  return String(Number(factor.toFixed(2)));
-}
+// Factors are cut toward the unsafe side by the shared formatter (PRODUCT.md §4.8).
+export { formatFactor, formatRequiredFactor } from '../../../shared/rigging';

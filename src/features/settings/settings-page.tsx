@@ -1,17 +1,23 @@
+import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { toast } from 'sonner';
 import { z } from 'zod';
-import { updateStudioSchema } from '../../../shared/schemas/studio';
-import { defaultPolicy, type Policy } from '../../../shared/schemas/policy';
+import { strictPolicyFields, type PolicyPreview } from '../../../shared/schemas/studio';
+import { defaultPolicy, FACTOR_NEEDS_REASON_BELOW, requireFactorReason, type Policy } from '../../../shared/schemas/policy';
+import { formatFactor, formatRequiredFactor } from '../../../shared/rigging';
 import { units } from '../../../shared/schemas/vocabulary';
 import { Button } from '../../components/ui/button';
-import { SelectField, TextField } from '../../components/ui/field';
+import { SelectField, TextAreaField, TextField } from '../../components/ui/field';
+import { ConfirmDialog } from '../../components/ui/confirm';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { Card, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { Caution } from '../../components/ui/caution';
 import { ApiError, errorMessage } from '../../lib/api-client';
-import { studioQueries, useUpdateStudio } from './api';
+import { studioFormat } from '../rig/format';
+import { studioQueries, usePolicyPreview, useUpdateStudio } from './api';
+import { describePolicyChanges } from './policy-changes';
 
 // Where each default comes from (../shared/CHECK-VALUES.md). A default with no published source is a studio choice.
 const SOURCES = {
@@ -25,9 +31,11 @@ const SOURCES = {
 
 const formSchema = z.object({
   name: z.string().trim().min(1, 'Enter the studio name').max(120),
-  policy: updateStudioSchema.shape.policy.unwrap().extend({
-    reminderLeadHours: z.string().regex(/^\s*\d+(\.\d+)?(\s*,\s*\d+(\.\d+)?)*\s*$/, 'List hours separated by commas, e.g. 24, 2'),
-  }),
+  policy: strictPolicyFields
+    .extend({
+      reminderLeadHours: z.string().regex(/^\s*\d+(\.\d+)?(\s*,\s*\d+(\.\d+)?)*\s*$/, 'List hours separated by commas, e.g. 24, 2'),
+    })
+    .superRefine(requireFactorReason),
 });
 type FormValues = z.infer<typeof formSchema>;
 
@@ -38,23 +46,44 @@ export function SettingsPage() {
   return <SettingsForm name={studio.data.name} policy={studio.data.policy} />;
 }
 
+interface Pending {
+  body: { name: string; policy: Policy };
+  changes: string[];
+  preview: PolicyPreview;
+}
+
 function SettingsForm({ name, policy }: { name: string; policy: Policy }) {
   const save = useUpdateStudio();
+  const preview = usePolicyPreview();
+  const [pending, setPending] = useState<Pending | null>(null);
   const form = useForm<FormValues>({
     resolver: zodResolver(formSchema),
-    defaultValues: { name, policy: { ...policy, reminderLeadHours: policy.reminderLeadHours.join(', ') } },
+    defaultValues: { name, policy: { ...policy, requiredFactorReason: policy.requiredFactorReason ?? '', reminderLeadHours: policy.reminderLeadHours.join(', ') } },
   });
   const e = form.formState.errors;
   const num = { valueAsNumber: true } as const;
-  const submit = form.handleSubmit((v) => {
-    const body = { name: v.name, policy: { ...v.policy, reminderLeadHours: v.policy.reminderLeadHours.split(',').map((s) => Number(s.trim())) } };
+  const factor = form.watch('policy.requiredFactor');
+  const needsReason = Number.isFinite(factor) && factor < FACTOR_NEEDS_REASON_BELOW;
+  const onError = (err: unknown) => {
+    if (err instanceof ApiError) for (const [k, m] of Object.entries(err.fields)) form.setError(k as never, { message: m });
+    toast.error(errorMessage(err));
+  };
+  const store = (body: Pending['body']) =>
     save.mutate(body, {
-      onSuccess: () => toast.success('Studio policy saved.'),
-      onError: (err) => {
-        if (err instanceof ApiError) for (const [k, m] of Object.entries(err.fields)) form.setError(k as never, { message: m });
-        toast.error(errorMessage(err));
-      },
+      onSuccess: () => { setPending(null); toast.success('Studio policy saved.'); },
+      onError: (err) => { setPending(null); onError(err); },
     });
+  // A policy change is confirmed after the owner has seen what it does to today's points and booked classes.
+  const submit = form.handleSubmit((v) => {
+    const proposed: Policy = {
+      ...v.policy,
+      requiredFactorReason: v.policy.requiredFactor < FACTOR_NEEDS_REASON_BELOW ? (v.policy.requiredFactorReason ?? '').trim() || null : null,
+      reminderLeadHours: v.policy.reminderLeadHours.split(',').map((s) => Number(s.trim())),
+    };
+    const body = { name: v.name, policy: proposed };
+    const changes = describePolicyChanges(policy, proposed);
+    if (changes.length === 0) return store(body);
+    preview.mutate({ policy: proposed }, { onSuccess: (effects) => setPending({ body, changes, preview: effects }), onError });
   });
   return (
     <div className="max-w-3xl">
@@ -83,6 +112,14 @@ function SettingsForm({ name, policy }: { name: string; policy: Policy }) {
             <TextField label="Required factor" type="number" step="0.1" hint={SOURCES.factor} error={e.policy?.requiredFactor?.message} {...form.register('policy.requiredFactor', num)} />
             <TextField label="Assumed body mass (kg)" type="number" step="1" hint={SOURCES.bodyMass} error={e.policy?.bodyMassKg?.message} {...form.register('policy.bodyMassKg', num)} />
           </div>
+          {needsReason ? (
+            <TextAreaField
+              label={`Why the studio accepts a factor below ${FACTOR_NEEDS_REASON_BELOW}`}
+              hint="Required. It is shown beside the factor on every load check."
+              error={e.policy?.requiredFactorReason?.message}
+              {...form.register('policy.requiredFactorReason')}
+            />
+          ) : null}
           <h3 className="text-sm font-medium">Dynamic factor by apparatus</h3>
           <div className="grid gap-4 sm:grid-cols-3">
             {(Object.keys(defaultPolicy.dynamicFactors) as (keyof Policy['dynamicFactors'])[]).map((k) => (
@@ -95,8 +132,75 @@ function SettingsForm({ name, policy }: { name: string; policy: Policy }) {
         <Card>
           <TextField label="Reminder lead times (hours before class)" hint={SOURCES.reminders} error={e.policy?.reminderLeadHours?.message} {...form.register('policy.reminderLeadHours')} />
         </Card>
-        <Button type="submit" busy={save.isPending}>Save policy</Button>
+        <Button type="submit" busy={save.isPending || preview.isPending}>Save policy</Button>
       </form>
+      {pending ? (
+        <ConfirmDialog
+          open
+          wide
+          title="Save this policy change?"
+          confirmLabel="Save the change"
+          danger={pending.preview.points.length + pending.preview.sessions.length > 0 || pending.body.policy.requiredFactor < FACTOR_NEEDS_REASON_BELOW}
+          busy={save.isPending}
+          onCancel={() => setPending(null)}
+          onConfirm={() => store(pending.body)}
+        >
+          <PolicyEffects pending={pending} />
+        </ConfirmDialog>
+      ) : null}
+    </div>
+  );
+}
+
+/** What the proposed policy changes, and what it does now to the points and the booked classes. */
+function PolicyEffects({ pending }: { pending: Pending }) {
+  const { preview, changes, body } = pending;
+  const fmt = studioFormat(body.policy);
+  return (
+    // Focusable, so the list scrolls from the keyboard too.
+    <div tabIndex={0} role="region" aria-label="What this change does" className="max-h-[60vh] space-y-4 overflow-y-auto text-ink">
+      <section aria-label="Changes">
+        <h3 className="font-medium">You are changing</h3>
+        <ul className="list-disc pl-5">{changes.map((c) => <li key={c}>{c}</li>)}</ul>
+        {body.policy.requiredFactor < FACTOR_NEEDS_REASON_BELOW ? (
+          <p role="alert" className="mt-2 text-stop-700">
+            A required factor of {formatRequiredFactor(body.policy.requiredFactor)} × is below {FACTOR_NEEDS_REASON_BELOW} ×: every load check will pass with a smaller margin. Reason given: {body.policy.requiredFactorReason}
+          </p>
+        ) : null}
+      </section>
+      <section aria-label="Points whose status changes now">
+        <h3 className="font-medium">Points whose status changes now</h3>
+        {preview.points.length === 0 ? (
+          <p className="text-muted">No point changes status or clearance date now (of {preview.checked.points} points).</p>
+        ) : (
+          <ul className="space-y-2">
+            {preview.points.map((p) => (
+              <li key={p.pointId}>
+                <span className="font-medium">{p.label}</span> <span className="text-muted">({p.roomName})</span>:{' '}
+                <StatusBadge status={p.before.status} /> → <StatusBadge status={p.after.status} />
+                <span className="block text-xs text-muted">Cleared until {fmt.when(p.before.clearedUntil, 'never')} → {fmt.when(p.after.clearedUntil, 'never')}</span>
+                {p.after.reasons.map((r) => <span key={r.code + r.message} className="block text-xs text-stop-700">{r.message}</span>)}
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+      <section aria-label="Booked classes whose load check would fail">
+        <h3 className="font-medium">Booked classes whose load check would fail</h3>
+        {preview.sessions.length === 0 ? (
+          <p className="text-muted">No booked class newly fails its load check (of {preview.checked.sessions} booked).</p>
+        ) : (
+          <ul className="space-y-2">
+            {preview.sessions.map((s) => (
+              <li key={`${s.sessionId}:${s.pointId}`}>
+                <span className="font-medium">{s.className}</span>, {fmt.when(s.startsAt)}, point {s.label}: factor {formatFactor(s.achievedFactor)} × of {formatRequiredFactor(s.requiredFactor)} × required
+                {s.violations.map((v) => <span key={v.code + v.message} className="block text-xs text-stop-700">{v.message}</span>)}
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+      <Caution />
     </div>
   );
 }

@@ -47,7 +47,8 @@ describe('a plain chain', () => {
     expect(finding).toMatchObject({ code: 'factor_below_required', linkIndex: 1 });
     expect(finding.message).toContain('Carabiner CB-0142');
     expect(finding.message).toContain('20.0 kN');
-    expect(finding.message).toContain(`${Number((20 / wSilks).toFixed(2))} times`);
+    // Cut down to two decimals, never rounded up toward the requirement (PRODUCT.md §4.8).
+    expect(finding.message).toContain(`${Math.floor((20 / wSilks) * 100) / 100} times`);
     expect(finding.message).toContain('at least 5 times');
   });
 
@@ -111,7 +112,8 @@ describe('structure', () => {
     expect(codes(check(typicalPath(), { structuralRatingKn: wSilks * 0.99 }).violations)).toEqual(['structure_overloaded']);
     expect(check(typicalPath(), { structuralRatingKn: wSilks }).pass).toBe(true);
     const over = check(typicalPath(), { structuralRatingKn: 4 });
-    expect(over.violations[0].message).toContain('4.94 kN');
+    // W = 4.9433 kN, a load, reads cut up; the rating, a limit, cut down.
+    expect(over.violations[0].message).toContain('4.95 kN');
     expect(over.violations[0].message).toContain('4.0 kN');
   });
 
@@ -254,13 +256,15 @@ describe('the working', () => {
 
 describe('messages', () => {
   it('format forces with grouped thousands and a fixed number of decimals per unit', () => {
-    // 12.5 kN is 2,810.11 lbf and 1,274.65 kgf.
+    // 12.5 kN is 2,810.11 lbf and 1,274.65 kgf; a strength is cut down.
     expect(formatForce(12.5, 'kN')).toBe('12.5 kN');
     expect(formatForce(12.5, 'lbf')).toBe('2,810 lbf');
-    expect(formatForce(12.5, 'kgf')).toBe('1,275 kgf');
+    expect(formatForce(12.5, 'kgf')).toBe('1,274 kgf');
     expect(formatForce(4.94255, 'kN', 2)).toBe('4.94 kN');
-    expect(formatForce(5000, 'lbf')).toBe('1,124,045 lbf');
-    expect(formatForce(-0.01, 'kN')).toBe('0.0 kN');
+    expect(formatForce(5000, 'lbf')).toBe('1,124,044 lbf');
+    expect(formatForce(-0.01, 'kN')).toBe('-0.1 kN');
+    expect(formatForce(-0.001, 'kN', 2)).toBe('-0.01 kN');
+    expect(formatForce(0.001, 'kN', 2)).toBe('0.00 kN');
     expect(formatForce(-3.25, 'kN', 2)).toBe('-3.25 kN');
     expect(formatForce(Number.NaN, 'kN')).toBe('— kN');
   });

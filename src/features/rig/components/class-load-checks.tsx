@@ -6,10 +6,10 @@ import { Button } from '../../../components/ui/button';
 import { TextField } from '../../../components/ui/field';
 import { EmptyState, ErrorState, Loading } from '../../../components/ui/states';
 import { rigQueries, type ClassType } from '../api';
-import { apparatusLabel, formatFactor, type StudioFormat } from '../format';
+import { apparatusLabel, type StudioFormat } from '../format';
 import { preparedResolver } from '../form-helpers';
 import { describeProfile } from '../profiles';
-import { LoadCheckView, PassWord } from './load-check-view';
+import { FactorSummary, LoadCheckView, PassWord } from './load-check-view';
 
 /** The server's load check of the saved path, for every class type and for a profile typed by hand. */
 export function ClassLoadChecks({ point, classTypes, fmt }: { point: Point; classTypes: ClassType[]; fmt: StudioFormat }) {
@@ -59,7 +59,7 @@ function CheckRow({ title, subtitle, check, pending, error, retry, fmt, open = f
         <span className="font-medium">{title}</span>
         {subtitle ? <span className="text-sm text-muted">{subtitle}</span> : null}
         {check ? <PassWord pass={check.pass} /> : pending ? <span className="text-sm text-muted">Checking…</span> : <span className="text-sm text-stop-700">Not available</span>}
-        {check ? <span className="text-sm text-muted">factor {formatFactor(check.achievedFactor)} × of {formatFactor(check.requiredFactor)} × required</span> : null}
+        {check ? <FactorSummary check={check} /> : null}
       </summary>
       <div className="space-y-2 border-t border-line p-3">
         {error ? <ErrorState error={error} retry={retry} /> : pending || !check ? <Loading label="Checking the load path…" /> : (

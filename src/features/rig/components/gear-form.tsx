@@ -1,4 +1,3 @@
-import { useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { toast } from 'sonner';
 import { gearKindLabels } from '../../../../shared/rigging';
@@ -11,7 +10,8 @@ import { errorMessage } from '../../../lib/api-client';
 import { useRigMutations } from '../api';
 import { gateLabels, materialLabels } from '../format';
 import { applyServerErrors, numberOrNull, preparedResolver, textOrNull } from '../form-helpers';
-import { ForceField, ForceUnitToggle, typedToKn } from './force-field';
+import { ForceField, ForceUnitToggle, useForceUnits } from './force-field';
+import { useStudioFormat } from '../use-studio-format';
 
 // Names match the schema's so its messages land next to the right field; figures stay as typed.
 interface GearFormValues {
@@ -33,15 +33,15 @@ interface GearFormValues {
 }
 type RatingName = 'majorKn' | 'minorKn' | 'gateOpenKn' | 'wllKn';
 
-function prepare(v: GearFormValues, unit: ForceUnit) {
+function prepare(v: GearFormValues, kn: (name: RatingName, text: string) => number | null) {
   return {
     kind: v.kind,
     material: v.material,
     gate: v.gate,
-    majorKn: typedToKn(v.majorKn, unit) ?? undefined,
-    minorKn: typedToKn(v.minorKn, unit),
-    gateOpenKn: typedToKn(v.gateOpenKn, unit),
-    wllKn: typedToKn(v.wllKn, unit),
+    majorKn: kn('majorKn', v.majorKn) ?? undefined,
+    minorKn: kn('minorKn', v.minorKn),
+    gateOpenKn: kn('gateOpenKn', v.gateOpenKn),
+    wllKn: kn('wllKn', v.wllKn),
     multiDirectional: v.multiDirectional,
     serial: v.serial,
     maker: textOrNull(v.maker),
@@ -53,27 +53,23 @@ function prepare(v: GearFormValues, unit: ForceUnit) {
   };
 }
 
-// Edits start in kN with the stored figure exactly, so saving an untouched rating never changes it.
-const typed = (kn: number | null | undefined) => (kn == null ? '' : String(kn));
 const RATINGS: RatingName[] = ['majorKn', 'minorKn', 'gateOpenKn', 'wllKn'];
 
 /** Adds a gear item (`gear` absent) or edits one. Ratings are typed from the marking, in kN, lbf or kgf, and stored in kN. */
 export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { id: number; serial: string }) => void }) {
   const { createGear, updateGear } = useRigMutations();
-  const [unit, setUnit] = useState<ForceUnit>('kN');
-  const unitRef = useRef(unit);
-  unitRef.current = unit;
+  const { fmt } = useStudioFormat();
+  // Ratings open in the studio's display unit; the rigger may switch to the unit of the marking.
+  const forces = useForceUnits<RatingName>(fmt?.unit ?? 'kN', { majorKn: gear?.majorKn, minorKn: gear?.minorKn, gateOpenKn: gear?.gateOpenKn, wllKn: gear?.wllKn });
+  const { unit, knOf } = forces;
   const editing = gear !== undefined;
   const form = useForm<GearFormValues, unknown, CreateGear | UpdateGear>({
-    resolver: preparedResolver<GearFormValues, CreateGear | UpdateGear>(editing ? updateGearSchema : createGearSchema, (v) => prepare(v, unitRef.current)),
+    resolver: preparedResolver<GearFormValues, CreateGear | UpdateGear>(editing ? updateGearSchema : createGearSchema, (v) => prepare(v, knOf)),
     defaultValues: {
       kind: gear?.kind ?? 'carabiner',
       material: gear?.material ?? 'steel',
       gate: gear?.gate ?? 'screw',
-      majorKn: typed(gear?.majorKn),
-      minorKn: typed(gear?.minorKn),
-      gateOpenKn: typed(gear?.gateOpenKn),
-      wllKn: typed(gear?.wllKn),
+      ...forces.initialTexts,
       multiDirectional: gear?.multiDirectional ?? false,
       serial: gear?.serial ?? '',
       maker: gear?.maker ?? '',
@@ -88,15 +84,14 @@ export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { i
   const onError = (err: unknown) => { applyServerErrors(form.setError, err); toast.error(errorMessage(err)); };
   const submit = form.handleSubmit((body) => {
     if (editing) {
-      // Send only the ratings the rigger touched: a rating change voids the clearance of the point holding the item.
-      const dirty = form.formState.dirtyFields;
+      // Send only the ratings that changed: a rating change voids the clearance of the point holding the item.
       const patch: UpdateGear = { ...body };
-      for (const r of RATINGS) if (!dirty[r] && unit === 'kN') delete patch[r];
+      for (const r of RATINGS) if ((patch[r] ?? null) === (gear[r] ?? null)) delete patch[r];
       updateGear.mutate({ id: gear.id, ...patch }, { onSuccess: () => { toast.success(`${gear.serial} saved.`); onDone(); }, onError });
     } else createGear.mutate(body as CreateGear, { onSuccess: (g) => { toast.success(`${g.serial} added. It needs an inspection before use.`); onDone(g); }, onError });
   });
   const rating = (name: RatingName, label: string, optionalHint?: string) => (
-    <ForceField label={label} unit={unit} typed={form.watch(name)} optionalHint={optionalHint} error={e[name]?.message} {...form.register(name)} />
+    <ForceField label={label} unit={unit} typed={form.watch(name)} kn={knOf(name, form.watch(name))} optionalHint={optionalHint} error={e[name]?.message} {...form.register(name)} />
   );
   const title = editing ? `Edit ${gear.serial}` : 'Add a gear item';
   return (
@@ -119,7 +114,7 @@ export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { i
         </div>
         <fieldset className="space-y-3">
           <legend className="font-medium">Ratings, as marked on the item</legend>
-          <ForceUnitToggle unit={unit} onChange={setUnit} />
+          <ForceUnitToggle unit={unit} onChange={(next) => forces.switchTo(next, (n) => form.getValues(n), (n, text) => form.setValue(n, text, { shouldDirty: true }))} />
           <div className="grid gap-4 sm:grid-cols-2">
             {rating('majorKn', 'Breaking strength, major axis')}
             {rating('minorKn', 'Minor axis (optional)', 'Left empty, a cross-loaded link counts at 30 % of the major rating.')}

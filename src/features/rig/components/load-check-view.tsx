@@ -1,7 +1,8 @@
 import { CircleCheck, OctagonX, TriangleAlert } from 'lucide-react';
 import type { LoadCheck } from '../../../../shared/schemas/rig';
 import { Caution } from '../../../components/ui/caution';
-import { formatFactor, type StudioFormat } from '../format';
+import { fixedToward, formatForce, formatLoad, workingFigureToward, type Toward } from '../../../../shared/rigging';
+import { formatFactor, formatRequiredFactor, type StudioFormat } from '../format';
 
 export function PassWord({ pass }: { pass: boolean }) {
   return pass ? (
@@ -25,7 +26,8 @@ export function LoadCheckView({ check, fmt, compact = false }: { check: LoadChec
         <Figure
           term="Factor achieved"
           value={check.achievedFactor === null ? '—' : `${formatFactor(check.achievedFactor)} ×`}
-          note={`Studio requires ${formatFactor(check.requiredFactor)} ×`}
+          note={`Studio requires ${formatRequiredFactor(check.requiredFactor)} ×`}
+          reason={check.requiredFactorReason}
         />
         <Figure term="Structural rating" value={fmt.force(check.structuralRatingKn)} note={check.designLoadKn <= check.structuralRatingKn ? 'Design load is within it' : 'Design load is above it'} />
       </dl>
@@ -36,13 +38,33 @@ export function LoadCheckView({ check, fmt, compact = false }: { check: LoadChec
   );
 }
 
-function Figure({ term, value, note }: { term: string; value: string; note?: string }) {
+function Figure({ term, value, note, reason }: { term: string; value: string; note?: string; reason?: string | null }) {
   return (
     <div className="rounded-lg bg-pine-50 px-3 py-2">
       <dt className="text-xs text-muted">{term}</dt>
       <dd className="text-base font-semibold">{value}</dd>
       {note ? <dd className="text-xs text-muted">{note}</dd> : null}
+      {reason ? <FactorReason reason={reason} /> : null}
     </div>
+  );
+}
+
+/** The owner's reason for a required factor below 5, beside the factor wherever a load check shows it. */
+export function FactorReason({ reason }: { reason: string }) {
+  return (
+    <dd className="mt-1 text-xs text-warn-700" data-testid="factor-reason">
+      <span className="font-semibold">Below 5 × because:</span> {reason}
+    </dd>
+  );
+}
+
+/** "factor 4.99 × of 5 × required", with the owner's reason for a factor below 5 beside it. */
+export function FactorSummary({ check }: { check: Pick<LoadCheck, 'achievedFactor' | 'requiredFactor' | 'requiredFactorReason'> }) {
+  return (
+    <span className="text-sm text-muted">
+      factor {formatFactor(check.achievedFactor)} × of {formatRequiredFactor(check.requiredFactor)} × required
+      {check.requiredFactorReason ? <span className="text-warn-700"> (below 5 × because: {check.requiredFactorReason})</span> : null}
+    </span>
   );
 }
 
@@ -66,21 +88,26 @@ export function Findings({ check }: { check: Pick<LoadCheck, 'violations' | 'war
   );
 }
 
-/** A design load reads in tenths of a kN too coarsely; two decimals in kN, whole figures otherwise. */
+/** A design load is a load: cut up, two decimals in kN, whole figures otherwise. */
 function formatForceFine(kn: number, fmt: StudioFormat) {
-  return fmt.unit === 'kN' ? `${kn.toFixed(2)} kN` : fmt.force(kn);
+  return formatLoad(kn, fmt.unit, fmt.unit === 'kN' ? 2 : 0);
 }
 
 /**
- * A figure of the working. Results read to four decimals; inputs keep six, so a constant such as
- * standard gravity (9.80665 m/s², exact) reads as the figure the arithmetic used.
+ * A figure of the working, cut toward the unsafe side (loads up, strengths and factors down).
+ * Results read to four decimals; inputs keep six, so a constant such as standard gravity
+ * (9.80665 m/s², exact) reads as the figure the arithmetic used. A force reads in the studio's
+ * display unit with kN beside it (PRODUCT.md §4.8).
  */
-function figure(value: number | string | null, unit?: string, digits = 4): string {
+function figure(value: number | string | null, toward: Toward, fmt: StudioFormat, unit?: string, digits = 4): string {
   if (value === null) return '—';
   if (typeof value === 'string') return value.replace(/_/g, ' ');
-  const text = Number.isInteger(value) ? String(value) : String(Number(value.toFixed(digits)));
-  return unit ? `${text} ${unit}` : text;
+  const text = Number.isInteger(value) ? String(value) : String(Number(fixedToward(value, digits, toward)));
+  if (unit !== 'kN' || fmt.unit === 'kN') return unit ? `${text} ${unit}` : text;
+  const shown = toward === 'up' ? formatLoad(value, fmt.unit, 1) : formatForce(value, fmt.unit, 1);
+  return `${shown} (${text} kN)`;
 }
+
 
 /** "majorKn" → "major (kN)", "bodyMassKg" → "body mass (kg)", "link2Kn" → "link 2 (kN)". */
 function inputName(key: string): { name: string; unit?: string } {
@@ -115,13 +142,12 @@ export function WorkingTable({ check, fmt }: { check: Pick<LoadCheck, 'working'>
                   <ul className="space-y-0.5">
                     {Object.entries(w.inputs).map(([k, v]) => {
                       const { name, unit } = inputName(k);
-                      return <li key={k}><span className="text-muted">{name}:</span> {figure(v, unit, 6)}</li>;
+                      return <li key={k}><span className="text-muted">{name}:</span> {figure(v, workingFigureToward(w.step, k), fmt, unit, 6)}</li>;
                     })}
                   </ul>
                 </td>
                 <td className="whitespace-nowrap px-3 py-2 font-medium">
-                  {figure(w.output, w.unit)}
-                  {w.unit === 'kN' && typeof w.output === 'number' && fmt.unit !== 'kN' ? <span className="block text-xs font-normal text-muted">{fmt.force(w.output)}</span> : null}
+                  {figure(w.output, workingFigureToward(w.step, null), fmt, w.unit)}
                 </td>
               </tr>
             ))}

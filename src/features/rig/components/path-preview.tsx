@@ -2,10 +2,11 @@ import { useMemo } from 'react';
 import { checkLoadPath, type LinkInput, type LoadCheckResult, type LoadProfile } from '../../../../shared/rigging';
 import type { Gear } from '../../../../shared/schemas/rig';
 import type { ApparatusKind } from '../../../../shared/schemas/vocabulary';
+import { requiredFactorReasonOf } from '../../../../shared/schemas/policy';
 import type { ClassType } from '../api';
-import { formatFactor, type StudioFormat } from '../format';
+import type { StudioFormat } from '../format';
 import { describeProfile, profileOf, soloProfile } from '../profiles';
-import { LoadCheckView, PassWord } from './load-check-view';
+import { FactorSummary, LoadCheckView, PassWord } from './load-check-view';
 
 interface PreviewRow {
   key: string;
@@ -33,7 +34,7 @@ export function PathPreview({ links, structuralRatingKn, classTypes, fmt, appara
       : [{ key: 'solo', name: 'One performer (no class types yet)', profile: soloProfile(apparatus, fmt.policy) }];
     return profiles.map((p) => {
       try {
-        const result = checkLoadPath({ links, structuralRatingKn, profile: p.profile, requiredFactor: fmt.policy.requiredFactor, displayUnit: fmt.unit });
+        const result = checkLoadPath({ links, structuralRatingKn, profile: p.profile, requiredFactor: fmt.policy.requiredFactor, requiredFactorReason: requiredFactorReasonOf(fmt.policy), displayUnit: fmt.unit });
         return { ...p, result };
       } catch (err) {
         return { ...p, result: null, error: err instanceof Error ? err.message : 'The preview could not be worked out.' };
@@ -56,7 +57,7 @@ export function PathPreview({ links, structuralRatingKn, classTypes, fmt, appara
                 {row.result ? <PassWord pass={row.result.pass} /> : <span className="text-sm text-stop-700">Cannot be worked out</span>}
                 {row.result ? (
                   <span className="text-sm text-muted">
-                    factor {formatFactor(row.result.achievedFactor)} × of {formatFactor(row.result.requiredFactor)} × required
+                    <FactorSummary check={row.result} />
                     {row.result.violations.length ? ` · ${row.result.violations.length} failing` : ''}
                     {row.result.warnings.length ? ` · ${row.result.warnings.length} warning${row.result.warnings.length === 1 ? '' : 's'}` : ''}
                   </span>

@@ -1,4 +1,3 @@
-import { useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { toast } from 'sonner';
 import { createPointSchema, updatePointSchema, type CreatePoint, type Point, type Room, type UpdatePoint } from '../../../../shared/schemas/rig';
@@ -10,7 +9,8 @@ import { errorMessage } from '../../../lib/api-client';
 import { useRigMutations } from '../api';
 import { apparatusLabel, structureLabels } from '../format';
 import { applyServerErrors, numberOrNull, preparedResolver } from '../form-helpers';
-import { ForceField, ForceUnitToggle, typedToKn } from './force-field';
+import { ForceField, ForceUnitToggle, useForceUnits } from './force-field';
+import { useStudioFormat } from '../use-studio-format';
 
 // Field names match the schema's, so its messages (and the server's) land next to the right field.
 interface PointFormValues {
@@ -24,12 +24,12 @@ interface PointFormValues {
   notes: string;
 }
 
-function prepare(v: PointFormValues, unit: ForceUnit) {
+function prepare(v: PointFormValues, ratingKn: (text: string) => number | null) {
   return {
     roomId: numberOrNull(v.roomId) ?? undefined,
     label: v.label,
     structure: v.structure,
-    structuralRatingKn: typedToKn(v.structuralRatingKn, unit) ?? undefined,
+    structuralRatingKn: ratingKn(v.structuralRatingKn) ?? undefined,
     apparatus: Array.isArray(v.apparatus) ? v.apparatus : v.apparatus ? [v.apparatus] : [],
     maxPerformers: numberOrNull(v.maxPerformers) ?? undefined,
     inService: v.inService,
@@ -40,18 +40,19 @@ function prepare(v: PointFormValues, unit: ForceUnit) {
 /** Adds a point (`point` absent) or edits one. The structural rating is the engineer's allowable load for the point. */
 export function PointForm({ rooms, roomId, point, onDone }: { rooms: Room[]; roomId?: number; point?: Point; onDone: () => void }) {
   const { createPoint, updatePoint } = useRigMutations();
-  const [unit, setUnit] = useState<ForceUnit>('kN');
-  const unitRef = useRef(unit);
-  unitRef.current = unit;
+  const { fmt } = useStudioFormat();
+  // The rating opens in the studio's display unit; switching the unit converts the figure.
+  const forces = useForceUnits<'structuralRatingKn'>(fmt?.unit ?? 'kN', { structuralRatingKn: point?.structuralRatingKn });
+  const { unit } = forces;
+  const ratingKn = (text: string | undefined) => forces.knOf('structuralRatingKn', text);
   const editing = point !== undefined;
   const form = useForm<PointFormValues, unknown, CreatePoint | UpdatePoint>({
-    resolver: preparedResolver<PointFormValues, CreatePoint | UpdatePoint>(editing ? updatePointSchema : createPointSchema, (v) => prepare(v, unitRef.current)),
+    resolver: preparedResolver<PointFormValues, CreatePoint | UpdatePoint>(editing ? updatePointSchema : createPointSchema, (v) => prepare(v, ratingKn)),
     defaultValues: {
       roomId: String(point?.roomId ?? roomId ?? rooms[0]?.id ?? ''),
       label: point?.label ?? '',
       structure: point?.structure ?? 'beam',
-      // The stored figure exactly, in kN, so an untouched rating saves unchanged (a change voids the clearance).
-      structuralRatingKn: point ? String(point.structuralRatingKn) : '',
+      structuralRatingKn: forces.initialTexts.structuralRatingKn,
       apparatus: point?.apparatus ?? [],
       maxPerformers: String(point?.maxPerformers ?? 1),
       inService: point?.inService ?? true,
@@ -67,7 +68,8 @@ export function PointForm({ rooms, roomId, point, onDone }: { rooms: Room[]; roo
   const submit = form.handleSubmit((body) => {
     if (editing) {
       const patch: UpdatePoint = { ...body };
-      if (!form.formState.dirtyFields.structuralRatingKn && unit === 'kN') delete patch.structuralRatingKn;
+      // An unchanged rating is not sent: a change voids the clearance.
+      if (patch.structuralRatingKn === point.structuralRatingKn) delete patch.structuralRatingKn;
       updatePoint.mutate({ id: point.id, ...patch }, { onSuccess: () => { toast.success(`Point ${point.label} saved.`); onDone(); }, onError });
     } else {
       createPoint.mutate(body as CreatePoint, { onSuccess: (p) => { toast.success(`Point ${p.label} added. Give it a load path next.`); onDone(); }, onError });
@@ -87,11 +89,12 @@ export function PointForm({ rooms, roomId, point, onDone }: { rooms: Room[]; roo
         </SelectField>
         <TextField label="Most performers at once" type="number" inputMode="numeric" min={1} max={10} error={e.maxPerformers?.message} {...form.register('maxPerformers')} />
         <div className="space-y-3 sm:col-span-2">
-          <ForceUnitToggle unit={unit} onChange={setUnit} />
+          <ForceUnitToggle unit={unit} onChange={(next) => forces.switchTo(next, () => form.getValues('structuralRatingKn'), (_, text) => form.setValue('structuralRatingKn', text, { shouldDirty: true }))} />
           <ForceField
             label="Structural rating"
             unit={unit}
             typed={form.watch('structuralRatingKn')}
+            kn={ratingKn(form.watch('structuralRatingKn'))}
             optionalHint="The allowable load from the engineer’s assessment of the point — a working figure, not a breaking strength."
             error={e.structuralRatingKn?.message}
             {...form.register('structuralRatingKn')}
