@@ -106,16 +106,31 @@ export function serviceLifeEnd(
   return new Date(zonedMidnight(year, month, Math.min(start.date, lastDate), timeZone));
 }
 
-/** The point's own clearance end, before the apparatus cap; null while voided or never cleared. */
-export function pointClearanceEnd(snapshot: PointSnapshot, policy: Policy): Date | null {
-  const clearance = snapshot.lastClearance;
-  if (!clearance || clearance.voidedAt) return null;
-  const { fixed } = splitPath(snapshot.links);
+/**
+ * What the policy gives a clearance signed at `at` on this path: the shortest inspection interval
+ * among the structure and the fixed links' kinds, in studio days. Worked out when the rigger signs
+ * and kept with the clearance (PRODUCT.md §4.9).
+ */
+export function policyClearanceEnd(at: Date, links: LinkSnapshot[], policy: Policy): Date {
+  const { fixed } = splitPath(links);
   let days = policy.intervalDays.structure;
   for (const link of fixed) {
     days = Math.min(days, policy.intervalDays[intervalClassOfKind[link.gear.kind]]);
   }
-  return addStudioDays(clearance.at, days, policy.timeZone);
+  return addStudioDays(at, days, policy.timeZone);
+}
+
+/**
+ * The point's own clearance end, before the apparatus cap; null while voided or never cleared.
+ * PRODUCT.md §4.9: the end kept when the clearance was signed, or what the current policy gives if
+ * that is sooner: a shorter interval applies at once, a longer one only to later clearances.
+ */
+export function pointClearanceEnd(snapshot: PointSnapshot, policy: Policy): Date | null {
+  const clearance = snapshot.lastClearance;
+  if (!clearance || clearance.voidedAt) return null;
+  const byPolicy = policyClearanceEnd(clearance.at, snapshot.links, policy);
+  const signed = clearance.until ?? null;
+  return signed && signed.getTime() < byPolicy.getTime() ? new Date(signed.getTime()) : byPolicy;
 }
 
 const timesMemo = snapshotMemo<{ own: Date | null; until: Date | null }>();

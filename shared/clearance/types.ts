@@ -26,6 +26,11 @@ export interface OpenFault {
 export interface ClearanceRecord {
   at: Date;
   voidedAt: Date | null;
+  /**
+   * PRODUCT.md §4.9: the point's own clearance end worked out when the rigger signed, kept with
+   * the clearance. Null or absent (a clearance kept before ends were stored): the policy alone decides.
+   */
+  until?: Date | null;
 }
 
 /** Everything known now about one rigging point, gathered by the caller. */

@@ -6,6 +6,7 @@ import {
   gearRatingChangeVoids,
   pathConfigOf,
   pointStatusAt,
+  policyClearanceEnd,
   voidsClearance,
   type ClearanceRecord,
   type GearSnapshot,
@@ -16,7 +17,7 @@ import { defaultPolicy, type Policy } from '../../../shared/schemas/policy';
 import type { ApparatusKind, GearKind } from '../../../shared/schemas/vocabulary';
 
 /*
- * Random histories of one rigging point — clearances, faults, retirements, incidents, load-path
+ * Random histories of one rigging point — clearances, policy changes, faults, retirements, incidents, load-path
  * edits, apparatus swaps, inspections, time passing — are applied to a small world. After each
  * step the module's status is compared with a reference model written here from PRODUCT.md §4.1,
  * on its own terms: it shares the world, not the module's logic. Voiding is tracked twice: the
@@ -24,9 +25,9 @@ import type { ApparatusKind, GearKind } from '../../../shared/schemas/vocabulary
  * the action was.
  */
 
-// Europe/London, textile 30 d, hardware 90 d, structure 365 d, warning 7 d [studio choice].
-const policy: Policy = defaultPolicy;
-const ZONE = policy.timeZone;
+// Europe/London, textile 30 d, hardware 90 d, structure 365 d, warning 7 d [studio choice] to begin
+// with; the owner may change the intervals at any step (§4.9).
+const ZONE = defaultPolicy.timeZone;
 const POINT_ID = 1;
 
 // ---------------------------------------------------------------------------------------------
@@ -60,7 +61,8 @@ type Action =
   | { type: 'unmountApparatus' }
   | { type: 'resave' }
   | { type: 'restructure'; deltaKn: number }
-  | { type: 'toggleService' };
+  | { type: 'toggleService' }
+  | { type: 'repolicy'; textile: number; hardware: number; structure: number };
 
 const fixedKindArb = fc.constantFrom<GearKind>(
   'beam_clamp',
@@ -131,6 +133,15 @@ const actionArb: fc.Arbitrary<Action> = fc.oneof(
   { weight: 2, arbitrary: fc.record({ type: fc.constant('resave' as const) }) },
   { weight: 1, arbitrary: fc.record({ type: fc.constant('restructure' as const), deltaKn: nonZero }) },
   { weight: 1, arbitrary: fc.record({ type: fc.constant('toggleService' as const) }) },
+  {
+    weight: 2,
+    arbitrary: fc.record({
+      type: fc.constant('repolicy' as const),
+      textile: fc.constantFrom(7, 14, 30, 60, 365),
+      hardware: fc.constantFrom(14, 30, 90, 180, 3650),
+      structure: fc.constantFrom(30, 90, 365, 3650),
+    }),
+  },
 );
 
 // ---------------------------------------------------------------------------------------------
@@ -145,6 +156,7 @@ interface WorldLink {
 
 interface World {
   now: Date;
+  policy: Policy;
   nextId: number;
   gear: Map<number, GearSnapshot>;
   fixed: WorldLink[];
@@ -230,8 +242,15 @@ function snapshotOf(world: World, clearance: ClearanceRecord | null): PointSnaps
 const TEXTILE_KINDS = new Set<GearKind>(['round_sling', 'span_set', 'fabric', 'trapeze', 'hammock', 'straps', 'rope']);
 const CONNECTOR_KINDS = new Set<GearKind>(['carabiner', 'screw_link_delta', 'screw_link_tri', 'quick_link']);
 
-function intervalDaysOf(kind: GearKind): number {
+function intervalDaysOf(kind: GearKind, policy: Policy): number {
   return TEXTILE_KINDS.has(kind) ? policy.intervalDays.textile : policy.intervalDays.hardware;
+}
+
+/** The point's own interval under a policy: the structure's and each fixed link's, the shortest. */
+function pointDays(world: World, policy: Policy): number {
+  let days = policy.intervalDays.structure;
+  for (const l of world.fixed) days = Math.min(days, intervalDaysOf(world.gear.get(l.gearId)!.kind, policy));
+  return days;
 }
 
 /** Same wall-clock time `days` later in the studio zone. */
@@ -270,9 +289,9 @@ function reference(world: World, t: Date): Expected {
   } else if (c.voidedAt !== null) {
     codes.push('awaiting_clearance');
   } else {
-    let days = policy.intervalDays.structure;
-    for (const l of world.fixed) days = Math.min(days, intervalDaysOf(world.gear.get(l.gearId)!.kind));
-    until = plusStudioDays(c.at, days);
+    // §4.9: the end kept when signed, unless today's policy gives a sooner one.
+    const byPolicy = plusStudioDays(c.at, pointDays(world, world.policy));
+    until = c.until && c.until < byPolicy ? c.until : byPolicy;
     if (apparatus) {
       const own = apparatus.inspectedUntil;
       until = own === null ? null : own < until ? own : until;
@@ -295,7 +314,7 @@ function reference(world: World, t: Date): Expected {
   }
 
   if (codes.length > 0) return { status: 'blocked', clearedUntil: until, codes: codes.sort() };
-  const windowEnd = plusStudioDays(t, policy.warningDays);
+  const windowEnd = plusStudioDays(t, world.policy.warningDays);
   return { status: until! <= windowEnd ? 'expiring' : 'cleared', clearedUntil: until, codes: [] };
 }
 
@@ -344,11 +363,13 @@ function apply(world: World, action: Action): void {
       }
       // A rigger's clearance is recorded only while no fault is open on the point or its path.
       if (openFaultsOnPath(world)) return;
-      world.moduleClearance = { at: world.now, voidedAt: null };
-      world.modelClearance = { at: world.now, voidedAt: null };
+      // The end is worked out as the rigger signs and kept with the clearance (§4.9): the module's
+      // side by the module's rule, the model's side by its own reading.
+      world.moduleClearance = { at: world.now, voidedAt: null, until: policyClearanceEnd(world.now, snapshotOf(world, null).links, world.policy) };
+      world.modelClearance = { at: world.now, voidedAt: null, until: plusStudioDays(world.now, pointDays(world, world.policy)) };
       for (const id of path) {
         const g = world.gear.get(id)!;
-        g.inspectedUntil = plusStudioDays(world.now, intervalDaysOf(g.kind));
+        g.inspectedUntil = plusStudioDays(world.now, intervalDaysOf(g.kind, world.policy));
       }
       return;
     case 'fault': {
@@ -378,14 +399,14 @@ function apply(world: World, action: Action): void {
       const g = pickPath(action.pick);
       if (g && g.status === 'quarantined') {
         g.status = 'in_service';
-        g.inspectedUntil = plusStudioDays(world.now, intervalDaysOf(g.kind));
+        g.inspectedUntil = plusStudioDays(world.now, intervalDaysOf(g.kind, world.policy));
       }
       return;
     }
     case 'inspectApparatus': {
       if (world.apparatusId === null) return;
       const g = world.gear.get(world.apparatusId)!;
-      g.inspectedUntil = plusStudioDays(world.now, intervalDaysOf(g.kind));
+      g.inspectedUntil = plusStudioDays(world.now, intervalDaysOf(g.kind, world.policy));
       return;
     }
     case 'addLink': {
@@ -477,6 +498,10 @@ function apply(world: World, action: Action): void {
     case 'toggleService':
       world.inService = !world.inService;
       return;
+    case 'repolicy':
+      // Kept clearances keep their ends; the status rule takes the sooner of kept and today's.
+      world.policy = { ...world.policy, intervalDays: { textile: action.textile, hardware: action.hardware, structure: action.structure } };
+      return;
   }
 
   if (pathEdit) {
@@ -510,6 +535,7 @@ describe('pointStatusAt against a reference model of §4.1', () => {
         (initial, steps) => {
           const world: World = {
             now: new Date('2025-01-06T10:00:00Z'),
+            policy: defaultPolicy,
             nextId: 1,
             gear: new Map(),
             fixed: [],
@@ -531,10 +557,23 @@ describe('pointStatusAt against a reference model of §4.1', () => {
           }
 
           for (const [action, probeHours] of steps) {
+            const untilBefore = pointStatusAt(snapshotOf(world, world.moduleClearance), world.policy, world.now).clearedUntil;
+            const policyBefore = world.policy;
             apply(world, action);
+            if (action.type === 'repolicy') {
+              const longer = (['textile', 'hardware', 'structure'] as const).every((k) => world.policy.intervalDays[k] >= policyBefore.intervalDays[k]);
+              const after = pointStatusAt(snapshotOf(world, world.moduleClearance), world.policy, world.now).clearedUntil;
+              const kept = world.moduleClearance && !world.moduleClearance.voidedAt ? world.moduleClearance.until! : null;
+              // §4.9: lengthening an interval never takes a clearance past the end kept when it was
+              // signed, and leaves an end that already was the kept one where it is.
+              if (longer && kept && after && untilBefore) {
+                expect(after.getTime()).toBeLessThanOrEqual(kept.getTime());
+                if (untilBefore.getTime() === kept.getTime()) expect(after.getTime()).toBe(untilBefore.getTime());
+              }
+            }
             const snapshot = snapshotOf(world, world.moduleClearance);
             for (const t of [world.now, new Date(world.now.getTime() + probeHours * 3_600_000)]) {
-              const actual = pointStatusAt(snapshot, policy, t);
+              const actual = pointStatusAt(snapshot, world.policy, t);
               const expected = reference(world, t);
               seenStatus.add(actual.status);
               for (const r of actual.reasons) seenCodes.add(r.code);

@@ -76,6 +76,27 @@ describe('clearedUntil', () => {
   });
 });
 
+describe('a clearance kept with the end worked out when it was signed (§4.9)', () => {
+  const signed = new Date('2025-07-02T09:00:00Z');
+  const withTextile = (days: number): Policy => ({ ...policy, intervalDays: { ...policy.intervalDays, textile: days } });
+
+  it('keeps the signed end when the owner lengthens the textile interval afterwards', () => {
+    const point = healthyPoint({ lastClearance: { at: clearedAt, voidedAt: null, until: signed } });
+    expect(clearedUntil(point, withTextile(90))?.toISOString()).toBe('2025-07-02T09:00:00.000Z');
+    expect(pointStatusAt(point, withTextile(90), new Date('2025-07-03T09:00:00Z')).status).toBe('blocked');
+  });
+
+  it('applies a shorter interval at once', () => {
+    const point = healthyPoint({ lastClearance: { at: clearedAt, voidedAt: null, until: signed } });
+    expect(clearedUntil(point, withTextile(7))?.toISOString()).toBe('2025-06-09T09:00:00.000Z');
+    expect(codes(point, midJune, withTextile(7))).toEqual(['inspection_lapsed']);
+  });
+
+  it('lets a clearance kept before ends were stored follow the policy alone', () => {
+    expect(clearedUntil(healthyPoint(), withTextile(60))?.toISOString()).toBe('2025-08-01T09:00:00.000Z');
+  });
+});
+
 describe('serviceLifeEnd', () => {
   it('counts the service life from the manufacture date, at midnight in the studio zone', () => {
     const g = gear('round_sling', { manufacturedOn: '2020-06-01', inServiceOn: '2021-01-15', serviceLifeYears: 10 });
