@@ -35,12 +35,29 @@ export async function makePoint(db: Db, o: { roomId?: number; label?: string; st
       apparatus_json: JSON.stringify(o.apparatus ?? ['fabric', 'hoop', 'trapeze', 'hammock', 'straps', 'rope']),
       max_performers: o.maxPerformers ?? 2,
       in_service: true,
-      last_cleared_at: o.clearedAt ?? null,
       created_at: now,
       updated_at: now,
     })
     .returning('id');
-  return { id: (row as { id: number }).id, roomId };
+  const id = (row as { id: number }).id;
+  // A point's clearance is derived from its clearance rows, so a cleared point gets one.
+  if (o.clearedAt) await makeClearance(db, id, o.clearedAt);
+  return { id, roomId };
+}
+
+/**
+ * A periodic inspection that cleared the point at `at`, with no kept end (the policy alone
+ * decides, as for clearances kept before ends were stored), by an inactive fixture rigger who
+ * receives no mail.
+ */
+export async function makeClearance(db: Db, pointId: number, at: string, o: { until?: string | null } = {}) {
+  let inspector = (await db('users').where({ email: 'records-fixture@example.test' }).first('id')) as { id: number } | undefined;
+  inspector ??= await makeUser(db, { role: 'rigger', email: 'records-fixture@example.test', name: 'Records fixture', active: false });
+  const [row] = await db('inspections')
+    .insert({ kind: 'periodic', point_id: pointId, inspector_id: inspector.id, inspected_at: new Date(at).toISOString(), studio_day: at.slice(0, 10), result: 'pass', notes: '', cleared: true, cleared_until: o.until ?? null })
+    .returning('id');
+  await db('points').where({ id: pointId }).update({ last_cleared_at: new Date(at).toISOString(), clearance_voided_at: null });
+  return (row as { id: number }).id;
 }
 
 export async function makeGear(db: Db, o: Partial<{ kind: string; material: string; gate: string; majorKn: number; minorKn: number | null; gateOpenKn: number | null; wllKn: number | null; multiDirectional: boolean; serial: string; inspectedUntil: string | null; status: string }> = {}) {

@@ -32,7 +32,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
       const holder = await rig.pointOfGear(f.gearId, trx);
       if (holder) affected.add(holder);
     }
-    for (const p of affected) await rig.voidClearance(p, now, trx);
+    for (const p of affected) await rig.voidClearance(p, now, trx, { reason: 'fault_opened', source: `fault #${id}` });
     await audit.record(trx, { actorId: f.reportedBy, action: 'fault.opened', entity: 'fault', entityId: id, after: { pointId, gearId: f.gearId ?? null, severity: f.severity, description: f.description } }, now);
     return id;
   }
@@ -77,7 +77,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
           const holder = await rig.pointOfGear(fault.gearId, trx);
           if (holder) {
             await rig.swapGearInPath(fault.gearId, replacement.id, trx);
-            await rig.voidClearance(holder, now, trx);
+            await rig.voidClearance(holder, now, trx, { reason: 'gear_replaced', source: `${fault.gearSerial ?? `gear #${fault.gearId}`} replaced by ${replacement.serial} resolving fault #${id}` });
           }
           await rig.updateGear(fault.gearId, { status: r.oldGearStatus ?? 'quarantined', statusReason: `Replaced after fault #${id}: ${r.note}` }, now, trx);
         }

@@ -8,7 +8,8 @@ import type { RigRepository } from '../rig/rig.repository';
 import { loadSnapshots } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { FaultsService } from '../faults/faults.service';
-import { addStudioDays, clearedUntil, inspectionChecklist, pointStatusAt, preuseChecklist, studioDay, formatStudioDateTime } from '../../../shared/clearance';
+import { addStudioDays, clearedUntil, inspectionChecklist, pointStatusAt, policyClearanceEnd, preuseChecklist, studioDay, formatStudioDateTime } from '../../../shared/clearance';
+import type { PointSnapshot } from '../../../shared/clearance';
 import { statusWhenSigned } from '../../../shared/records/inspection-record';
 import { intervalClassOfKind } from '../../../shared/schemas/vocabulary';
 import type { ClearanceBody, GearInspectionBody, InspectionLogFilters, InspectionLogQuery, PreuseBody } from '../../../shared/schemas/safety';
@@ -61,16 +62,23 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
         const byKey = new Map(checklist.map((c) => [c.key, c]));
         const failed = body.items.filter((i) => i.result === 'fail');
         const cleared = failed.length === 0 && b.snapshot.openFaults.length === 0 && b.snapshot.links.length > 0;
+        // PRODUCT.md §4.9: the point's own end is worked out now, as the rigger signs, and kept with
+        // the clearance; a later policy may shorten it but never lengthen it.
+        const signedEnd = cleared ? policyClearanceEnd(now, b.snapshot.links, policy) : null;
         let until: Date | null = null;
-        let signedSnapshot = b.snapshot;
+        let signedSnapshot: PointSnapshot = b.snapshot;
         if (cleared) {
-          // Renew every item in the path first; the point's clearance is then capped by the apparatus's.
+          // Renew every item in the path; the point's clearance is then capped by the apparatus's.
           for (const l of b.links) {
             const days = policy.intervalDays[intervalClassOfKind[l.gear.kind]];
             await rig.updateGear(l.gearId, { inspectedUntil: addStudioDays(now, days, policy.timeZone).toISOString() }, now, trx);
           }
+          // The cache columns; the status is derived from the inspection row below (and checked against these).
           await rig.updatePoint(pointId, { lastClearedAt: now.toISOString(), clearanceVoidedAt: null }, now, trx);
-          signedSnapshot = (await pointBundle(pointId, trx)).snapshot;
+          // The point as it stands once this clearance is on record (its row, written below with this
+          // status, is what the status is derived from).
+          const renewed = (await pointBundle(pointId, trx)).snapshot;
+          signedSnapshot = { ...renewed, lastClearance: { at: now, voidedAt: null, until: signedEnd } };
           until = clearedUntil(signedSnapshot, policy);
         }
         // Kept with the row: the log never re-reads a past inspection with today's status (§10).
@@ -85,7 +93,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             result: failed.length ? 'fail' : body.items.some((i) => i.result === 'attention') ? 'attention' : 'pass',
             notes: body.notes ?? '',
             cleared,
-            clearedUntil: until?.toISOString() ?? null,
+            clearedUntil: signedEnd?.toISOString() ?? null,
             pointStatus: atSigning,
             items: body.items.map((i) => ({ key: i.key, label: byKey.get(i.key)!.label, result: i.result, note: i.note ?? '', gearId: byKey.get(i.key)!.gearId })),
           },
@@ -106,7 +114,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             }),
           );
         }
-        await audit.record(trx, { actorId, action: cleared ? 'point.cleared' : 'point.inspected', entity: 'point', entityId: pointId, after: { inspectionId, cleared, clearedUntil: until?.toISOString() ?? null, failed: failed.map((f) => f.key) } }, now);
+        await audit.record(trx, { actorId, action: cleared ? 'point.cleared' : 'point.inspected', entity: 'point', entityId: pointId, after: { inspectionId, cleared, clearedUntil: until?.toISOString() ?? null, keptUntil: signedEnd?.toISOString() ?? null, failed: failed.map((f) => f.key) } }, now);
         const status = pointStatusAt((await pointBundle(pointId, trx)).snapshot, policy, now);
         const reasons = cleared
           ? status.reasons

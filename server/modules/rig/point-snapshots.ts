@@ -31,14 +31,18 @@ export interface SnapshotBundle {
 }
 
 /**
- * Everything the status rules need for a set of points, in three queries whatever the number of
- * points: the points, their links with the gear in them, and the open faults on either.
+ * Everything the status rules need for a set of points, in four queries whatever the number of
+ * points: the points, their links with the gear in them, their clearances (from the inspection and
+ * void rows), and the open faults on either.
  */
 export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: number[]; roomId?: number } = {}, trx: Db = db): Promise<SnapshotBundle[]> {
   const points = await rig.listPoints(filter, trx);
   if (!points.length) return [];
   const pointIds = points.map((p) => p.id);
   const links = await rig.linksWithGear(filter.ids || filter.roomId ? pointIds : 'all', trx);
+  // The clearance from the append-only rows (cleared inspections, voids), never from the point's
+  // cache columns, which a hand edit could change (PRODUCT.md §10; the audit check compares them).
+  const clearances = await rig.clearanceStates(filter.ids || filter.roomId ? pointIds : 'all', trx);
   const gearIds = [...new Set(links.map((l) => l.gearId))];
   const faults = (await trx('faults')
     .where('status', 'open')
@@ -54,7 +58,9 @@ export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: 
     list.push(l);
     linksByPoint.set(l.pointId, list);
   }
-  return points.map((p) => {
+  return points.map((stored) => {
+    const c = clearances.get(stored.id);
+    const p: PointRecord = { ...stored, lastClearedAt: c?.at ?? null, clearanceVoidedAt: c?.voidedAt ?? null };
     const pl = linksByPoint.get(p.id) ?? [];
     const inPath = new Set(pl.map((l) => l.gearId));
     const openFaults: OpenFault[] = faults
@@ -77,7 +83,7 @@ export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: 
         leg: l.leg,
         includedAngleDeg: l.includedAngleDeg,
       })),
-      lastClearance: p.lastClearedAt ? { at: new Date(p.lastClearedAt), voidedAt: toDate(p.clearanceVoidedAt) } : null,
+      lastClearance: c ? { at: new Date(c.at), voidedAt: toDate(c.voidedAt), until: toDate(c.until) } : null,
       openFaults,
     });
     return { point: p, links: pl, snapshot };

@@ -104,6 +104,52 @@ export interface LinkRecord {
   includedAngleDeg: number | null;
 }
 
+/** Why a clearance was voided, kept with the void (PRODUCT.md §4.1's causes). */
+export interface VoidCause {
+  reason: 'fault_opened' | 'fixed_links_changed' | 'gear_ratings_changed' | 'structural_rating_changed' | 'gear_replaced' | 'rig_changed';
+  /** What did it, in words: "fault #12", "load path saved by user #3". */
+  source: string;
+}
+
+/** A point's clearance derived from the rows: its latest clearance and the void of it, if any. */
+export interface ClearanceState {
+  inspectionId: number;
+  at: string;
+  /** The point's own end, kept when the rigger signed (null for clearances kept before ends were). */
+  until: string | null;
+  voidedAt: string | null;
+}
+
+interface LatestClearanceRow {
+  point_id: number;
+  inspection_id: number;
+  inspected_at: string;
+  cleared_until: string | null;
+  voided_at: string | null;
+}
+
+/**
+ * One query whatever the number of points: for each point the clearance (a periodic inspection
+ * that cleared it) with no later one, and the void of it.
+ */
+async function latestClearances(trx: Db, pointIds: number[] | 'all'): Promise<LatestClearanceRow[]> {
+  const q = trx('inspections as i')
+    .leftJoin('clearance_voids as v', 'v.inspection_id', 'i.id')
+    .where('i.kind', 'periodic')
+    .where('i.cleared', true)
+    .whereNotNull('i.point_id')
+    .whereNotExists(
+      trx('inspections as j')
+        .whereRaw('j.point_id = i.point_id')
+        .where('j.cleared', true)
+        .where((w) => w.whereRaw('j.inspected_at > i.inspected_at').orWhere((w2) => w2.whereRaw('j.inspected_at = i.inspected_at').whereRaw('j.id > i.id')))
+        .select(trx.raw('1')),
+    )
+    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.cleared_until', 'v.at as voided_at');
+  if (pointIds !== 'all') q.whereIn('i.point_id', pointIds);
+  return (await q) as LatestClearanceRow[];
+}
+
 export const toPoint = (r: PointRow): PointRecord => ({
   id: r.id,
   roomId: r.room_id,
@@ -231,9 +277,21 @@ export function rigRepository(db: Db) {
       if (p.lastClearedAt !== undefined) row.last_cleared_at = p.lastClearedAt;
       await trx('points').where({ id }).update(row);
     },
-    /** Voids the point's clearance, if it has a live one. */
-    async voidClearance(pointId: number, at: Date, trx: Db = db) {
+    /**
+     * Voids the point's clearance, if it has a live one: a `clearance_voids` row for its latest
+     * clearance (the record the status is derived from), and the cache columns on the point.
+     */
+    async voidClearance(pointId: number, at: Date, trx: Db = db, why: VoidCause = { reason: 'rig_changed', source: '' }) {
+      const [latest] = await latestClearances(trx, [pointId]);
+      if (latest && latest.voided_at === null) {
+        await trx('clearance_voids').insert({ point_id: pointId, inspection_id: latest.inspection_id, at: at.toISOString(), reason: why.reason, source: why.source.slice(0, 200) }).onConflict('inspection_id').ignore();
+      }
       await trx('points').where({ id: pointId }).whereNotNull('last_cleared_at').whereNull('clearance_voided_at').update({ clearance_voided_at: at.toISOString() });
+    },
+    /** Each point's clearance as the append-only rows say: its latest clearance and any void of it. */
+    async clearanceStates(pointIds: number[] | 'all', trx: Db = db): Promise<Map<number, ClearanceState>> {
+      const rows = await latestClearances(trx, pointIds);
+      return new Map(rows.map((r) => [r.point_id, { inspectionId: r.inspection_id, at: r.inspected_at, until: r.cleared_until, voidedAt: r.voided_at }]));
     },
 
     // ---- gear

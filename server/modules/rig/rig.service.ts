@@ -113,7 +113,9 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         const now = clock.now();
         await rig.updatePoint(id, patch, now, trx);
         // A new structural rating changes what the clearance vouched for.
-        if (patch.structuralRatingKn !== undefined && patch.structuralRatingKn !== before.structuralRatingKn) await rig.voidClearance(id, now, trx);
+        if (patch.structuralRatingKn !== undefined && patch.structuralRatingKn !== before.structuralRatingKn) {
+          await rig.voidClearance(id, now, trx, { reason: 'structural_rating_changed', source: `structural rating ${before.structuralRatingKn} kN → ${patch.structuralRatingKn} kN by user #${actorId}` });
+        }
         await audit.record(trx, { actorId, action: 'point.updated', entity: 'point', entityId: id, before, after: patch }, now);
       });
       return this.getPoint(id);
@@ -161,7 +163,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         const now = clock.now();
         const voided = voidsClearance(before, after) && current.point.lastClearedAt !== null && current.point.clearanceVoidedAt === null;
         await rig.replaceLinks(id, body.links.map((l) => ({ ...l, includedAngleDeg: l.leg ? l.includedAngleDeg : null })), trx);
-        if (voidsClearance(before, after)) await rig.voidClearance(id, now, trx);
+        if (voidsClearance(before, after)) await rig.voidClearance(id, now, trx, { reason: 'fixed_links_changed', source: `load path saved by user #${actorId}` });
         await audit.record(trx, { actorId, action: 'point.load_path_replaced', entity: 'point', entityId: id, before: before.links, after: after.links }, now);
         return { voided, changed: true };
       });
@@ -215,7 +217,9 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       await writeTransaction(db, async (trx) => {
         const now = clock.now();
         await rig.updateGear(id, patch, now, trx);
-        if (before.pointId !== null && gearRatingChangeVoids(before, after)) await rig.voidClearance(before.pointId, now, trx);
+        if (before.pointId !== null && gearRatingChangeVoids(before, after)) {
+          await rig.voidClearance(before.pointId, now, trx, { reason: 'gear_ratings_changed', source: `gear ${before.serial} edited by user #${actorId}` });
+        }
         await audit.record(trx, { actorId, action: 'gear.updated', entity: 'gear', entityId: id, before, after: patch }, now);
       });
       return this.getGear(id);
