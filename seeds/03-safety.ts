@@ -1,9 +1,9 @@
 import type { Db } from '../server/db/knex';
 import { auditRepository, type AuditInput } from '../server/modules/audit/audit.repository';
 import { gearSnapshot, loadSnapshots, type SnapshotBundle } from '../server/modules/rig/point-snapshots';
-import { rigRepository } from '../server/modules/rig/rig.repository';
+import { rigRepository, type VoidCause } from '../server/modules/rig/rig.repository';
 import { studioRepository } from '../server/modules/studio/studio.repository';
-import { addStudioDays, inspectionChecklist, pathConfigOf, preuseChecklist, splitPath, studioDay, type GearSnapshot, type LinkSnapshot } from '../shared/clearance';
+import { addStudioDays, inspectionChecklist, pathConfigOf, policyClearanceEnd, preuseChecklist, splitPath, studioDay, type GearSnapshot, type LinkSnapshot } from '../shared/clearance';
 import type { Policy } from '../shared/schemas/policy';
 import { INSTRUCTOR, intervalDaysOf, localTime, RIGGER, userIdByEmail } from './demo-data';
 import { clearancePlans, drop, faultPlans, gearInspectionPlans, pathAtClearances, pathChange, preuseAttention, preuseSkipped, PREVIOUS_ROUND_DAYS, retirement } from './demo-history';
@@ -19,7 +19,7 @@ const worst = (items: Item[]) => (items.some((i) => i.result === 'fail') ? 'fail
  * inspections, faults and rig services write. Inspections are append-only, so this step runs only
  * while there are none; audit entries go through the hash chain in time order.
  */
-export async function seedSafety(trx: Db, now: Date): Promise<void> {
+export async function seedSafety(trx: Db, now: Date, auditKey: string): Promise<void> {
   if (await trx('inspections').first('id')) return;
   const { policy } = await studioRepository(trx).get(trx);
   const tz = policy.timeZone;
@@ -29,6 +29,7 @@ export async function seedSafety(trx: Db, now: Date): Promise<void> {
   const instructor = await userIdByEmail(trx, INSTRUCTOR);
   const audits: Array<{ at: Date; entry: AuditInput }> = [];
   const audit = (at: Date, entry: AuditInput) => audits.push({ at, entry });
+  const voids: Array<{ pointId: number; at: Date; reason: VoidCause['reason']; source: string }> = [];
 
   const bundles = new Map((await loadSnapshots(trx, rig, {}, trx)).map((b) => [b.point.label, b]));
   const point = (label: string): SnapshotBundle => bundles.get(label)!;
@@ -64,10 +65,12 @@ export async function seedSafety(trx: Db, now: Date): Promise<void> {
       // The story clears a sound point: as the service would record it, cleared (expiring when the
       // clearance ends inside the warning window) with nothing against it when signed.
       const statusWhenSigned = until.getTime() <= addStudioDays(at, policy.warningDays, tz).getTime() ? 'expiring' : 'cleared';
-      const inspectionId = await inspect({ kind: 'periodic', point_id: b.point.id, gear_id: null, inspector_id: rigger, notes: latest ? (plan.notes ?? '') : '', cleared: true, cleared_until: until.toISOString(), point_status: statusWhenSigned, point_reasons_json: '[]' }, at, items);
+      // Kept with the clearance: the point's own end, as the service works it out when the rigger signs.
+      const kept = policyClearanceEnd(at, path, policy);
+      const inspectionId = await inspect({ kind: 'periodic', point_id: b.point.id, gear_id: null, inspector_id: rigger, notes: latest ? (plan.notes ?? '') : '', cleared: true, cleared_until: kept.toISOString(), point_status: statusWhenSigned, point_reasons_json: '[]' }, at, items);
       for (const l of path) await renew(l.gear, at);
       await trx('points').where({ id: b.point.id }).update({ last_cleared_at: at.toISOString(), clearance_voided_at: null, updated_at: at.toISOString() });
-      audit(at, { actorId: rigger, action: 'point.cleared', entity: 'point', entityId: b.point.id, after: { inspectionId, cleared: true, clearedUntil: until.toISOString(), failed: [] } });
+      audit(at, { actorId: rigger, action: 'point.cleared', entity: 'point', entityId: b.point.id, after: { inspectionId, cleared: true, clearedUntil: until.toISOString(), keptUntil: kept.toISOString(), failed: [] } });
     }
   }
 
@@ -117,7 +120,7 @@ export async function seedSafety(trx: Db, now: Date): Promise<void> {
       })
       .returning('id');
     const faultId = (row as { id: number }).id;
-    await trx('points').where({ id: b.point.id }).where('last_cleared_at', '<', at.toISOString()).update({ clearance_voided_at: at.toISOString() });
+    voids.push({ pointId: b.point.id, at, reason: 'fault_opened', source: `fault #${faultId}` });
     audit(at, { actorId: instructor, action: 'fault.opened', entity: 'fault', entityId: faultId, after: { pointId: b.point.id, gearId: gear.id, severity: plan.severity, description: plan.description } });
     if (!r || !resolvedAt) continue;
     const body: Record<string, unknown> = { resolution: r.resolution, note: r.note };
@@ -134,8 +137,17 @@ export async function seedSafety(trx: Db, now: Date): Promise<void> {
     const b = point(pathChange.pointLabel);
     const at = ago(pathChange.daysAgo, pathChange.time);
     const before = pathConfigOf({ structuralRatingKn: b.snapshot.structuralRatingKn, links: await pathAtClearance(pathChange.pointLabel) });
-    await trx('points').where({ id: b.point.id }).whereNull('clearance_voided_at').update({ clearance_voided_at: at.toISOString(), updated_at: at.toISOString() });
+    voids.push({ pointId: b.point.id, at, reason: 'fixed_links_changed', source: 'load path saved by the rigger' });
     audit(at, { actorId: rigger, action: 'point.load_path_replaced', entity: 'point', entityId: b.point.id, before: before.links, after: pathConfigOf(b.snapshot).links });
+  }
+
+  // The voids in time order: each voids the point's latest clearance if it came before it, as the
+  // services do (a void row, the record the status is derived from, and the point's cache columns).
+  for (const v of voids.sort((a, b) => a.at.getTime() - b.at.getTime())) {
+    const c = (await rig.clearanceStates([v.pointId], trx)).get(v.pointId);
+    if (!c || c.voidedAt || Date.parse(c.at) >= v.at.getTime()) continue;
+    await trx('clearance_voids').insert({ point_id: v.pointId, inspection_id: c.inspectionId, at: v.at.toISOString(), reason: v.reason, source: v.source });
+    await trx('points').where({ id: v.pointId }).update({ clearance_voided_at: v.at.toISOString(), updated_at: v.at.toISOString() });
   }
 
   // 6. A mounted carabiner retired; a mounted hoop dropped and quarantined.
@@ -149,7 +161,7 @@ export async function seedSafety(trx: Db, now: Date): Promise<void> {
   await trx('gear_items').where({ id: hoop.id }).update({ status: 'quarantined', status_reason: 'After drop: awaiting an after-incident inspection', updated_at: dropAt.toISOString() });
   audit(dropAt, { actorId: rigger, action: 'gear.event_recorded', entity: 'gear', entityId: hoop.id, after: { kind: 'drop', note: drop.note } });
 
-  const chain = auditRepository(trx);
+  const chain = auditRepository(trx, auditKey);
   for (const { at, entry } of audits.sort((a, b) => a.at.getTime() - b.at.getTime())) await chain.record(trx, entry, at);
 }
 

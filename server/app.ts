@@ -54,6 +54,8 @@ export interface AppDeps {
   fakeSmtp?: FakeSmtp | null;
   appUrl: string;
   authSecret: string;
+  /** The audit chain's HMAC key, kept outside the database (AUDIT_KEY or data/.audit-key). */
+  auditKey: string;
   uploadDir: string;
   /** The built client, served with SPA fallback when present. */
   clientDir?: string | null;
@@ -100,7 +102,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   );
 
   const { db, clock } = deps;
-  const audit = auditRepository(db);
+  const audit = auditRepository(db, deps.auditKey);
   const staffRepo = staffRepository(db);
   const staff = staffService(staffRepo, clock, { db, audit });
   const auth = authConfig({ secret: deps.authSecret, appUrl: deps.appUrl, staff: staffRepo, signedOut: (id) => staff.signedOut(id) });

@@ -8,6 +8,7 @@ import { startFakeSmtp } from './mail/fake-smtp';
 import { smtpMailer } from './mail/transport';
 import { startMailWorker } from './mail/worker';
 import { seedDemoIfEmpty } from '../seeds';
+import { keyAuditChain } from './modules/audit/chain-upgrade';
 
 /** Resolves once the server listens; rejects (EADDRINUSE, EACCES…) when it cannot. */
 function listen(app: ReturnType<typeof createApp>, port: number): Promise<Server> {
@@ -34,7 +35,9 @@ async function main() {
   const config = loadConfig();
   const db = createDb(config.dbFile);
   await migrate(db);
-  if (config.seed === 'demo' && (await seedDemoIfEmpty(db, systemClock.now()))) console.log('Loaded the demo studio into the empty database.');
+  // Entries chained before the key existed are re-chained under it once (see chain-upgrade.ts).
+  await keyAuditChain(db, config.auditKey, config.auditChainMarker);
+  if (config.seed === 'demo' && (await seedDemoIfEmpty(db, systemClock.now(), config.auditKey))) console.log('Loaded the demo studio into the empty database.');
 
   const fakeSmtp = config.smtpUrl ? null : await startFakeSmtp();
   const mailer = smtpMailer(config.smtpUrl ?? fakeSmtp!.url, config.mailFrom);
@@ -45,6 +48,7 @@ async function main() {
     fakeSmtp,
     appUrl: config.appUrl,
     authSecret: config.authSecret,
+    auditKey: config.auditKey,
     uploadDir: config.uploadDir,
     clientDir: resolve('dist'),
     trustProxyHops: config.trustProxyHops,

@@ -10,6 +10,8 @@ import type { Role } from '../../shared/schemas/vocabulary';
 import { makeUser, TEST_PASSWORD } from './factories';
 
 export const APP_URL = 'http://127.0.0.1:3999';
+/** The audit chain's key in tests (the server reads AUDIT_KEY or its key file). */
+export const TEST_AUDIT_KEY = 'test-audit-key-test-audit-key-test-audit-key';
 
 export interface TestContext {
   app: LoftwiseApp;
@@ -28,7 +30,7 @@ export async function createTestApp(opts: { now?: string; deps?: Partial<AppDeps
   const clock = fixedClock(opts.now ?? '2026-12-01T10:00:00Z');
   const sent: OutgoingMail[] = [];
   const mailer: Mailer = { send: async (m) => void sent.push(m), close: () => undefined };
-  const app = createApp({ db, clock, mailer, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', uploadDir: join(dir, 'uploads'), log: () => undefined, ...opts.deps });
+  const app = createApp({ db, clock, mailer, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', auditKey: TEST_AUDIT_KEY, uploadDir: join(dir, 'uploads'), log: () => undefined, ...opts.deps });
   return {
     app,
     db,

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp, type LoftwiseApp } from '../../server/app';
 import { seedDemoIfEmpty } from '../../seeds';
 import { DEMO_PASSWORD } from '../../seeds/01-studio-and-staff';
-import { APP_URL, createTestApp, signIn, withOrigin, type TestContext } from '../helpers/app';
+import { APP_URL, createTestApp, TEST_AUDIT_KEY, signIn, withOrigin, type TestContext } from '../helpers/app';
 
 /*
  * The calendar, Today and the rig list keep what they derive per data version (server/db/
@@ -28,8 +28,8 @@ async function agent(app: LoftwiseApp, email: string) {
 
 beforeAll(async () => {
   ctx = await createTestApp({ now: '2026-12-01T08:30:00Z' });
-  await seedDemoIfEmpty(ctx.db, ctx.clock.now());
-  fresh = createApp({ db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', uploadDir: join(ctx.dir, 'uploads'), log: () => undefined, cacheDerived: false });
+  await seedDemoIfEmpty(ctx.db, ctx.clock.now(), TEST_AUDIT_KEY);
+  fresh = createApp({ db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', auditKey: TEST_AUDIT_KEY, uploadDir: join(ctx.dir, 'uploads'), log: () => undefined, cacheDerived: false });
   for (const role of ['reception', 'instructor', 'rigger']) {
     cached[role] = await agent(ctx.app, `${role}@loftwise.test`);
     uncached[role] = await agent(fresh, `${role}@loftwise.test`);

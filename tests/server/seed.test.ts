@@ -9,7 +9,7 @@ import { rigRepository } from '../../server/modules/rig/rig.repository';
 import { seedDemoIfEmpty } from '../../seeds';
 import { DEMO_PASSWORD } from '../../seeds/01-studio-and-staff';
 import { localDay } from '../../seeds/demo-data';
-import { createTestApp, signIn, withOrigin } from '../helpers/app';
+import { createTestApp, signIn, TEST_AUDIT_KEY, withOrigin } from '../helpers/app';
 import { seedStudioAndStaff } from '../../seeds/01-studio-and-staff';
 import { seedRig } from '../../seeds/02-rig';
 import { seedSafety } from '../../seeds/03-safety';
@@ -63,7 +63,7 @@ describe.each(['2026-12-01T09:00:00Z', '2027-03-28T09:00:00Z', '2027-10-31T00:30
 
   it('shows every point state right after the first start [studio choice: default policy]', async () => {
     const db = await freshDb();
-    expect(await seedDemoIfEmpty(db, now)).toBe(true);
+    expect(await seedDemoIfEmpty(db, now, TEST_AUDIT_KEY)).toBe(true);
     const bundles = await loadSnapshots(db, rigRepository(db));
     const statuses = bundles.map((b) => ({ label: b.point.label, ...pointStatusAt(b.snapshot, policy, now) }));
     const byLabel = Object.fromEntries(statuses.map((s) => [s.label, s]));
@@ -106,13 +106,13 @@ describe.each(['2026-12-01T09:00:00Z', '2027-03-28T09:00:00Z', '2027-10-31T00:30
       .select('gear_items.serial');
     expect(early).toEqual([]);
 
-    expect(await auditRepository(db).verify()).toMatchObject({ ok: true });
-    expect((await auditRepository(db).verify()).entries).toBeGreaterThan(30);
+    expect(await auditRepository(db, TEST_AUDIT_KEY).verify()).toMatchObject({ ok: true });
+    expect((await auditRepository(db, TEST_AUDIT_KEY).verify()).entries).toBeGreaterThan(30);
   });
 
   it('has a bridle and a point that passes a solo fabric class but fails the duo trapeze class', async () => {
     const db = await freshDb();
-    await seedDemoIfEmpty(db, now);
+    await seedDemoIfEmpty(db, now, TEST_AUDIT_KEY);
     const bundles = await loadSnapshots(db, rigRepository(db));
     const bridles = bundles.filter((b) => parseBridle(b.snapshot.links).kind === 'bridle');
     expect(bridles.map((b) => b.point.label)).toEqual(['MH-3']);
@@ -135,7 +135,7 @@ describe.each(['2026-12-01T09:00:00Z', '2027-03-28T09:00:00Z', '2027-10-31T00:30
 
   it('books a month of classes that fit their points, with today for instructor@loftwise.test', async () => {
     const db = await freshDb();
-    await seedDemoIfEmpty(db, now);
+    await seedDemoIfEmpty(db, now, TEST_AUDIT_KEY);
     const bundles = new Map((await loadSnapshots(db, rigRepository(db))).map((b) => [b.point.id, b]));
     const classes = new Map(((await db('class_types')) as ClassRow[]).map((c) => [c.id, c]));
     const sessions = (await db('sessions').orderBy('starts_at')) as SessionRow[];
@@ -183,18 +183,18 @@ describe.each(['2026-12-01T09:00:00Z', '2027-03-28T09:00:00Z', '2027-10-31T00:30
 
   it('seeds only an empty database, and each step again adds nothing', async () => {
     const db = await freshDb();
-    await seedDemoIfEmpty(db, now);
+    await seedDemoIfEmpty(db, now, TEST_AUDIT_KEY);
     const before = await counts(db);
-    expect(await seedDemoIfEmpty(db, now)).toBe(false);
+    expect(await seedDemoIfEmpty(db, now, TEST_AUDIT_KEY)).toBe(false);
     expect(await counts(db)).toEqual(before);
     await db.transaction(async (trx) => {
       await seedStudioAndStaff(trx, now);
       await seedRig(trx, now);
-      await seedSafety(trx, now);
+      await seedSafety(trx, now, TEST_AUDIT_KEY);
       await seedSchedule(trx, now);
     });
     expect(await counts(db)).toEqual(before);
-    expect(await auditRepository(db).verify()).toMatchObject({ ok: true });
+    expect(await auditRepository(db, TEST_AUDIT_KEY).verify()).toMatchObject({ ok: true });
   });
 });
 
@@ -202,7 +202,7 @@ describe('the demo studio through the API', () => {
   it('gives instructor@loftwise.test today\'s classes and the rigger checklists the clearances used', async () => {
     const ctx = await createTestApp({ now: '2026-12-01T09:00:00Z' });
     cleanup.push(() => ctx.close());
-    await seedDemoIfEmpty(ctx.db, ctx.clock.now());
+    await seedDemoIfEmpty(ctx.db, ctx.clock.now(), TEST_AUDIT_KEY);
 
     const instructor = await signIn(ctx.app, 'instructor@loftwise.test', DEMO_PASSWORD);
     expect(instructor.ok).toBe(true);
@@ -230,7 +230,7 @@ describe('the demo studio seeded late in the evening', () => {
   it.each(['2026-12-01T21:10:00Z', '2026-12-01T22:40:00Z'])('still gives the demo instructor a class ahead today when seeded at %s', async (iso) => {
     const now = new Date(iso);
     const db = await freshDb();
-    await seedDemoIfEmpty(db, now);
+    await seedDemoIfEmpty(db, now, TEST_AUDIT_KEY);
     const ahead = (await db('sessions')
       .join('users', 'users.id', 'sessions.instructor_id')
       .where('users.email', 'instructor@loftwise.test')

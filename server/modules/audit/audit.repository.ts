@@ -1,4 +1,4 @@
-import { createHash } from 'node:crypto';
+import { createHash, createHmac, timingSafeEqual } from 'node:crypto';
 import type { Db } from '../../db/knex';
 import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 import type { AuditEntry, AuditListQuery } from '../../../shared/schemas/audit';
@@ -25,19 +25,84 @@ interface AuditRow {
   hash: string;
 }
 
-const GENESIS = '0'.repeat(64);
-
-/** The hash covers every field and the previous hash, so an edit, a gap or a reorder breaks the chain. */
-function hashOf(r: Omit<AuditRow, 'id' | 'hash'> & { id: number }): string {
-  return createHash('sha256')
-    .update(JSON.stringify([r.id, r.at, r.actor_id, r.action, r.entity, r.entity_id, r.before_json, r.after_json, r.prev_hash]))
-    .digest('hex');
+export interface ChainHead {
+  count: number;
+  hash: string;
 }
 
-export function auditRepository(db: Db) {
+export interface ChainCheck {
+  ok: boolean;
+  entries: number;
+  firstBadId: number | null;
+  problem: string | null;
+  head: ChainHead;
+  /** Present when a head published earlier was given: whether it is still in the chain. */
+  publishedHead?: ChainHead & { found: boolean; problem: string | null };
+}
+
+/** The key chaining audit entries; kept outside the database (AUDIT_KEY or a file beside the auth secret). */
+export type AuditKey = string | Buffer;
+
+const GENESIS = '0'.repeat(64);
+
+const fieldsOf = (r: Omit<AuditRow, 'hash'>) => JSON.stringify([r.id, r.at, r.actor_id, r.action, r.entity, r.entity_id, r.before_json, r.after_json, r.prev_hash]);
+
+/**
+ * The hash covers every field and the previous hash, so an edit, a gap or a reorder breaks the
+ * chain; it is an HMAC-SHA-256 under a key the database does not hold, so someone who can write
+ * the file cannot recompute a chain that verifies (PRODUCT.md §10).
+ */
+export function keyedHashOf(key: AuditKey, r: Omit<AuditRow, 'hash'>): string {
+  return createHmac('sha256', key).update(fieldsOf(r)).digest('hex');
+}
+
+/** The chain as it was before entries were keyed: plain SHA-256, which anyone can recompute. */
+export function unkeyedHashOf(r: Omit<AuditRow, 'hash'>): string {
+  return createHash('sha256').update(fieldsOf(r)).digest('hex');
+}
+
+const sameHex = (a: string, b: string) => a.length === b.length && timingSafeEqual(Buffer.from(a), Buffer.from(b));
+
+/** `count:hash`, as printed on exports and digests. */
+export const formatHead = (h: ChainHead) => `${h.count}:${h.hash}`;
+export function parseHead(text: string): ChainHead | null {
+  const m = /^(\d{1,12}):([0-9a-f]{64})$/.exec(text.trim());
+  return m ? { count: Number(m[1]), hash: m[2] } : null;
+}
+
+/**
+ * `key` is needed to append and to verify; reading the head needs none. A repository made without
+ * it refuses to append rather than write an entry no one could verify.
+ */
+export function auditRepository(db: Db, key?: AuditKey) {
+  const needKey = (): AuditKey => {
+    if (key === undefined || key.length === 0) throw new Error('The audit key is not configured: entries cannot be chained.');
+    return key;
+  };
+
+  /** Walks the chain; `hashOf` decides keyed or not. */
+  function walk(rows: AuditRow[], hashOf: (r: AuditRow) => string): Omit<ChainCheck, 'head'> {
+    let prev = GENESIS;
+    let expectedId = 1;
+    for (const r of rows) {
+      if (r.id !== expectedId) return { ok: false, entries: rows.length, firstBadId: r.id, problem: `Entry ${expectedId} is missing from the audit chain.` };
+      if (r.prev_hash !== prev) return { ok: false, entries: rows.length, firstBadId: r.id, problem: `Entry ${r.id} does not follow the one before it.` };
+      if (!sameHex(hashOf(r), r.hash)) return { ok: false, entries: rows.length, firstBadId: r.id, problem: `Entry ${r.id} (${r.action}) was changed after it was written, or its hash was not made with this studio’s audit key.` };
+      prev = r.hash;
+      expectedId += 1;
+    }
+    return { ok: true, entries: rows.length, firstBadId: null, problem: null };
+  }
+
+  const headOf = (rows: AuditRow[]): ChainHead => {
+    const last = rows[rows.length - 1];
+    return { count: last?.id ?? 0, hash: last?.hash ?? GENESIS };
+  };
+
   return {
     /** Append one entry; call inside the transaction of the change it records. */
     async record(trx: Db, e: AuditInput, at: Date): Promise<void> {
+      const k = needKey();
       const last = await trx<AuditRow>('audit_entries').orderBy('id', 'desc').first('id', 'hash');
       const row = {
         id: (last?.id ?? 0) + 1,
@@ -50,25 +115,69 @@ export function auditRepository(db: Db) {
         after_json: e.after === undefined ? null : JSON.stringify(e.after),
         prev_hash: last?.hash ?? GENESIS,
       };
-      await trx('audit_entries').insert({ ...row, hash: hashOf(row) });
+      await trx('audit_entries').insert({ ...row, hash: keyedHashOf(k, row) });
     },
 
-    async verify(): Promise<{ ok: boolean; entries: number; firstBadId: number | null; problem: string | null }> {
+    /**
+     * Checks every entry under the key and, given a head published earlier (on an export or a
+     * digest), that the entry it names is still there with the same hash: deleting the newest
+     * entries, or rewriting the chain, cannot pass against it.
+     */
+    async verify(published?: ChainHead): Promise<ChainCheck> {
+      const k = needKey();
       const rows = await db<AuditRow>('audit_entries').orderBy('id');
-      let prev = GENESIS;
-      let expectedId = 1;
-      for (const r of rows) {
-        if (r.id !== expectedId) return { ok: false, entries: rows.length, firstBadId: r.id, problem: `Entry ${expectedId} is missing.` };
-        if (r.prev_hash !== prev) return { ok: false, entries: rows.length, firstBadId: r.id, problem: `Entry ${r.id} does not follow the one before it.` };
-        if (hashOf(r) !== r.hash) return { ok: false, entries: rows.length, firstBadId: r.id, problem: `Entry ${r.id} was changed after it was written.` };
-        prev = r.hash;
-        expectedId += 1;
+      const result: ChainCheck = { ...walk(rows, (r) => keyedHashOf(k, r)), head: headOf(rows) };
+      if (published) {
+        const entry = rows.find((r) => r.id === published.count);
+        let problem: string | null = null;
+        if (published.count === 0) problem = null;
+        else if (!entry) problem = `The published head names entry ${published.count}, but the chain holds ${rows.length} ${rows.length === 1 ? 'entry' : 'entries'}: entries were deleted since it was published.`;
+        else if (!sameHex(entry.hash, published.hash)) problem = `Entry ${published.count} no longer has the hash published for it: the chain was rewritten since.`;
+        result.publishedHead = { ...published, found: problem === null, problem };
+        if (problem) {
+          result.ok = false;
+          result.problem ??= problem;
+          result.firstBadId ??= Math.min(published.count, rows.length + 1);
+        }
       }
-      return { ok: true, entries: rows.length, firstBadId: null, problem: null };
+      return result;
+    },
+
+    /** Whether the whole chain verifies as the plain SHA-256 chain written before entries were keyed. */
+    async verifiesUnkeyed(trx: Db = db): Promise<boolean> {
+      return walk(await trx<AuditRow>('audit_entries').orderBy('id'), unkeyedHashOf).ok;
+    },
+
+    /** Whether the whole chain verifies under the key. */
+    async verifiesKeyed(trx: Db = db): Promise<boolean> {
+      const k = needKey();
+      return walk(await trx<AuditRow>('audit_entries').orderBy('id'), (r) => keyedHashOf(k, r)).ok;
+    },
+
+    /**
+     * Re-chains every entry under the key, in one transaction, with the append-only triggers
+     * lifted only inside it. Only for a chain that verifies unkeyed (see chain-upgrade.ts).
+     */
+    async rechainUnderKey(): Promise<number> {
+      const k = needKey();
+      return db.transaction(async (trx) => {
+        const rows = await trx<AuditRow>('audit_entries').orderBy('id');
+        if (!walk(rows, unkeyedHashOf).ok) throw new Error('The unkeyed audit chain does not verify; it is not re-chained.');
+        await trx.raw('DROP TRIGGER audit_entries_no_update');
+        let prev = GENESIS;
+        for (const r of rows) {
+          const next = { ...r, prev_hash: prev };
+          const hash = keyedHashOf(k, next);
+          await trx('audit_entries').where({ id: r.id }).update({ prev_hash: prev, hash });
+          prev = hash;
+        }
+        await trx.raw("CREATE TRIGGER audit_entries_no_update BEFORE UPDATE ON audit_entries BEGIN SELECT RAISE(ABORT, 'audit_entries are append-only'); END");
+        return rows.length;
+      });
     },
 
     /** The chain's head as published on exports and digests: how many entries, and the newest hash. */
-    async head(trx: Db = db): Promise<{ count: number; hash: string }> {
+    async head(trx: Db = db): Promise<ChainHead> {
       const last = await trx<AuditRow>('audit_entries').orderBy('id', 'desc').first('id', 'hash');
       return { count: last?.id ?? 0, hash: last?.hash ?? GENESIS };
     },
