@@ -29,6 +29,7 @@ import { classTypesRepository } from './modules/class-types/class-types.reposito
 import { classTypesService } from './modules/class-types/class-types.service';
 import { classTypesRoutes } from './modules/class-types/class-types.router';
 import { auditRoutes } from './modules/audit/audit.router';
+import { auditService } from './modules/audit/audit.service';
 import { faultsRepository } from './modules/faults/faults.repository';
 import { faultsService } from './modules/faults/faults.service';
 import { faultsRoutes } from './modules/faults/faults.router';
@@ -140,7 +141,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   classTypesRoutes(api, classTypes);
   faultsRoutes(api, faults);
   inspectionsRoutes(api, inspections);
-  auditRoutes(api, audit);
+  auditRoutes(api, audit, auditService({ db, audit, rig: rigRepo }));
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
   sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox, derived }));
 

@@ -1,6 +1,7 @@
 import { TZDate } from '@date-fns/tz';
 import { addStudioDays, clearedUntil, formatStudioDay, gearName, pointStatusAt, serviceLifeEnd, studioDay } from '../../shared/clearance';
 import type { MailCycleContext } from './context';
+import { auditRepository, formatHead } from '../modules/audit/audit.repository';
 import { digestIsEmpty, digestMessage, type DigestInput } from './templates/digest';
 import { writeTransaction } from '../db/knex';
 
@@ -29,8 +30,11 @@ export async function scheduleDigests(ctx: MailCycleContext): Promise<{ queued: 
   let queued = 0;
   let skipped = 0;
   await writeTransaction(ctx.db, async (trx) => {
+    // The audit chain's head as this digest is written (PRODUCT.md §10): kept in the riggers'
+    // mailboxes, it lets GET /api/audit/verify?head= prove later that no entry up to it was removed or rewritten.
+    const chainHead = formatHead(await auditRepository(ctx.db).head(trx));
     for (const u of pending) {
-      const mail = digestMessage({ ...content, studioName: ctx.studioName, timeZone: tz, appUrl: ctx.appUrl, recipientName: u.name, dayLabel: formatStudioDay(ctx.now, tz), warningDays: ctx.policy.warningDays });
+      const mail = digestMessage({ ...content, chainHead, studioName: ctx.studioName, timeZone: tz, appUrl: ctx.appUrl, recipientName: u.name, dayLabel: formatStudioDay(ctx.now, tz), warningDays: ctx.policy.warningDays });
       const added = await ctx.outbox.insert(
         trx,
         { kind: 'digest', uniqueKey: digestKey(u.id, day), to: [u.email], ...mail, ...(empty ? { state: 'skipped' as const, note: 'Nothing due: no digest sent.' } : {}) },

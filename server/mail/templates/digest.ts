@@ -9,6 +9,8 @@ export interface DigestInput {
   /** The studio day, e.g. "3 Dec 2026". */
   dayLabel: string;
   warningDays: number;
+  /** The audit chain's head, `count:hash`, printed so it can be checked against the chain later. */
+  chainHead: string;
   expiringPoints: Array<{ label: string; roomName: string; clearedUntil: Date }>;
   sessionsPastClearance: Array<{ className: string; roomName: string; startsAt: Date; endsAt: Date; pointLabel: string; clearedUntil: Date | null }>;
   gearServiceLife: Array<{ name: string; pointLabel: string | null; lifeEnd: Date; past: boolean }>;
@@ -52,6 +54,8 @@ export function digestMessage(i: DigestInput): RenderedMail {
     ...textSection(`Gear reaching the end of its service life within ${window}`, gear),
     '',
     link,
+    '',
+    `Audit chain head: ${i.chainHead}`,
     ...textFooter(i.studioName, true),
   ].join('\n');
 
@@ -68,6 +72,7 @@ export function digestMessage(i: DigestInput): RenderedMail {
       section(`Gear reaching the end of its service life within ${window}`, gear),
       button(link, 'Open the rig register'),
       `<p style="margin:0;font-size:13px;color:#56666a;word-break:break-all;">${esc(link)}</p>`,
+      `<p style="margin:16px 0 0;font-size:12px;color:#56666a;word-break:break-all;">Audit chain head: <code>${esc(i.chainHead)}</code></p>`,
     ].join(''),
   });
   return { subject, text, html };
