@@ -48,7 +48,8 @@ export async function up(knex: Knex): Promise<void> {
     // The apparatus hanging at the start: { gearId, kind, serial } or null.
     t.text('apparatus_json');
     t.string('recorded_at', 30).notNullable();
-    t.unique(['session_id', 'point_id']);
+    // One record per booked point per start: a class moved after it began keeps the first start's.
+    t.unique(['session_id', 'starts_at', 'point_id']);
     t.index(['point_id', 'starts_at']);
   });
   for (const sql of [...immutable('clearance_voids'), ...immutable('session_records')]) await knex.raw(sql);

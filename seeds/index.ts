@@ -3,6 +3,7 @@ import { seedStudioAndStaff } from './01-studio-and-staff';
 import { seedRig } from './02-rig';
 import { seedSafety } from './03-safety';
 import { seedSchedule } from './04-schedule';
+import { seedRecords } from './05-records';
 
 /**
  * Loads the invented demo studio, but only into a database with no staff yet; each step is
@@ -16,6 +17,7 @@ export async function seedDemoIfEmpty(db: Db, now: Date, auditKey: string): Prom
     await seedRig(trx, now);
     await seedSafety(trx, now, auditKey);
     await seedSchedule(trx, now);
+    await seedRecords(trx, now);
     return true;
   });
 }

@@ -9,6 +9,9 @@ import { smtpMailer } from './mail/transport';
 import { startMailWorker } from './mail/worker';
 import { seedDemoIfEmpty } from '../seeds';
 import { keyAuditChain } from './modules/audit/chain-upgrade';
+import { sessionRecords } from './modules/sessions/session-records';
+import { rigRepository } from './modules/rig/rig.repository';
+import { studioRepository } from './modules/studio/studio.repository';
 
 /** Resolves once the server listens; rejects (EADDRINUSE, EACCES…) when it cannot. */
 function listen(app: ReturnType<typeof createApp>, port: number): Promise<Server> {
@@ -54,6 +57,8 @@ async function main() {
     trustProxyHops: config.trustProxyHops,
     benchBaselineDbFile: process.env.LOFTWISE_BENCH_BASELINE === '1' ? config.dbFile : null,
   });
+  // Classes that started while the server was down are recorded before any request can change the rig.
+  await sessionRecords({ db, rig: rigRepository(db), studio: studioRepository(db) }).keepStarted(systemClock.now(), 'all');
   // Listen before anything runs in the background: a server that cannot take its port says so
   // and exits, rather than sending mail beside the one that holds it.
   const server = await listen(app, config.port).catch(async (err) => {

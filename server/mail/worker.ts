@@ -7,8 +7,12 @@ import { scheduleReminders } from './reminders';
 import { detectAtRisk } from './at-risk';
 import { scheduleDigests } from './digest';
 import { deliverDue } from './deliver';
+import { sessionRecords } from '../modules/sessions/session-records';
+import { rigRepository } from '../modules/rig/rig.repository';
 
 export interface MailCycleSummary {
+  /** Booked points of classes that started since the last cycle, recorded as they stood (PRODUCT.md §10). */
+  sessionPointsRecorded: number;
   remindersQueued: number;
   /** Reminder moments replaced by a single catch-up reminder. */
   remindersSkipped: number;
@@ -46,6 +50,7 @@ export async function runMailCycle(deps: MailWorkerDeps, stopping: () => boolean
   const studio = await (deps.studio ?? studioRepository(deps.db)).get();
   const ctx = cycleContext(deps.db, deps.clock.now(), studio, deps.appUrl);
   const summary: MailCycleSummary = {
+    sessionPointsRecorded: 0,
     remindersQueued: 0,
     remindersSkipped: 0,
     atRiskAlerts: 0,
@@ -67,6 +72,11 @@ export async function runMailCycle(deps: MailWorkerDeps, stopping: () => boolean
       summary.errors.push(`${name}: ${err instanceof Error ? err.message : String(err)}`);
     }
   };
+  // First, before anything else this cycle reads or writes: the record of each class that has
+  // started since the last cycle, so it holds the rig as it stood at the start within one cycle.
+  await step('session records', async () => {
+    summary.sessionPointsRecorded = await sessionRecords({ db: deps.db, rig: rigRepository(deps.db), studio: studioRepository(deps.db) }).keepStarted(deps.clock.now());
+  });
   await step('reminders', async () => {
     const r = await scheduleReminders(ctx);
     summary.remindersQueued = r.queued;

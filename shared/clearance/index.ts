@@ -7,3 +7,4 @@ export * from './checklist';
 export * from './validity';
 export { freezeSnapshot } from './memo';
 export * from './policy-effects';
+export * from './records';

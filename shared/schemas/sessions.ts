@@ -61,7 +61,18 @@ export type AvailabilityQuery = z.infer<typeof availabilityQuery>;
 export const pointVerdictSchema = z.object({ pointId: z.number(), label: z.string(), bookable: z.boolean(), reasons: z.array(reasonSchema), warnings: z.array(reasonSchema) });
 export type PointVerdict = z.infer<typeof pointVerdictSchema>;
 
-export const sessionPointSchema = pointStatusSchema.extend({ pointId: z.number(), label: z.string() });
+/**
+ * A booked point with its status at the class's start. Once the class has started it is the record
+ * kept then (PRODUCT.md §10): with the apparatus hanging at the start and when it was kept, or
+ * `not_recorded` for a class that began before records were kept.
+ */
+export const sessionPointSchema = pointStatusSchema.extend({
+  pointId: z.number(),
+  label: z.string(),
+  status: z.enum(['cleared', 'expiring', 'blocked', 'not_recorded']),
+  apparatus: z.object({ gearId: z.number(), kind: z.string(), serial: z.string() }).nullable().optional(),
+  recordedAt: z.string().optional(),
+});
 export const sessionSchema = z.object({
   id: z.number(),
   classTypeId: z.number(),
@@ -84,6 +95,8 @@ export const sessionSchema = z.object({
   inspectionDue: z.boolean(),
   /** One place per booked point that is not blocked at the session's time, up to the capacity. */
   places: z.number(),
+  /** True once the class has started: `points` and `places` are then from the record kept at its start. */
+  recordedAtStart: z.boolean().optional(),
   warnings: z.array(reasonSchema).optional(),
 });
 export type Session = z.infer<typeof sessionSchema>;

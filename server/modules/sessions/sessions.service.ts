@@ -8,13 +8,14 @@ import { loadSnapshots, type SnapshotBundle } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { bookingReasons, instructorReasons, pointStatusAt, pointStatusOver, sessionRisk, type Reason, type ValidityTracker } from '../../../shared/clearance';
+import { bookingReasons, instructorReasons, placesFromRecords, pointStatusAt, pointStatusOver, sessionRisk, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
 import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, SwapPoints, UpdateSession } from '../../../shared/schemas/sessions';
 import type { SessionRecord, SessionsRepository } from './sessions.repository';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
+import { sessionRecords, type SessionPointRecord, type SessionRecords } from './session-records';
 
 export type SessionChangeKind = 'moved' | 'points_swapped' | 'room_changed' | 'cancelled' | 'instructor_changed';
 /** Told inside the change's transaction, so the instructor's e-mail is queued with it or not at all. */
@@ -29,8 +30,9 @@ interface Occurrence {
 
 const MAX_RANGE_DAYS = 100;
 
-export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache }) {
+export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
+  const records = deps.records ?? sessionRecords({ db, rig, studio });
   const derived = deps.derived ?? noDerivedCache;
 
   async function classTypeOrThrow(id: number, trx: Db = db): Promise<ClassType> {
@@ -82,20 +84,31 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
     return { startsAt: c.occ.startsAt.toISOString(), endsAt: c.occ.endsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons };
   }
 
-  /** The wire view: each point's status at the session's time, at risk, inspection due, places. */
-  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, policy: Policy, now: Date, track?: ValidityTracker) {
+  /**
+   * The wire view: each point's status at the session's start, at risk, inspection due, places.
+   * A class that has started shows what was kept at its start (PRODUCT.md §10), never today's status.
+   */
+  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, policy: Policy, now: Date, track?: ValidityTracker, kept?: Map<number, SessionPointRecord[]>) {
     const startsAt = new Date(s.startsAt);
     const endsAt = new Date(s.endsAt);
     const at = startsAt > now ? startsAt : now;
     const snaps = s.pointIds.map((id) => bundles.get(id)).filter((b): b is SnapshotBundle => Boolean(b));
     track?.session({ startsAt, endsAt, points: snaps.map((b) => b.snapshot) });
-    const points = snaps.map((b) => ({ pointId: b.point.id, label: b.point.label, ...statusWire(pointStatusAt(b.snapshot, policy, at)) }));
     const risk = sessionRisk({ points: snaps.map((b) => b.snapshot), policy, now, startsAt, endsAt, cancelled: s.cancelled });
     const live = !s.cancelled && endsAt > now;
     const inspectionDue = live && snaps.some((b) => pointStatusOver(b.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
+    if (startsAt <= now) {
+      const records = (kept?.get(s.id) ?? []).filter((r) => r.startsAt === s.startsAt);
+      const points = records.map((r) => ({ pointId: r.pointId, label: r.label, status: r.status, clearedUntil: r.clearedUntil, reasons: r.reasons, apparatus: r.apparatus, recordedAt: r.recordedAt }));
+      return { ...s, points, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placesFromRecords(records, s.capacity, s.cancelled), recordedAtStart: true };
+    }
+    const points = snaps.map((b) => ({ pointId: b.point.id, label: b.point.label, ...statusWire(pointStatusAt(b.snapshot, policy, at)) }));
     const places = s.cancelled ? 0 : Math.min(s.capacity, points.filter((p) => p.status !== 'blocked').length);
-    return { ...s, points, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places };
+    return { ...s, points, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places, recordedAtStart: false };
   }
+
+  /** The kept records of the sessions that have started by `now` (kept first where a worker cycle has not yet). */
+  const startRecords = (sessions: SessionRecord[], now: Date) => records.ensure(sessions.filter((s) => new Date(s.startsAt) <= now).map((s) => s.id), now);
 
   async function bundlesFor(pointIds: number[] | 'all', trx: Db = db) {
     const list = await loadSnapshots(db, rig, pointIds === 'all' ? {} : { ids: pointIds }, trx);
@@ -118,16 +131,20 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       // or the clock passes an instant it depends on (a class starting, a clearance running out).
       return derived.get(`sessions|${from.toISOString()}|${to.toISOString()}|${q.roomId ?? ''}|${q.instructorId ?? ''}`, async () => {
         const { policy } = await studio.get();
+        const now = clock.now();
         const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
+        const kept = await startRecords(sessions, now);
         const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
-        return deriveAt(policy, clock.now(), (track) => sessions.map((s) => view(s, bundles, policy, track.now, track)));
+        return deriveAt(policy, now, (track) => sessions.map((s) => view(s, bundles, policy, track.now, track, kept)));
       });
     },
 
     async get(id: number) {
       const s = await sessionOrThrow(id);
       const { policy } = await studio.get();
-      return view(s, await bundlesFor(s.pointIds), policy, clock.now());
+      const now = clock.now();
+      const kept = await startRecords([s], now);
+      return view(s, await bundlesFor(s.pointIds), policy, now, undefined, kept);
     },
 
     /** What the booking dialog asks: each point of the room, bookable or not for that exact time, with reasons. */
@@ -233,7 +250,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
           if (patch.instructorId !== undefined && patch.instructorId !== t.instructorId) await deps.notifier?.sessionChanged(trx, { kind: 'instructor_changed', sessionId: t.id, before: t, after, at: now });
         }
-        await audit.record(trx, { actorId, action: 'session.changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId }, after: patch }, now);
+        await audit.record(trx, { actorId, action: dStart || dEnd ? 'session.moved' : 'session.instructor_changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId }, after: patch }, now);
       });
       return this.get(id);
     },
