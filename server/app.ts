@@ -43,6 +43,7 @@ import { outboxRoutes } from './modules/outbox/outbox.router';
 import { sessionsRepository } from './modules/sessions/sessions.repository';
 import { sessionsService } from './modules/sessions/sessions.service';
 import { sessionsRoutes } from './modules/sessions/sessions.router';
+import { sessionRecords } from './modules/sessions/session-records';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
@@ -136,14 +137,16 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   studioRoutes(api, studioService(studioRepo, clock), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
-  rigRoutes(api, rig, docs, db);
+  // What each class kept of its points as it started (PRODUCT.md §10); the export reads them too.
+  const records = sessionRecords({ db, rig: rigRepo, studio: studioRepo });
+  rigRoutes(api, rig, docs, db, records);
   documentsRoutes(api, docs);
   classTypesRoutes(api, classTypes);
   faultsRoutes(api, faults);
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit, auditService({ db, audit, rig: rigRepo }));
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
-  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox, derived }));
+  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox, derived, records }));
 
   if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);
 

@@ -100,3 +100,23 @@ export const sessionSchema = z.object({
   warnings: z.array(reasonSchema).optional(),
 });
 export type Session = z.infer<typeof sessionSchema>;
+
+/** A point's history of classes (`GET /api/points/:id/records`): each as it stood at the class's start. */
+export const classRecordSchema = z.object({
+  sessionId: z.number(),
+  pointId: z.number(),
+  label: z.string(),
+  startsAt: z.string(),
+  endsAt: z.string(),
+  cancelled: z.boolean(),
+  className: z.string(),
+  roomName: z.string(),
+  instructorName: z.string(),
+  status: sessionPointSchema.shape.status,
+  clearedUntil: z.string().nullable(),
+  reasons: z.array(reasonSchema),
+  apparatus: z.object({ gearId: z.number(), kind: z.string(), serial: z.string() }).nullable(),
+  recordedAt: z.string(),
+});
+export type ClassRecord = z.infer<typeof classRecordSchema>;
+export const classRecordPageSchema = z.object({ items: z.array(classRecordSchema), nextCursor: z.string().nullable() });

@@ -19,11 +19,12 @@ import { HttpError, notFound } from '../../http/errors';
 import type { DocumentsService } from '../documents/documents.service';
 import { uploadMiddleware } from '../documents/documents.service';
 import type { RigService } from './rig.service';
+import type { SessionRecords } from '../sessions/session-records';
 
 const RIG_EDITORS = ['rigger', 'owner'] as const;
 const RIGGER = ['rigger'] as const;
 
-export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsService, db: Db) {
+export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsService, db: Db, records: SessionRecords) {
   // rooms
   api.get('/rooms', { access: 'signed_in', handler: () => rig.listRooms() });
   api.get('/rooms/:id', { access: 'signed_in', params: idParams, handler: ({ params }) => rig.getRoom(params.id) });
@@ -39,6 +40,17 @@ export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsServic
     params: idParams,
     query: z.object({ at: instantSchema.optional() }),
     handler: ({ params, query }) => rig.pointStatus(params.id, query.at ? new Date(query.at) : null),
+  });
+  // The point's history of classes: each as it stood at the class's start (PRODUCT.md §10).
+  api.get('/points/:id/records', {
+    access: 'signed_in',
+    params: idParams,
+    query: z.object({ limit: z.coerce.number().int().min(1).max(500).default(100), cursor: z.string().regex(/^[0-9T:.Z-]{20,30}_\d{1,12}$/, 'Use the nextCursor of the page before').optional() }),
+    handler: async ({ params, query }) => {
+      if (!(await db('points').where({ id: params.id }).first('id'))) throw notFound('That rigging point');
+      const cursor = query.cursor ? { startsAt: query.cursor.split('_')[0], id: Number(query.cursor.split('_')[1]) } : undefined;
+      return records.forPoint(params.id, { limit: query.limit, cursor });
+    },
   });
   api.put('/points/:id/load-path', { access: RIG_EDITORS, params: idParams, body: loadPathBodySchema, handler: ({ params, body, user }) => rig.replaceLoadPath(params.id, body, user.id) });
   api.get('/points/:id/load-check', { access: 'signed_in', params: idParams, query: loadCheckQuery, handler: ({ params, query }) => rig.loadCheck(params.id, query) });

@@ -91,9 +91,25 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       const { policy } = await studio.get();
       return pointWire(await bundle(id), policy, clock.now(), true);
     },
+    /**
+     * The point's status now or at a future instant. A past instant is refused (PRODUCT.md §10):
+     * today's records cannot say how the point stood then, and the kept records say it only for
+     * the instants classes started; the point's history holds those.
+     */
     async pointStatus(id: number, at: Date | null) {
       const { policy } = await studio.get();
-      return statusWire(pointStatusAt((await bundle(id)).snapshot, policy, at ?? clock.now()));
+      const now = clock.now();
+      const b = await bundle(id);
+      if (at && at.getTime() < now.getTime()) {
+        throw new HttpError(400, 'past_instant', `Status at a past instant is not worked out from today's records. See the history of point ${b.point.label}: each class keeps its points' status as it started.`, {
+          source: 'query',
+          fields: { at: 'Pick now or a later instant' },
+          pointId: id,
+          history: `/api/points/${id}/records`,
+          page: `/rig/points/${id}`,
+        });
+      }
+      return statusWire(pointStatusAt(b.snapshot, policy, at ?? now));
     },
     async createPoint(input: CreatePoint, actorId: number) {
       if (!(await rig.roomById(input.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });

@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api, ApiError } from '../../lib/api-client';
-import { pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession, type SwapPoints } from '../../../shared/schemas/sessions';
+import { classRecordPageSchema, pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession, type SwapPoints } from '../../../shared/schemas/sessions';
 import { classTypeSchema, type CreateClassType } from '../../../shared/schemas/class-types';
 import { reasonSchema, roomSchema } from '../../../shared/schemas/rig';
 
@@ -57,6 +57,9 @@ function searchOf(params: Record<string, string | number | undefined>): string {
 
 export const scheduleQueries = {
   all: ['schedule'] as const,
+  /** A point's classes as each stood at its start, newest first (a page of 25). */
+  pointRecords: (pointId: number) =>
+    queryOptions({ queryKey: [...scheduleQueries.all, 'point-records', pointId], queryFn: () => api(`/points/${pointId}/records?limit=25`, { schema: classRecordPageSchema }) }),
   sessions: () => [...scheduleQueries.all, 'sessions'] as const,
   range: (r: SessionRange) =>
     queryOptions({

@@ -8,13 +8,14 @@ import { RigPage } from '../../../features/rig/rig-page';
 import { PointHistory } from '../../../features/inspections/components/point-history';
 import { useStudioTimeZone } from '../../../features/today/api';
 import { formatInZone } from '../../../components/ui/zoned-time';
+import { ClassRecords } from '../../../features/schedule/components/class-records';
 
 /** `/rig/*`: the register, a point, the gear list, a gear item, and the label sheet. */
 export default function RigRoute() {
   return (
     <Routes>
       <Route index element={<RigPage />} />
-      <Route path="points/:id" element={<WithId render={(id) => <WithHistory history={<PointHistory pointId={id} />}><PointPage key={id} id={id} /></WithHistory>} />} />
+      <Route path="points/:id" element={<WithId render={(id) => <WithHistory history={<><PointHistory pointId={id} /><PointClassRecords pointId={id} /></>}><PointPage key={id} id={id} /></WithHistory>} />} />
       <Route path="gear" element={<GearListPage />} />
       <Route path="gear/:id" element={<WithId render={(id) => <WithHistory history={<PointHistory gearId={id} />}><GearPage key={id} id={id} /></WithHistory>} />} />
       <Route path="labels" element={<LabelsPage />} />
@@ -44,6 +45,12 @@ function WithHistory({ children, history }: { children: ReactNode; history: Reac
       </section>
     </>
   );
+}
+
+/** The point's classes as each stood at its start, in the studio's zone. */
+function PointClassRecords({ pointId }: { pointId: number }) {
+  const zone = useStudioTimeZone();
+  return zone.data ? <ClassRecords pointId={pointId} timeZone={zone.data} /> : null;
 }
 
 function NotFound() {
