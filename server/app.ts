@@ -121,7 +121,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
   const studioRepo = studioRepository(db);
   const rigRepo = rigRepository(db);
-  const docs = documentsService({ db, clock, uploadDir: deps.uploadDir });
+  const docs = documentsService({ db, clock, uploadDir: deps.uploadDir, audit });
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
@@ -134,7 +134,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
 
   const api = new ApiRouter('/api');
   staffRoutes(api, staff);
-  studioRoutes(api, studioService(studioRepo, clock), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
+  studioRoutes(api, studioService(studioRepo, clock, { db, audit }), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
   // What each class kept of its points as it started (PRODUCT.md §10); the export reads them too.

@@ -7,6 +7,7 @@ import { fileTypeFromBuffer } from 'file-type';
 import type { Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { HttpError, notFound } from '../../http/errors';
+import type { AuditRepository } from '../audit/audit.repository';
 
 export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
 export const MAX_FILES = 6;
@@ -50,7 +51,7 @@ function cleanName(name: string): string {
   return base.replace(/[\u0000-\u001f\u007f"<>]/g, '').slice(0, 150) || 'file';
 }
 
-export function documentsService(deps: { db: Db; clock: Clock; uploadDir: string }) {
+export function documentsService(deps: { db: Db; clock: Clock; uploadDir: string; audit: AuditRepository }) {
   const { db, clock, uploadDir } = deps;
   mkdirSync(uploadDir, { recursive: true });
 
@@ -82,6 +83,8 @@ export function documentsService(deps: { db: Db; clock: Clock; uploadDir: string
             .insert({ owner_type: owner.type, owner_id: owner.id, kind, original_name: cleanName(c.file.originalname), stored_name: stored, mime: c.mime, size: c.file.size, uploaded_by: actorId, uploaded_at: clock.now().toISOString() })
             .returning('*');
           out.push(toWire(row as DocRow));
+          const doc = row as DocRow;
+          await deps.audit.record(trx, { actorId, action: 'document.added', entity: 'document', entityId: doc.id, after: { ownerType: owner.type, ownerId: owner.id, kind, name: doc.original_name, mime: doc.mime, size: doc.size } }, clock.now());
         }
         return out;
       } catch (err) {

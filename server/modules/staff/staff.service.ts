@@ -51,7 +51,16 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
       await writeTransaction(deps.db, async (trx) => {
         await repo.update(id, patch, clock.now(), trx);
         const before = { name: user.name, role: user.role, active: user.active };
-        await deps.audit.record(trx, { actorId, action: roleChanged ? 'user.role_changed' : 'user.updated', entity: 'user', entityId: id, before, after: patch }, clock.now());
+        // Named for what changed, so the audit list reads as a sentence; before and after either way.
+        const action =
+          patch.role !== undefined && patch.role !== user.role
+            ? 'user.role_changed'
+            : patch.active !== undefined && patch.active !== user.active
+              ? patch.active
+                ? 'user.reactivated'
+                : 'user.deactivated'
+              : 'user.updated';
+        await deps.audit.record(trx, { actorId, action, entity: 'user', entityId: id, before, after: patch }, clock.now());
         // A copied cookie must not outlive the access it was issued for; reactivating later does
         // not move the version back, so old cookies stay dead.
         if (deactivated) await endSessions(trx, id, actorId, 'deactivated');
@@ -65,12 +74,13 @@ export function staffService(repo: StaffRepository, clock: Clock, deps: { db: Db
       return { digestOptOut: (await this.get(id)).digestOptOut };
     },
 
+    /** Audited without the password or its hash: who reset whose, and when. */
     async resetPassword(id: number, password: string, actorId: number): Promise<void> {
-      await this.get(id);
+      const user = await this.get(id);
       const passwordHash = await hashPassword(password);
       await writeTransaction(deps.db, async (trx) => {
         await repo.update(id, { passwordHash }, clock.now(), trx);
-        await deps.audit.record(trx, { actorId, action: 'user.password_reset', entity: 'user', entityId: id }, clock.now());
+        await deps.audit.record(trx, { actorId, action: 'user.password_reset', entity: 'user', entityId: id, after: { email: user.email } }, clock.now());
         await endSessions(trx, id, actorId, 'password_reset');
       });
     },
