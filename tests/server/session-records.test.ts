@@ -215,6 +215,24 @@ describe('the keyed audit chain', () => {
     expect(verify.body.problem).toBe(`The published head names entry ${published.count}, but the chain holds ${published.count - 5} entries: entries were deleted since it was published.`);
   });
 
+  it('prints the head in the rigger’s digest, and that head verifies later', async () => {
+    const { owner } = await someHistory();
+    const p = await makePoint(ctx.db, { label: 'EXP-9', clearedAt: '2026-11-05T10:00:00Z' });
+    await makeStandardPath(ctx.db, p.id);
+    const head = (await owner.get('/api/audit/verify')).body.head;
+    await cycle();
+    const digest = await ctx.db('outbox_messages').where({ kind: 'digest' }).first();
+    expect(digest.text_body).toContain(`Audit chain head: ${formatHead(head)}`);
+    expect(digest.html_body).toContain(formatHead(head));
+    await rigger2Writes();
+    expect((await owner.get(`/api/audit/verify?head=${formatHead(head)}`)).body).toMatchObject({ ok: true, publishedHead: { found: true } });
+
+    async function rigger2Writes() {
+      const rigger = await as(ctx, 'rigger');
+      await rigger.post('/api/faults').send({ pointId: p.id, severity: 'low', description: 'Later fault' });
+    }
+  });
+
   it('refuses a head that is not count:hash with a field message', async () => {
     const owner = await as(ctx, 'owner');
     const res = await owner.get('/api/audit/verify?head=12:nothex');
