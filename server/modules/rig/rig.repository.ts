@@ -129,25 +129,23 @@ interface LatestClearanceRow {
 }
 
 /**
- * One query whatever the number of points: for each point the clearance (a periodic inspection
- * that cleared it) with no later one, and the void of it.
+ * One query whatever the number of points: for each point the clearance (an inspection that
+ * cleared it; only periodic point inspections ever do) with no later one, and the void of it. The
+ * inner query reads only the (point_id, cleared, inspected_at) index.
  */
 async function latestClearances(trx: Db, pointIds: number[] | 'all'): Promise<LatestClearanceRow[]> {
-  const q = trx('inspections as i')
+  const latest = trx('inspections').where('cleared', true).whereNotNull('point_id').groupBy('point_id').select('point_id', trx.raw('max(inspected_at) as latest_at'));
+  if (pointIds !== 'all') latest.whereIn('point_id', pointIds);
+  const rows = (await trx('inspections as i')
+    .join(latest.as('x'), (j) => j.on('x.point_id', '=', 'i.point_id').andOn('x.latest_at', '=', 'i.inspected_at'))
     .leftJoin('clearance_voids as v', 'v.inspection_id', 'i.id')
-    .where('i.kind', 'periodic')
     .where('i.cleared', true)
-    .whereNotNull('i.point_id')
-    .whereNotExists(
-      trx('inspections as j')
-        .whereRaw('j.point_id = i.point_id')
-        .where('j.cleared', true)
-        .where((w) => w.whereRaw('j.inspected_at > i.inspected_at').orWhere((w2) => w2.whereRaw('j.inspected_at = i.inspected_at').whereRaw('j.id > i.id')))
-        .select(trx.raw('1')),
-    )
-    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.cleared_until', 'v.at as voided_at');
-  if (pointIds !== 'all') q.whereIn('i.point_id', pointIds);
-  return (await q) as LatestClearanceRow[];
+    .orderBy('i.id')
+    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.cleared_until', 'v.at as voided_at')) as LatestClearanceRow[];
+  // Two clearances at the same instant: the one written last.
+  const byPoint = new Map<number, LatestClearanceRow>();
+  for (const r of rows) byPoint.set(r.point_id, r);
+  return [...byPoint.values()];
 }
 
 export const toPoint = (r: PointRow): PointRecord => ({

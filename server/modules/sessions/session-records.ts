@@ -75,6 +75,8 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
    */
   async function keepStarted(now: Date, sessionIds?: number[] | 'all'): Promise<number> {
     if (Array.isArray(sessionIds) && sessionIds.length === 0) return 0;
+    // Usually every record is kept already: a read, and no write transaction.
+    if (!(await missing(db, now, sessionIds)).length) return 0;
     return db.transaction(async (trx) => {
       const rows = await missing(trx, now, sessionIds);
       if (!rows.length) return 0;
