@@ -29,7 +29,7 @@ export async function seedSafety(trx: Db, now: Date, auditKey: string): Promise<
   const instructor = await userIdByEmail(trx, INSTRUCTOR);
   const audits: Array<{ at: Date; entry: AuditInput }> = [];
   const audit = (at: Date, entry: AuditInput) => audits.push({ at, entry });
-  const voids: Array<{ pointId: number; at: Date; reason: VoidCause['reason']; source: string }> = [];
+  const voids: Array<{ pointId: number; at: Date; reason: VoidCause['reason']; source: string; actorId: number }> = [];
 
   const bundles = new Map((await loadSnapshots(trx, rig, {}, trx)).map((b) => [b.point.label, b]));
   const point = (label: string): SnapshotBundle => bundles.get(label)!;
@@ -120,7 +120,7 @@ export async function seedSafety(trx: Db, now: Date, auditKey: string): Promise<
       })
       .returning('id');
     const faultId = (row as { id: number }).id;
-    voids.push({ pointId: b.point.id, at, reason: 'fault_opened', source: `fault #${faultId}` });
+    voids.push({ pointId: b.point.id, at, reason: 'fault_opened', source: `fault #${faultId}`, actorId: instructor });
     audit(at, { actorId: instructor, action: 'fault.opened', entity: 'fault', entityId: faultId, after: { pointId: b.point.id, gearId: gear.id, severity: plan.severity, description: plan.description } });
     if (!r || !resolvedAt) continue;
     const body: Record<string, unknown> = { resolution: r.resolution, note: r.note };
@@ -137,7 +137,7 @@ export async function seedSafety(trx: Db, now: Date, auditKey: string): Promise<
     const b = point(pathChange.pointLabel);
     const at = ago(pathChange.daysAgo, pathChange.time);
     const before = pathConfigOf({ structuralRatingKn: b.snapshot.structuralRatingKn, links: await pathAtClearance(pathChange.pointLabel) });
-    voids.push({ pointId: b.point.id, at, reason: 'fixed_links_changed', source: 'load path saved by the rigger' });
+    voids.push({ pointId: b.point.id, at, reason: 'fixed_links_changed', source: 'load path saved', actorId: rigger });
     audit(at, { actorId: rigger, action: 'point.load_path_replaced', entity: 'point', entityId: b.point.id, before: before.links, after: pathConfigOf(b.snapshot).links });
   }
 
@@ -148,6 +148,7 @@ export async function seedSafety(trx: Db, now: Date, auditKey: string): Promise<
     if (!c || c.voidedAt || Date.parse(c.at) >= v.at.getTime()) continue;
     await trx('clearance_voids').insert({ point_id: v.pointId, inspection_id: c.inspectionId, at: v.at.toISOString(), reason: v.reason, source: v.source });
     await trx('points').where({ id: v.pointId }).update({ clearance_voided_at: v.at.toISOString(), updated_at: v.at.toISOString() });
+    audit(v.at, { actorId: v.actorId, action: 'point.clearance_voided', entity: 'point', entityId: v.pointId, after: { inspectionId: c.inspectionId, reason: v.reason, source: v.source } });
   }
 
   // 6. A mounted carabiner retired; a mounted hoop dropped and quarantined.

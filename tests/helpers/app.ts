@@ -7,11 +7,10 @@ import { createDb, migrate, type Db } from '../../server/db/knex';
 import { fixedClock } from '../../server/clock';
 import type { Mailer, OutgoingMail } from '../../server/mail/transport';
 import type { Role } from '../../shared/schemas/vocabulary';
-import { makeUser, TEST_PASSWORD } from './factories';
+import { makeUser, TEST_AUDIT_KEY, TEST_PASSWORD } from './factories';
 
 export const APP_URL = 'http://127.0.0.1:3999';
-/** The audit chain's key in tests (the server reads AUDIT_KEY or its key file). */
-export const TEST_AUDIT_KEY = 'test-audit-key-test-audit-key-test-audit-key';
+export { TEST_AUDIT_KEY } from './factories';
 
 export interface TestContext {
   app: LoftwiseApp;

@@ -1,8 +1,11 @@
 import type { Db } from '../../server/db/knex';
 import type { Role } from '../../shared/schemas/vocabulary';
 import { hashPassword } from '../../server/modules/staff/passwords';
+import { auditRepository } from '../../server/modules/audit/audit.repository';
 
 export const TEST_PASSWORD = 'correct-horse-battery';
+/** The audit chain's key in tests (the server reads AUDIT_KEY or its key file). */
+export const TEST_AUDIT_KEY = 'test-audit-key-test-audit-key-test-audit-key';
 let seq = 0;
 let cachedHash: Promise<string> | null = null;
 
@@ -57,7 +60,10 @@ export async function makeClearance(db: Db, pointId: number, at: string, o: { un
     .insert({ kind: 'periodic', point_id: pointId, inspector_id: inspector.id, inspected_at: new Date(at).toISOString(), studio_day: at.slice(0, 10), result: 'pass', notes: '', cleared: true, cleared_until: o.until ?? null })
     .returning('id');
   await db('points').where({ id: pointId }).update({ last_cleared_at: new Date(at).toISOString(), clearance_voided_at: null });
-  return (row as { id: number }).id;
+  const inspectionId = (row as { id: number }).id;
+  // With its audit entry, as the clearance service writes it.
+  await db.transaction((trx) => auditRepository(db, TEST_AUDIT_KEY).record(trx, { actorId: inspector!.id, action: 'point.cleared', entity: 'point', entityId: pointId, after: { inspectionId, cleared: true } }, new Date(at)));
+  return inspectionId;
 }
 
 export async function makeGear(db: Db, o: Partial<{ kind: string; material: string; gate: string; majorKn: number; minorKn: number | null; gateOpenKn: number | null; wllKn: number | null; multiDirectional: boolean; serial: string; inspectedUntil: string | null; status: string }> = {}) {

@@ -4,6 +4,7 @@ import { APP_URL, as, createTestApp, TEST_AUDIT_KEY, type TestContext } from '..
 import { makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
 import { runMailCycle } from '../../server/mail/worker';
 import { formatHead } from '../../server/modules/audit/audit.repository';
+import { seedDemoIfEmpty } from '../../seeds';
 
 let ctx: TestContext;
 beforeEach(async () => {
@@ -166,6 +167,50 @@ describe('clearance derived from append-only rows', () => {
     const verify = await owner.get('/api/audit/verify');
     expect(verify.body.ok).toBe(false);
     expect(verify.body.problems).toEqual([expect.stringMatching(/^Point HAND-2: shown as cleared, but its clearance was voided/)]);
+  });
+});
+
+describe('the demo studio', () => {
+  it('builds records that verify: its chain under the key, its clearances and voids each in it, its past classes kept', async () => {
+    expect(await seedDemoIfEmpty(ctx.db, ctx.clock.now(), TEST_AUDIT_KEY)).toBe(true);
+    const owner = await as(ctx, 'owner');
+    const verify = await owner.get('/api/audit/verify');
+    expect(verify.body.problems).toEqual([]);
+    expect(verify.body.ok).toBe(true);
+    const past = await ctx.db('sessions').where('starts_at', '<=', ctx.clock.now().toISOString()).count({ n: '*' });
+    const kept = await ctx.db('session_records').countDistinct({ n: 'session_id' });
+    expect(kept[0].n).toBe(past[0].n);
+    expect(await ctx.db('session_records').where({ status: 'not_recorded' }).count({ n: '*' })).toEqual([{ n: 0 }]);
+  });
+});
+
+describe('clearance rows bound to the audit chain', () => {
+  it('reports a clearance inserted by hand, which the chain never saw', async () => {
+    const owner = await as(ctx, 'owner');
+    const p = await makePoint(ctx.db, { label: 'FORGED-1' });
+    await makeStandardPath(ctx.db, p.id);
+    await ctx.db('inspections').insert({ kind: 'periodic', point_id: p.id, inspector_id: owner.user.id, inspected_at: '2026-12-01T09:00:00.000Z', studio_day: '2026-12-01', result: 'pass', notes: '', cleared: true, cleared_until: '2026-12-31T09:00:00.000Z' });
+    await ctx.db('points').where({ id: p.id }).update({ last_cleared_at: '2026-12-01T09:00:00.000Z' });
+    const verify = await owner.get('/api/audit/verify');
+    expect(verify.body.ok).toBe(false);
+    expect(verify.body.problems).toEqual([expect.stringMatching(/^Point FORGED-1: inspection #\d+ clearing it on .* is not in the audit chain/)]);
+  });
+
+  it('reports a void deleted from the file, which would read the point as cleared again', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const owner = await as(ctx, 'owner');
+    const p = await makePoint(ctx.db, { label: 'UNVOID-1' });
+    await makeStandardPath(ctx.db, p.id);
+    await passAll(rigger, p.id);
+    await rigger.post('/api/faults').send({ pointId: p.id, severity: 'low', description: 'Scuff' });
+    expect(await entries('point.clearance_voided')).toHaveLength(1);
+    expect((await owner.get('/api/audit/verify')).body.ok).toBe(true);
+    await ctx.db.raw('DROP TRIGGER clearance_voids_no_delete');
+    await ctx.db('clearance_voids').delete();
+    await ctx.db('points').where({ id: p.id }).update({ clearance_voided_at: null });
+    const verify = await owner.get('/api/audit/verify');
+    expect(verify.body.ok).toBe(false);
+    expect(verify.body.clearanceMismatches).toEqual([expect.objectContaining({ label: 'UNVOID-1', message: expect.stringMatching(/the void of its clearance .* is missing from the records: the point may read as cleared/) })]);
   });
 });
 

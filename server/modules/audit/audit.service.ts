@@ -48,6 +48,34 @@ export function auditService(deps: { db: Db; audit: AuditRepository; rig: RigRep
     return out;
   }
 
+  /**
+   * Every clearance and every void on record must have been written with its audit entry, and
+   * every one the audit chain names must still be on record: an inspection row inserted by hand,
+   * or a void row deleted, is reported by the point's label.
+   */
+  async function recordsOutsideTheChain(): Promise<ClearanceMismatch[]> {
+    const labels = new Map(((await db('points').select('id', 'label')) as Array<{ id: number; label: string }>).map((p) => [p.id, p.label]));
+    const cleared = (await db('inspections').where('cleared', true).whereNotNull('point_id').select('id', 'point_id', 'inspected_at')) as Array<{ id: number; point_id: number; inspected_at: string }>;
+    const voids = (await db('clearance_voids').select('inspection_id', 'point_id', 'at', 'reason')) as Array<{ inspection_id: number; point_id: number; at: string; reason: string }>;
+    const audited = (await db('audit_entries').whereIn('action', ['point.cleared', 'point.clearance_voided']).select('action', 'entity_id', 'at', 'after_json')) as Array<{ action: string; entity_id: number; at: string; after_json: string | null }>;
+    const named = (action: string) => new Map(audited.filter((a) => a.action === action).map((a) => [Number((JSON.parse(a.after_json ?? '{}') as { inspectionId?: number }).inspectionId), a]));
+    const clearedInChain = named('point.cleared');
+    const voidsInChain = named('point.clearance_voided');
+    const out: ClearanceMismatch[] = [];
+    const say = (pointId: number, message: string) => {
+      const label = labels.get(pointId) ?? `#${pointId}`;
+      out.push({ pointId, label, message: `Point ${label}: ${message}` });
+    };
+    const clearedIds = new Set(cleared.map((c) => c.id));
+    for (const c of cleared) if (!clearedInChain.has(c.id)) say(c.point_id, `inspection #${c.id} clearing it on ${c.inspected_at} is not in the audit chain: it was not recorded through Loftwise.`);
+    for (const [id, a] of clearedInChain) if (!clearedIds.has(id)) say(a.entity_id, `its clearance by inspection #${id} of ${a.at}, in the audit chain, is missing from the inspection records.`);
+    const voidIds = new Set(voids.map((v) => v.inspection_id));
+    // Voids carried over by migration 007 predate their audit entries; a void only ever blocks.
+    for (const v of voids) if (v.reason !== 'voided_before_records' && !voidsInChain.has(v.inspection_id)) say(v.point_id, `the void of its clearance on ${v.at} is not in the audit chain.`);
+    for (const [id, a] of voidsInChain) if (!voidIds.has(id)) say(a.entity_id, `the void of its clearance (inspection #${id}) on ${a.at}, in the audit chain, is missing from the records: the point may read as cleared.`);
+    return out;
+  }
+
   return {
     async verify(headText?: string): Promise<AuditVerification> {
       let published;
@@ -56,7 +84,7 @@ export function auditService(deps: { db: Db; audit: AuditRepository; rig: RigRep
         if (!published) throw new HttpError(400, 'invalid_request', 'A head reads count:hash, for example 42:3f… (64 hexadecimal characters), as printed on an export or a digest.', { source: 'query', fields: { head: 'Write it as count:hash' } });
       }
       const chain = await audit.verify(published ?? undefined);
-      const mismatches = await clearanceMismatches();
+      const mismatches = [...(await clearanceMismatches()), ...(await recordsOutsideTheChain())];
       const problems = [chain.problem, chain.publishedHead?.problem && chain.publishedHead.problem !== chain.problem ? chain.publishedHead.problem : null, ...mismatches.map((m) => m.message)].filter((p): p is string => Boolean(p));
       return { ...chain, ok: chain.ok && mismatches.length === 0, problem: problems[0] ?? null, problems, clearanceMismatches: mismatches };
     },

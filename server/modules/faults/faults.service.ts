@@ -4,6 +4,7 @@ import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
 import type { DocumentsService } from '../documents/documents.service';
 import type { RigRepository } from '../rig/rig.repository';
+import { voidClearance } from '../rig/clearance-voids';
 import type { CreateFault, FaultListQuery, ResolveFault } from '../../../shared/schemas/safety';
 import type { FaultsRepository } from './faults.repository';
 
@@ -32,7 +33,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
       const holder = await rig.pointOfGear(f.gearId, trx);
       if (holder) affected.add(holder);
     }
-    for (const p of affected) await rig.voidClearance(p, now, trx, { reason: 'fault_opened', source: `fault #${id}` });
+    for (const p of affected) await voidClearance(trx, { rig, audit }, { pointId: p, at: now, actorId: f.reportedBy, why: { reason: 'fault_opened', source: `fault #${id}` } });
     await audit.record(trx, { actorId: f.reportedBy, action: 'fault.opened', entity: 'fault', entityId: id, after: { pointId, gearId: f.gearId ?? null, severity: f.severity, description: f.description } }, now);
     return id;
   }
@@ -77,7 +78,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
           const holder = await rig.pointOfGear(fault.gearId, trx);
           if (holder) {
             await rig.swapGearInPath(fault.gearId, replacement.id, trx);
-            await rig.voidClearance(holder, now, trx, { reason: 'gear_replaced', source: `${fault.gearSerial ?? `gear #${fault.gearId}`} replaced by ${replacement.serial} resolving fault #${id}` });
+            await voidClearance(trx, { rig, audit }, { pointId: holder, at: now, actorId, why: { reason: 'gear_replaced', source: `${fault.gearSerial ?? `gear #${fault.gearId}`} replaced by ${replacement.serial} resolving fault #${id}` } });
           }
           await rig.updateGear(fault.gearId, { status: r.oldGearStatus ?? 'quarantined', statusReason: `Replaced after fault #${id}: ${r.note}` }, now, trx);
         }

@@ -279,12 +279,15 @@ export function rigRepository(db: Db) {
      * Voids the point's clearance, if it has a live one: a `clearance_voids` row for its latest
      * clearance (the record the status is derived from), and the cache columns on the point.
      */
-    async voidClearance(pointId: number, at: Date, trx: Db = db, why: VoidCause = { reason: 'rig_changed', source: '' }) {
+    async voidClearance(pointId: number, at: Date, trx: Db = db, why: VoidCause = { reason: 'rig_changed', source: '' }): Promise<{ inspectionId: number } | null> {
       const [latest] = await latestClearances(trx, [pointId]);
+      let written: { inspectionId: number } | null = null;
       if (latest && latest.voided_at === null) {
         await trx('clearance_voids').insert({ point_id: pointId, inspection_id: latest.inspection_id, at: at.toISOString(), reason: why.reason, source: why.source.slice(0, 200) }).onConflict('inspection_id').ignore();
+        written = { inspectionId: latest.inspection_id };
       }
       await trx('points').where({ id: pointId }).whereNotNull('last_cleared_at').whereNull('clearance_voided_at').update({ clearance_voided_at: at.toISOString() });
+      return written;
     },
     /** Each point's clearance as the append-only rows say: its latest clearance and any void of it. */
     async clearanceStates(pointIds: number[] | 'all', trx: Db = db): Promise<Map<number, ClearanceState>> {

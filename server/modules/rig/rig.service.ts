@@ -10,6 +10,7 @@ import { isApparatusKind } from '../../../shared/schemas/vocabulary';
 import { requiredFactorReasonOf, type Policy } from '../../../shared/schemas/policy';
 import type { GearRecord, RigRepository } from './rig.repository';
 import { loadSnapshots, type SnapshotBundle } from './point-snapshots';
+import { voidClearance } from './clearance-voids';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
 export const statusWire = (s: PointStatus) => ({ status: s.status, clearedUntil: s.clearedUntil?.toISOString() ?? null, reasons: s.reasons.map((r) => ({ code: r.code, message: r.message })) });
@@ -130,7 +131,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         await rig.updatePoint(id, patch, now, trx);
         // A new structural rating changes what the clearance vouched for.
         if (patch.structuralRatingKn !== undefined && patch.structuralRatingKn !== before.structuralRatingKn) {
-          await rig.voidClearance(id, now, trx, { reason: 'structural_rating_changed', source: `structural rating ${before.structuralRatingKn} kN → ${patch.structuralRatingKn} kN by user #${actorId}` });
+          await voidClearance(trx, { rig, audit }, { pointId: id, at: now, actorId, why: { reason: 'structural_rating_changed', source: `structural rating ${before.structuralRatingKn} kN → ${patch.structuralRatingKn} kN` } });
         }
         await audit.record(trx, { actorId, action: 'point.updated', entity: 'point', entityId: id, before, after: patch }, now);
       });
@@ -179,7 +180,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         const now = clock.now();
         const voided = voidsClearance(before, after) && current.point.lastClearedAt !== null && current.point.clearanceVoidedAt === null;
         await rig.replaceLinks(id, body.links.map((l) => ({ ...l, includedAngleDeg: l.leg ? l.includedAngleDeg : null })), trx);
-        if (voidsClearance(before, after)) await rig.voidClearance(id, now, trx, { reason: 'fixed_links_changed', source: `load path saved by user #${actorId}` });
+        if (voidsClearance(before, after)) await voidClearance(trx, { rig, audit }, { pointId: id, at: now, actorId, why: { reason: 'fixed_links_changed', source: 'load path saved' } });
         await audit.record(trx, { actorId, action: 'point.load_path_replaced', entity: 'point', entityId: id, before: before.links, after: after.links }, now);
         return { voided, changed: true };
       });
@@ -234,7 +235,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         const now = clock.now();
         await rig.updateGear(id, patch, now, trx);
         if (before.pointId !== null && gearRatingChangeVoids(before, after)) {
-          await rig.voidClearance(before.pointId, now, trx, { reason: 'gear_ratings_changed', source: `gear ${before.serial} edited by user #${actorId}` });
+          await voidClearance(trx, { rig, audit }, { pointId: before.pointId, at: now, actorId, why: { reason: 'gear_ratings_changed', source: `ratings of ${before.serial} edited` } });
         }
         await audit.record(trx, { actorId, action: 'gear.updated', entity: 'gear', entityId: id, before, after: patch }, now);
       });
