@@ -6,7 +6,17 @@ import { auditEntrySchema, auditFacetsSchema, auditFilters, type AuditFilters } 
 import { pageSchema } from '../../../shared/schemas/page';
 import { userSchema } from '../../../shared/schemas/staff';
 
-export const auditVerifySchema = z.object({ ok: z.boolean(), entries: z.number(), firstBadId: z.number().nullable(), problem: z.string().nullable() });
+const headSchema = z.object({ count: z.number(), hash: z.string() });
+export const auditVerifySchema = z.object({
+  ok: z.boolean(),
+  entries: z.number(),
+  firstBadId: z.number().nullable(),
+  problem: z.string().nullable(),
+  /** Every problem in words: the chain, a published head, each point whose clearance records disagree. */
+  problems: z.array(z.string()).default([]),
+  head: headSchema.optional(),
+  publishedHead: headSchema.extend({ found: z.boolean(), problem: z.string().nullable() }).optional(),
+});
 export type AuditVerify = z.infer<typeof auditVerifySchema>;
 export { auditEntrySchema, type AuditEntry } from '../../../shared/schemas/audit';
 
@@ -47,7 +57,8 @@ export function auditSearch(f: AuditFilterInput, timeZone: string): { search: st
 export const auditQueries = {
   all: ['audit'] as const,
   // Checked when the owner asks, not on every visit: it reads the whole chain.
-  verify: () => queryOptions({ queryKey: [...auditQueries.all, 'verify'], queryFn: () => api('/audit/verify', { schema: auditVerifySchema }), enabled: false, staleTime: 0 }),
+  verify: (head = '') =>
+    queryOptions({ queryKey: [...auditQueries.all, 'verify', head], queryFn: () => api(`/audit/verify${head ? `?head=${encodeURIComponent(head)}` : ''}`, { schema: auditVerifySchema }), enabled: false, staleTime: 0 }),
   recent: (limit = 25) => queryOptions({ queryKey: [...auditQueries.all, 'recent', limit], queryFn: async () => (await api(`/audit?limit=${limit}`, { schema: pageSchema(auditEntrySchema) })).items }),
   /** Entries matching a checked query string, newest first, a page at a time. */
   list: (search: string) =>
