@@ -7,7 +7,7 @@ import Database from 'better-sqlite3';
 import { createDb, migrate } from '../../server/db/knex';
 import { startFakeSmtp, type CaughtMessage, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { outboxMessageId } from '../../server/mail/deliver';
-import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_PASSWORD } from '../helpers/factories';
+import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_AUDIT_KEY, TEST_PASSWORD } from '../helpers/factories';
 import { freePort } from '../helpers/free-port';
 
 // The real server as a child process, killed with SIGKILL mid-load again and again, restarted on
@@ -80,6 +80,8 @@ async function start(port: number): Promise<ChildProcess> {
       UPLOAD_DIR: join(dir, 'uploads'),
       LOFTWISE_SEED: 'none',
       AUTH_SECRET: 'crash-test-secret-crash-test-secret-0123',
+      // The key the factories chain their audit entries under, so the server's entries follow them.
+      AUDIT_KEY: TEST_AUDIT_KEY,
       SMTP_URL: sink.url,
       OUTBOX_LEASE_SECONDS: String(LEASE_SECONDS),
       OUTBOX_INTERVAL_SECONDS: String(INTERVAL_SECONDS),
