@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { createApp } from '../../server/app';
-import { APP_URL, createTestApp, type TestContext } from '../helpers/app';
+import { APP_URL, createTestApp, TEST_AUDIT_KEY, type TestContext } from '../helpers/app';
 import { makeUser, TEST_PASSWORD } from '../helpers/factories';
 import type { LoftwiseApp } from '../../server/app';
 
@@ -140,7 +140,7 @@ describe('whose failures count', () => {
 describe('across processes', () => {
   it('counts failures in the database, so a second app on the same file refuses the eleventh', async () => {
     ctx = await proxied();
-    const second = createApp({ db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', uploadDir: ctx.dir, trustProxyHops: 1, log: () => undefined });
+    const second = createApp({ db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', auditKey: TEST_AUDIT_KEY, uploadDir: ctx.dir, trustProxyHops: 1, log: () => undefined });
     const rigger = await makeUser(ctx.db, { role: 'rigger' });
     for (let i = 0; i < 10; i++) await attempt(i % 2 ? second : ctx.app, '198.51.100.5', { email: rigger.email, password: `guess-${i}` });
     expect((await attempt(second, '198.51.100.5', { email: rigger.email, password: TEST_PASSWORD })).status).toBe(429);

@@ -1,5 +1,5 @@
 import { createHash, createHmac, timingSafeEqual } from 'node:crypto';
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 import type { AuditEntry, AuditListQuery } from '../../../shared/schemas/audit';
 
@@ -160,7 +160,7 @@ export function auditRepository(db: Db, key?: AuditKey) {
      */
     async rechainUnderKey(): Promise<number> {
       const k = needKey();
-      return db.transaction(async (trx) => {
+      return writeTransaction(db, async (trx) => {
         const rows = await trx<AuditRow>('audit_entries').orderBy('id');
         if (!walk(rows, unkeyedHashOf).ok) throw new Error('The unkeyed audit chain does not verify; it is not re-chained.');
         await trx.raw('DROP TRIGGER audit_entries_no_update');

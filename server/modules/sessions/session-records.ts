@@ -1,4 +1,4 @@
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { RigRepository } from '../rig/rig.repository';
 import type { StudioRepository } from '../studio/studio.repository';
 import { loadSnapshots } from '../rig/point-snapshots';
@@ -77,7 +77,7 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
     if (Array.isArray(sessionIds) && sessionIds.length === 0) return 0;
     // Usually every record is kept already: a read, and no write transaction.
     if (!(await missing(db, now, sessionIds)).length) return 0;
-    return db.transaction(async (trx) => {
+    return writeTransaction(db, async (trx) => {
       const rows = await missing(trx, now, sessionIds);
       if (!rows.length) return 0;
       const { policy } = await studio.get(trx);
