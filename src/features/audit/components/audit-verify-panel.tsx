@@ -39,7 +39,7 @@ export function AuditVerifyPanel({ timeZone }: { timeZone: string }) {
       <div aria-live="polite">
         {verify.isFetching && !r ? <Loading label="Checking every entry…" /> : verify.isError ? <ErrorState error={verify.error} retry={() => verify.refetch()} /> : r ? (
           r.ok ? (
-            <p className="flex items-start gap-2 rounded-lg bg-ok-50 p-3 text-ok-700"><ShieldCheck className="mt-0.5 size-5 shrink-0" aria-hidden /><span><strong>Intact.</strong> All {r.entries} entries follow one another and none was changed after it was written{r.publishedHead ? `; the published head (entry ${r.publishedHead.count}) is in the chain` : ''}.{r.head ? <> Head now: <code className="break-all">{r.head.count}:{r.head.hash}</code></> : null}</span></p>
+            <p className="flex items-start gap-2 rounded-lg bg-ok-50 p-3 text-ok-700"><ShieldCheck className="mt-0.5 size-5 shrink-0" aria-hidden /><span><strong>Intact.</strong> All {r.entries} entries follow one another, none was changed after it was written, and every point’s clearance agrees with its inspection records{r.publishedHead ? `; the published head (entry ${r.publishedHead.count}) is in the chain` : ''}.{r.head ? <> Head now: <code className="break-all">{r.head.count}:{r.head.hash}</code></> : null}</span></p>
           ) : (
             <div className="flex items-start gap-2 rounded-lg bg-stop-50 p-3 text-stop-700" role="alert">
               <ShieldX className="mt-0.5 size-5 shrink-0" aria-hidden />
