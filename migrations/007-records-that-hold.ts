@@ -53,7 +53,12 @@ export async function up(knex: Knex): Promise<void> {
     t.index(['point_id', 'starts_at']);
   });
   for (const sql of [...immutable('clearance_voids'), ...immutable('session_records')]) await knex.raw(sql);
-  // The periodic inspections of a point, newest first, for deriving its clearance.
+  // PRODUCT.md §4.9: the point's own clearance end, worked out when the rigger signs and kept with
+  // the clearance (before the mounted apparatus's cap, which follows that apparatus's own
+  // inspection). `cleared_until` keeps what the rigger was told, capped. Null on older rows: the
+  // policy alone decides for them. Adding a column touches no row, so the append-only triggers stand.
+  await knex.schema.alterTable('inspections', (t) => t.string('clearance_end', 30));
+  // The clearances of a point, newest first, for deriving its clearance.
   await knex.schema.alterTable('inspections', (t) => t.index(['point_id', 'cleared', 'inspected_at'], 'inspections_point_cleared_at'));
 
   // Points voided today: a void row for their latest clearance, at the time the column says.
@@ -75,6 +80,7 @@ export async function up(knex: Knex): Promise<void> {
 
 export async function down(knex: Knex): Promise<void> {
   await knex.schema.alterTable('inspections', (t) => t.dropIndex(['point_id', 'cleared', 'inspected_at'], 'inspections_point_cleared_at'));
+  await knex.schema.alterTable('inspections', (t) => t.dropColumn('clearance_end'));
   await knex.schema.dropTable('session_records');
   await knex.schema.dropTable('clearance_voids');
 }

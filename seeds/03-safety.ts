@@ -67,7 +67,7 @@ export async function seedSafety(trx: Db, now: Date, auditKey: string): Promise<
       const statusWhenSigned = until.getTime() <= addStudioDays(at, policy.warningDays, tz).getTime() ? 'expiring' : 'cleared';
       // Kept with the clearance: the point's own end, as the service works it out when the rigger signs.
       const kept = policyClearanceEnd(at, path, policy);
-      const inspectionId = await inspect({ kind: 'periodic', point_id: b.point.id, gear_id: null, inspector_id: rigger, notes: latest ? (plan.notes ?? '') : '', cleared: true, cleared_until: kept.toISOString(), point_status: statusWhenSigned, point_reasons_json: '[]' }, at, items);
+      const inspectionId = await inspect({ kind: 'periodic', point_id: b.point.id, gear_id: null, inspector_id: rigger, notes: latest ? (plan.notes ?? '') : '', cleared: true, cleared_until: until.toISOString(), clearance_end: kept.toISOString(), point_status: statusWhenSigned, point_reasons_json: '[]' }, at, items);
       for (const l of path) await renew(l.gear, at);
       await trx('points').where({ id: b.point.id }).update({ last_cleared_at: at.toISOString(), clearance_voided_at: null, updated_at: at.toISOString() });
       audit(at, { actorId: rigger, action: 'point.cleared', entity: 'point', entityId: b.point.id, after: { inspectionId, cleared: true, clearedUntil: until.toISOString(), keptUntil: kept.toISOString(), failed: [] } });

@@ -17,7 +17,7 @@ export async function seedRecords(trx: Db, now: Date): Promise<void> {
   const rows = (await trx('session_points').join('sessions', 'sessions.id', 'session_points.session_id').where('sessions.starts_at', '<=', now.toISOString()).select('session_points.session_id', 'session_points.point_id', 'sessions.starts_at')) as Array<{ session_id: number; point_id: number; starts_at: string }>;
   if (!rows.length) return;
   const bundles = new Map((await loadSnapshots(trx, rigRepository(trx), {}, trx)).map((b) => [b.point.id, b]));
-  const clearances = (await trx('inspections').leftJoin('clearance_voids', 'clearance_voids.inspection_id', 'inspections.id').where({ 'inspections.kind': 'periodic', 'inspections.cleared': true }).whereNotNull('inspections.point_id').orderBy([{ column: 'inspections.inspected_at' }, { column: 'inspections.id' }]).select('inspections.point_id', 'inspections.inspected_at', 'inspections.cleared_until', 'clearance_voids.at as voided_at')) as Array<{ point_id: number; inspected_at: string; cleared_until: string | null; voided_at: string | null }>;
+  const clearances = (await trx('inspections').leftJoin('clearance_voids', 'clearance_voids.inspection_id', 'inspections.id').where({ 'inspections.kind': 'periodic', 'inspections.cleared': true }).whereNotNull('inspections.point_id').orderBy([{ column: 'inspections.inspected_at' }, { column: 'inspections.id' }]).select('inspections.point_id', 'inspections.inspected_at', 'inspections.clearance_end', 'clearance_voids.at as voided_at')) as Array<{ point_id: number; inspected_at: string; clearance_end: string | null; voided_at: string | null }>;
   const faults = (await trx('faults').select('id', 'point_id', 'gear_id', 'severity', 'description', 'reported_at', 'resolved_at')) as Array<{ id: number; point_id: number | null; gear_id: number | null; severity: OpenFault['severity']; description: string; reported_at: string; resolved_at: string | null }>;
   const statusSince = new Map(((await trx('gear_items').whereNot('status', 'in_service').select('id', 'updated_at')) as Array<{ id: number; updated_at: string }>).map((g) => [g.id, g.updated_at]));
 
@@ -31,7 +31,7 @@ export async function seedRecords(trx: Db, now: Date): Promise<void> {
     const asAtStart: PointSnapshot = {
       ...b.snapshot,
       links: b.snapshot.links.map((l) => ({ ...l, gear: { ...l.gear, status: (statusSince.get(l.gear.id) ?? '') > start ? 'in_service' : l.gear.status } })),
-      lastClearance: clearance ? { at: new Date(clearance.inspected_at), voidedAt: clearance.voided_at && clearance.voided_at <= start ? new Date(clearance.voided_at) : null, until: clearance.cleared_until ? new Date(clearance.cleared_until) : null } : null,
+      lastClearance: clearance ? { at: new Date(clearance.inspected_at), voidedAt: clearance.voided_at && clearance.voided_at <= start ? new Date(clearance.voided_at) : null, until: clearance.clearance_end ? new Date(clearance.clearance_end) : null } : null,
       openFaults: faults
         .filter((f) => f.reported_at <= start && (!f.resolved_at || f.resolved_at > start) && (f.point_id === r.point_id || (f.gear_id !== null && inPath.has(f.gear_id))))
         .map((f) => ({ id: f.id, pointId: f.point_id, gearId: f.gear_id, severity: f.severity, description: f.description })),

@@ -57,7 +57,7 @@ export async function makeClearance(db: Db, pointId: number, at: string, o: { un
   let inspector = (await db('users').where({ email: 'records-fixture@example.test' }).first('id')) as { id: number } | undefined;
   inspector ??= await makeUser(db, { role: 'rigger', email: 'records-fixture@example.test', name: 'Records fixture', active: false });
   const [row] = await db('inspections')
-    .insert({ kind: 'periodic', point_id: pointId, inspector_id: inspector.id, inspected_at: new Date(at).toISOString(), studio_day: at.slice(0, 10), result: 'pass', notes: '', cleared: true, cleared_until: o.until ?? null })
+    .insert({ kind: 'periodic', point_id: pointId, inspector_id: inspector.id, inspected_at: new Date(at).toISOString(), studio_day: at.slice(0, 10), result: 'pass', notes: '', cleared: true, cleared_until: null, clearance_end: o.until ?? null })
     .returning('id');
   await db('points').where({ id: pointId }).update({ last_cleared_at: new Date(at).toISOString(), clearance_voided_at: null });
   const inspectionId = (row as { id: number }).id;

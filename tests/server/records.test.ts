@@ -1,5 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { as, createTestApp, type TestContext } from '../helpers/app';
+import { as, createTestApp, TEST_AUDIT_KEY, type TestContext } from '../helpers/app';
 import { makePoint, makeStandardPath, makeUser } from '../helpers/factories';
 import { csvRecords } from '../helpers/csv';
 import { auditRepository } from '../../server/modules/audit/audit.repository';
@@ -121,7 +121,7 @@ describe('GET /api/inspections/export.csv on a long history', () => {
     expect(ids.size).toBe(5_201);
     expect(header[0]).toBe('inspection');
 
-    const head = await auditRepository(ctx.db).head();
+    const head = await auditRepository(ctx.db, TEST_AUDIT_KEY).head();
     expect(head.count).toBeGreaterThan(0);
     expect(trailer).not.toBeNull();
     expect(trailer!.slice(0, 3)).toEqual(['# audit chain head', `${head.count}:${head.hash}`, '5201 inspections']);
@@ -203,12 +203,12 @@ describe('the printable log', () => {
     const p = await makePoint(ctx.db, { label: 'PR-1' });
     await bulkInspections(p.id, owner.user.id, 259);
     await ctx.db('inspections').insert({ kind: 'pre_use', point_id: p.id, inspector_id: owner.user.id, inspected_at: '2026-11-30T09:00:00.000Z', studio_day: '2026-11-30', result: 'pass', notes: '<script>alert(1)</script> & more', cleared: false });
-    await auditRepository(ctx.db).record(ctx.db, { actorId: owner.user.id, action: 'point.updated', entity: 'point', entityId: p.id, after: { label: 'PR-1' } }, ctx.clock.now());
+    await auditRepository(ctx.db, TEST_AUDIT_KEY).record(ctx.db, { actorId: owner.user.id, action: 'point.updated', entity: 'point', entityId: p.id, after: { label: 'PR-1' } }, ctx.clock.now());
     const res = await owner.get(`/api/inspections/export.html?pointId=${p.id}`);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toMatch(/text\/html/);
     expect(res.text.match(/<article /g)).toHaveLength(260);
-    const head = await auditRepository(ctx.db).head();
+    const head = await auditRepository(ctx.db, TEST_AUDIT_KEY).head();
     expect(res.text).toContain(`${head.count}:${head.hash}`);
     expect(res.text).toContain('260 inspections in this log');
     expect(res.text).toContain('of point PR-1');
@@ -227,7 +227,7 @@ describe('the printable log', () => {
 
 describe('GET /api/audit', () => {
   async function trail() {
-    const audit = auditRepository(ctx.db);
+    const audit = auditRepository(ctx.db, TEST_AUDIT_KEY);
     const ana = await makeUser(ctx.db, { role: 'rigger', name: 'Ana Rigger' });
     const bo = await makeUser(ctx.db, { role: 'reception', name: 'Bo Desk' });
     for (let k = 0; k < 150; k++) {

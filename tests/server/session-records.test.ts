@@ -303,7 +303,7 @@ describe('§4.9: a clearance keeps the end worked out when it was signed', () =>
     const cleared = await passAll(rigger, p.id);
     // The round sling is a textile: 30 days [studio choice].
     expect(cleared.body.clearedUntil).toBe('2026-12-31T10:00:00.000Z');
-    expect(await ctx.db('inspections').where({ id: cleared.body.inspectionId }).first('cleared_until')).toEqual({ cleared_until: '2026-12-31T10:00:00.000Z' });
+    expect(await ctx.db('inspections').where({ id: cleared.body.inspectionId }).first('cleared_until', 'clearance_end')).toEqual({ cleared_until: '2026-12-31T10:00:00.000Z', clearance_end: '2026-12-31T10:00:00.000Z' });
     const studioNow = (await owner.get('/api/studio')).body;
 
     const longer = { ...studioNow.policy, intervalDays: { ...studioNow.policy.intervalDays, textile: 3650, hardware: 3650, structure: 3650 } };
@@ -320,8 +320,8 @@ describe('§4.9: a clearance keeps the end worked out when it was signed', () =>
     // A clearance signed afterwards gets the longer interval (the structure's 3,650 days now the shortest).
     ctx.clock.set('2026-12-01T12:00:00Z');
     expect((await passAll(rigger, p.id)).body.clearedUntil).toBe('2036-11-28T12:00:00.000Z');
-    const kept = await ctx.db('inspections').where({ point_id: p.id, cleared: true }).orderBy('id', 'desc').first('cleared_until');
-    expect(kept.cleared_until).toBe('2036-11-28T12:00:00.000Z');
+    const kept = await ctx.db('inspections').where({ point_id: p.id, cleared: true }).orderBy('id', 'desc').first('clearance_end');
+    expect(kept.clearance_end).toBe('2036-11-28T12:00:00.000Z');
 
     const shorter = { ...longer, intervalDays: { textile: 7, hardware: 3650, structure: 3650 } };
     await owner.patch('/api/studio').send({ policy: shorter });

@@ -32,6 +32,8 @@ export interface NewInspection {
   notes: string;
   cleared: boolean;
   clearedUntil: string | null;
+  /** PRODUCT.md §4.9: the point's own clearance end kept with a clearance (before the apparatus cap). */
+  clearanceEnd?: string | null;
   /** The point's status as the rules saw it when signed (PRODUCT.md §10); null for gear on its own. */
   pointStatus: { status: RecordedPointStatus; reasons: Reason[] } | null;
   items: Array<{ key: string; label: string; result: Inspection['result']; note: string; gearId?: number }>;
@@ -141,6 +143,7 @@ export function inspectionsRepository(db: Db) {
           notes: i.notes,
           cleared: i.cleared,
           cleared_until: i.clearedUntil,
+          clearance_end: i.clearanceEnd ?? null,
           point_status: i.pointStatus?.status ?? null,
           point_reasons_json: i.pointStatus ? JSON.stringify(i.pointStatus.reasons.map((r) => ({ code: r.code, message: r.message }))) : null,
         })

@@ -93,7 +93,9 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             result: failed.length ? 'fail' : body.items.some((i) => i.result === 'attention') ? 'attention' : 'pass',
             notes: body.notes ?? '',
             cleared,
-            clearedUntil: signedEnd?.toISOString() ?? null,
+            // What the rigger is told (capped by the apparatus), and the point's own end the status is kept to.
+            clearedUntil: until?.toISOString() ?? null,
+            clearanceEnd: signedEnd?.toISOString() ?? null,
             pointStatus: atSigning,
             items: body.items.map((i) => ({ key: i.key, label: byKey.get(i.key)!.label, result: i.result, note: i.note ?? '', gearId: byKey.get(i.key)!.gearId })),
           },

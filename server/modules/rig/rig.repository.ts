@@ -124,7 +124,7 @@ interface LatestClearanceRow {
   point_id: number;
   inspection_id: number;
   inspected_at: string;
-  cleared_until: string | null;
+  clearance_end: string | null;
   voided_at: string | null;
 }
 
@@ -141,7 +141,7 @@ async function latestClearances(trx: Db, pointIds: number[] | 'all'): Promise<La
     .leftJoin('clearance_voids as v', 'v.inspection_id', 'i.id')
     .where('i.cleared', true)
     .orderBy('i.id')
-    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.cleared_until', 'v.at as voided_at')) as LatestClearanceRow[];
+    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.clearance_end', 'v.at as voided_at')) as LatestClearanceRow[];
   // Two clearances at the same instant: the one written last.
   const byPoint = new Map<number, LatestClearanceRow>();
   for (const r of rows) byPoint.set(r.point_id, r);
@@ -292,7 +292,7 @@ export function rigRepository(db: Db) {
     /** Each point's clearance as the append-only rows say: its latest clearance and any void of it. */
     async clearanceStates(pointIds: number[] | 'all', trx: Db = db): Promise<Map<number, ClearanceState>> {
       const rows = await latestClearances(trx, pointIds);
-      return new Map(rows.map((r) => [r.point_id, { inspectionId: r.inspection_id, at: r.inspected_at, until: r.cleared_until, voidedAt: r.voided_at }]));
+      return new Map(rows.map((r) => [r.point_id, { inspectionId: r.inspection_id, at: r.inspected_at, until: r.clearance_end, voidedAt: r.voided_at }]));
     },
 
     // ---- gear

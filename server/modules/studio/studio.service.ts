@@ -11,7 +11,8 @@ export function policyChanges(before: unknown, after: unknown, path = ''): Array
   if (isObject(before) && isObject(after)) {
     return [...new Set([...Object.keys(before), ...Object.keys(after)])].flatMap((k) => policyChanges(before[k], after[k], path ? `${path}.${k}` : k));
   }
-  return JSON.stringify(before) === JSON.stringify(after) ? [] : [{ field: path, before: before ?? null, after: after ?? null }];
+  // A field absent and a field null say the same (an older stored policy lacks newer fields).
+  return JSON.stringify(before ?? null) === JSON.stringify(after ?? null) ? [] : [{ field: path, before: before ?? null, after: after ?? null }];
 }
 
 export function studioService(repo: StudioRepository, clock: Clock, deps: { db: Db; audit: AuditRepository }) {
