@@ -247,6 +247,24 @@ describe('§4.7: apparatus changeovers', () => {
     expect((await desk.post('/api/sessions').send({ ...overlapping, ...at(3, 20), apparatus: [{ pointId: b.id, gearId: hoop }] })).status).toBe(201);
   });
 
+  it('tells the booking dialog, point by point, when a changeover will be needed', async () => {
+    const s = await studio();
+    const desk = await as(ctx, 'reception');
+    const a = await point(s.roomId, 'LS-12', { kind: 'fabric', serial: 'FB-12' });
+    const b = await point(s.roomId, 'LS-13', { kind: 'hoop', serial: 'HP-MOUNTED', majorKn: 24 });
+    const c = await point(s.roomId, 'LS-14', { kind: 'fabric', serial: 'FB-14' });
+    await stock('hoop', 'HP-0701');
+    const hoopClass = await classType('Hoop', 'hoop');
+    const q = new URLSearchParams({ roomId: String(s.roomId), classTypeId: String(hoopClass), ...at(3, 18) });
+    const res = await desk.get(`/api/sessions/availability?${q}`);
+    expect(res.status).toBe(200);
+    const byLabel = Object.fromEntries(res.body.points.map((p: { label: string }) => [p.label, p]));
+    expect(byLabel['LS-12']).toMatchObject({ pointId: a.id, bookable: true, apparatus: { serial: 'HP-0701', kind: 'hoop', changeover: true } });
+    expect(byLabel['LS-13']).toMatchObject({ pointId: b.id, bookable: true, apparatus: { serial: 'HP-MOUNTED', changeover: false } });
+    // Each point is asked about on its own: the one spare hoop is offered to either.
+    expect(byLabel['LS-14']).toMatchObject({ pointId: c.id, bookable: true, apparatus: { serial: 'HP-0701', changeover: true } });
+  });
+
   it('gives each class of a series its apparatus', async () => {
     const s = await studio();
     const desk = await as(ctx, 'reception');

@@ -57,7 +57,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
    */
   async function checkOccurrence(
     trx: Db,
-    a: { classType: ClassType; policy: Policy; now: Date; roomId: number; instructorId: number; occ: Occurrence; pointIds: number[]; bundles: Map<number, SnapshotBundle>; exclude: number[]; named?: Map<number, { gearId: number; prefer?: boolean }> },
+    a: { classType: ClassType; policy: Policy; now: Date; roomId: number; instructorId: number; occ: Occurrence; pointIds: number[]; bundles: Map<number, SnapshotBundle>; exclude: number[]; named?: Map<number, { gearId: number; prefer?: boolean }>; eachAlone?: boolean },
   ) {
     const profile = profileFor(a.classType, a.policy);
     const kind = a.classType.apparatus;
@@ -116,7 +116,8 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       if (hung && (busyElsewhere(hung.id, pointId) || taken.has(hung.id))) {
         reasons.push({ code: reasonCodes.apparatusDoubleBooked, message: `${gearName(hung)} already hangs for another class at that time, so it cannot also hang on point ${label}.` });
       }
-      if (hung) taken.add(hung.id);
+      // Points asked about one by one (the picker, suggested replacements) do not share out the items.
+      if (hung && !a.eachAlone) taken.add(hung.id);
       if (b.point.roomId !== a.roomId) reasons.push({ code: 'point_not_in_room', message: `${b.point.label} hangs in ${b.point.roomName}, not in this class’s room.` });
       const apparatus = hung ? { gearId: hung.id, kind: hung.kind, serial: hung.serial, changeover: hanging.changeover } : null;
       return { pointId, reasons, warnings: check.warnings, apparatus };
@@ -212,6 +213,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         pointIds: roomPoints,
         bundles,
         exclude: q.excludeSessionId ? [q.excludeSessionId] : [],
+        eachAlone: true,
       });
       return {
         points: result.points.map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, bookable: p.reasons.length === 0, reasons: p.reasons, warnings: p.warnings, apparatus: p.apparatus })),
@@ -362,7 +364,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const candidates = [...bundles.keys()].filter((p) => !s.pointIds.includes(p));
       const now = clock.now();
       const occ = { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) };
-      const c = await checkOccurrence(db, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ, pointIds: candidates, bundles, exclude: [id] });
+      const c = await checkOccurrence(db, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ, pointIds: candidates, bundles, exclude: [id], eachAlone: true });
       return c.points
         .filter((p) => p.reasons.every((r) => r.code === 'point_not_in_room'))
         .map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, roomId: bundles.get(p.pointId)!.point.roomId, roomName: bundles.get(p.pointId)!.point.roomName, sameRoom: p.reasons.length === 0, warnings: p.warnings }))
