@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs, uniqueTag } from './browser';
+import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs, studioDate, uniqueTag } from './browser';
 
 /*
  * PRODUCT.md §4.7 in a real browser: a hoop class booked on a point with a fabric mounted shows
@@ -55,6 +55,8 @@ beforeAll(async () => {
     instructorId: instructor.id,
     roomId,
     pointIds: [pointId],
+    // Named, as reception may: the demo's gear room has hoops of its own.
+    apparatus: [{ pointId, gearId: hoopId }],
     startsAt,
     endsAt: new Date(start.getTime() + 60 * 60_000).toISOString(),
   });
@@ -107,5 +109,23 @@ describe('apparatus changeovers in the browser', () => {
     expect(point.links.at(-1)?.gear.serial).toBe(HOOP);
     expect(point.status.status).not.toBe('blocked'); // mounting voids nothing
     await shot(phone, 'changeover-mounted');
+  });
+
+  it('says in the booking dialog that a silks class on that point now needs its fabric mounted back', async () => {
+    const desk = reception.pages()[0];
+    await desk.goto(`${baseUrl}/schedule`);
+    await desk.getByRole('heading', { name: 'Schedule', level: 1 }).waitFor();
+    await desk.getByRole('button', { name: 'Book a class' }).click();
+    const dialog = desk.getByRole('dialog', { name: 'Book a class' });
+    await dialog.waitFor();
+    await dialog.getByLabel('Class type').selectOption({ label: 'Silks Foundations' });
+    await dialog.getByLabel('Instructor').selectOption({ label: `Cleo Changeover ${tag}` });
+    await dialog.getByLabel('Room').selectOption({ label: ROOM });
+    await dialog.getByLabel('Day').fill(studioDate(4));
+    await dialog.getByLabel('Starts').fill('07:00');
+    const row = dialog.getByRole('group', { name: 'Points' }).getByRole('listitem').filter({ hasText: LABEL });
+    await expect.poll(() => row.innerText(), { timeout: 15_000 }).toContain('Changeover needed: fabric');
+    expect(await row.innerText()).toContain('Can take this class');
+    await shot(desk, 'changeover-picker');
   });
 });
