@@ -176,7 +176,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
      */
     async mountApparatus(id: number, gearId: number, actorId: number) {
       const { policy } = await studio.get();
-      const result = await db.transaction(async (trx) => {
+      const result = await writeTransaction(db, async (trx) => {
         const now = clock.now();
         const b = await bundle(id, trx);
         const g = await rig.gearById(gearId, trx);
