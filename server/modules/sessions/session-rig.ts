@@ -1,7 +1,7 @@
 import type { Db } from '../../db/knex';
 import type { RigRepository } from '../rig/rig.repository';
 import { loadApparatus, type ApparatusBundle, type SnapshotBundle } from '../rig/point-snapshots';
-import { changeoverOf, hangFor, sessionRisk, type Changeover, type ClassOnPoint, type HangingPoint } from '../../../shared/clearance';
+import { changeoverOf, hangFor, profileFor, sessionRisk, type Changeover, type ClassOnPoint, type HangingPoint } from '../../../shared/clearance';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ApparatusKind } from '../../../shared/schemas/vocabulary';
 
@@ -24,11 +24,8 @@ export interface BookedClass {
 /** The class's load profile: its own figures where set, else the policy's (PRODUCT.md §3). */
 export function classOnPoint(c: BookedClass, policy: Policy): ClassOnPoint {
   const apparatus = c.apparatus as ApparatusKind;
-  return {
-    apparatus,
-    performersPerPoint: c.performersPerPoint,
-    profile: { performers: c.performersPerPoint, bodyMassKg: c.bodyMassKg ?? policy.bodyMassKg, dynamicFactor: c.dynamicFactor ?? policy.dynamicFactors[apparatus] },
-  };
+  const { name: _name, ...profile } = profileFor({ ...c, name: '', apparatus }, policy);
+  return { apparatus, performersPerPoint: c.performersPerPoint, profile };
 }
 
 /** Every apparatus item recorded for these classes, loaded once. */
