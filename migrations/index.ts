@@ -4,6 +4,7 @@ import * as m002 from './002-rig-register';
 import * as m003 from './003-inspections-faults-audit';
 import * as m004 from './004-schedule';
 import * as m005 from './005-outbox';
+import * as m006 from './006-session-apparatus';
 import * as m007 from './007-records-that-hold';
 import * as m008 from './008-sign-in-limits-and-session-versions';
 import * as m010 from './010-inspection-status';
@@ -18,6 +19,7 @@ const migrations: Record<string, Knex.Migration> = {
   '003-inspections-faults-audit': m003,
   '004-schedule': m004,
   '005-outbox': m005,
+  '006-session-apparatus': m006,
   '007-records-that-hold': m007,
   '008-sign-in-limits-and-session-versions': m008,
   '010-inspection-status': m010,

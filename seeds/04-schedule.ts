@@ -2,7 +2,9 @@ import type { Db } from '../server/db/knex';
 import { loadSnapshots, type SnapshotBundle } from '../server/modules/rig/point-snapshots';
 import { rigRepository } from '../server/modules/rig/rig.repository';
 import { studioRepository } from '../server/modules/studio/studio.repository';
-import { clearedUntil, pointStatusAt, sessionRisk } from '../shared/clearance';
+import { clearedUntil, hangFor, pointStatusAt } from '../shared/clearance';
+import { riskOf, type BookedClass } from '../server/modules/sessions/session-rig';
+import type { ApparatusKind } from '../shared/schemas/vocabulary';
 import type { Policy } from '../shared/schemas/policy';
 import { localTime, userIdByEmail, weekdayCode } from './demo-data';
 import { cancelledOccurrence, classTypePlans, slotClock, weeklyClasses } from './demo-week';
@@ -24,7 +26,7 @@ export async function seedSchedule(trx: Db, now: Date): Promise<void> {
   const tz = policy.timeZone;
   const created = localTime(now, -60, '09:00', tz).toISOString();
 
-  const classTypes = new Map<string, { id: number; durationMinutes: number }>();
+  const classTypes = new Map<string, { id: number; durationMinutes: number; cls: BookedClass }>();
   for (const c of classTypePlans) {
     const found = (await trx('class_types').where({ name: c.name }).first('id')) as { id: number } | undefined;
     const id =
@@ -36,7 +38,7 @@ export async function seedSchedule(trx: Db, now: Date): Promise<void> {
             .returning('id')
         )[0] as { id: number }
       ).id;
-    classTypes.set(c.name, { id, durationMinutes: c.durationMinutes });
+    classTypes.set(c.name, { id, durationMinutes: c.durationMinutes, cls: { apparatus: c.apparatus, performersPerPoint: c.performersPerPoint, dynamicFactor: c.dynamicFactor ?? null, bodyMassKg: null, pointIds: [], recordedApparatus: [] } });
   }
   if (await trx('sessions').first('id')) return;
 
@@ -68,7 +70,9 @@ export async function seedSchedule(trx: Db, now: Date): Promise<void> {
           return future || !t || t.getTime() > startsAt.getTime() - SWAP_NOTICE_MS;
         });
       const cancelled = cls.day === cancelledOccurrence.day && cls.classType === cancelledOccurrence.classType && offset === cls.day + 7 * cancelledOccurrence.weeksAhead;
-      const risk = sessionRisk({ points: points.map((b) => b.snapshot), policy, now, startsAt, endsAt, cancelled });
+      // Each class hangs the apparatus mounted on its points (the plan books each on its own kind).
+      const hung = points.map((b) => ({ bundle: b, hanging: hangFor(b.snapshot, type.cls.apparatus as ApparatusKind, null) }));
+      const risk = riskOf(type.cls, hung, policy, now, { startsAt, endsAt, cancelled });
       const [session] = await trx('sessions')
         .insert({
           class_type_id: type.id,
@@ -89,6 +93,8 @@ export async function seedSchedule(trx: Db, now: Date): Promise<void> {
       await trx('session_points').insert(
         points.map((b) => ({ session_id: sessionId, point_id: b.point.id, starts_at: startsAt.toISOString(), ends_at: endsAt.toISOString(), cancelled })),
       );
+      const apparatus = hung.filter((h) => h.hanging.apparatus).map((h) => ({ session_id: sessionId, point_id: h.bundle.point.id, gear_id: h.hanging.apparatus!.id, starts_at: startsAt.toISOString(), ends_at: endsAt.toISOString(), cancelled }));
+      if (apparatus.length) await trx('session_apparatus').insert(apparatus);
     }
   }
 }

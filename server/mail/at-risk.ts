@@ -1,4 +1,4 @@
-import { sessionRisk } from '../../shared/clearance';
+import { riskOf } from '../modules/sessions/session-rig';
 import type { MailCycleContext } from './context';
 import type { MailSession } from './mail-data.repository';
 import { atRiskMessage } from './templates/at-risk';
@@ -55,19 +55,12 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
 
 /** The points in trouble for a session at `ctx.now`, each with its reasons; null when it is not at risk. */
 async function troubleOf(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
-  const bundles = await ctx.snapshots();
-  const ids = pointIds.filter((id) => bundles.has(id));
-  const risk = sessionRisk({
-    points: ids.map((id) => bundles.get(id)!.snapshot),
-    policy: ctx.policy,
-    now: ctx.now,
-    startsAt: new Date(s.startsAt),
-    endsAt: new Date(s.endsAt),
-    cancelled: s.cancelled,
-  });
+  // Each point as it hangs for the class now: §4.6 re-checks the class on it (load, kind, performers).
+  const hung = await ctx.hanging(s, pointIds);
+  const risk = riskOf({ ...s, pointIds, recordedApparatus: [] }, hung, ctx.policy, ctx.now, { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt), cancelled: s.cancelled });
   if (!risk.atRisk) return null;
-  return ids
-    .map((id) => ({ label: bundles.get(id)!.point.label, reasons: risk.reasons.filter((r) => r.pointId === id).map((r) => r.message) }))
+  return hung
+    .map(({ bundle }) => ({ label: bundle.point.label, reasons: risk.reasons.filter((r) => r.pointId === bundle.point.id).map((r) => r.message) }))
     .filter((p) => p.reasons.length > 0);
 }
 

@@ -3,7 +3,8 @@ import type { Policy } from '../../shared/schemas/policy';
 import { loadSnapshots, type SnapshotBundle } from '../modules/rig/point-snapshots';
 import { rigRepository, type RigRepository } from '../modules/rig/rig.repository';
 import { outboxRepository, type OutboxRepository } from '../modules/outbox/outbox.repository';
-import { mailDataRepository, type MailDataRepository } from './mail-data.repository';
+import { mailDataRepository, type MailDataRepository, type MailSession } from './mail-data.repository';
+import { hangingOf, loadRecorded, type BookedClass, type HungPoint } from '../modules/sessions/session-rig';
 
 /** What one worker cycle reads: the instant it runs for, the studio as it is now, and its stores. */
 export interface MailCycleContext {
@@ -17,6 +18,8 @@ export interface MailCycleContext {
   rig: RigRepository;
   /** Every point's snapshot, loaded once per cycle on first use. */
   snapshots(): Promise<Map<number, SnapshotBundle>>;
+  /** A session's points as they hang for its class (PRODUCT.md §4.7), read afresh. */
+  hanging(s: MailSession, pointIds: number[]): Promise<HungPoint[]>;
 }
 
 export function cycleContext(db: Db, now: Date, studio: { name: string; policy: Policy }, appUrl: string): MailCycleContext {
@@ -32,5 +35,11 @@ export function cycleContext(db: Db, now: Date, studio: { name: string; policy: 
     data: mailDataRepository(db),
     rig,
     snapshots: () => (cached ??= loadSnapshots(db, rig).then((list) => new Map(list.map((b) => [b.point.id, b])))),
+    async hanging(s, pointIds) {
+      const bundles = await this.snapshots();
+      const recordedApparatus = (await this.data.recordedApparatusOf([s.id])).get(s.id) ?? [];
+      const cls: BookedClass = { ...s, pointIds, recordedApparatus };
+      return hangingOf(cls, bundles, await loadRecorded(rig, [cls], db));
+    },
   };
 }

@@ -14,6 +14,11 @@ export interface MailSession {
   cancelReason: string | null;
   atRisk: boolean;
   instructor: { id: number; name: string; email: string; active: boolean };
+  /** The class's kind and load figures, for the §4.6 re-check of its points. */
+  apparatus: string;
+  performersPerPoint: number;
+  dynamicFactor: number | null;
+  bodyMassKg: number | null;
 }
 
 export interface StaffMember {
@@ -38,6 +43,10 @@ interface SessionJoinRow {
   instructor_name: string;
   instructor_email: string;
   instructor_active: number | boolean;
+  apparatus: string;
+  performers_per_point: number;
+  dynamic_factor: number | null;
+  body_mass_kg: number | null;
 }
 
 const toSession = (r: SessionJoinRow): MailSession => ({
@@ -51,6 +60,10 @@ const toSession = (r: SessionJoinRow): MailSession => ({
   cancelReason: r.cancel_reason,
   atRisk: Boolean(r.at_risk),
   instructor: { id: r.instructor_id, name: r.instructor_name, email: r.instructor_email, active: Boolean(r.instructor_active) },
+  apparatus: r.apparatus,
+  performersPerPoint: r.performers_per_point,
+  dynamicFactor: r.dynamic_factor,
+  bodyMassKg: r.body_mass_kg,
 });
 
 function sessionSelect(trx: Db) {
@@ -69,6 +82,10 @@ function sessionSelect(trx: Db) {
       'sessions.at_risk',
       'sessions.instructor_id',
       'class_types.name as class_name',
+      'class_types.apparatus',
+      'class_types.performers_per_point',
+      'class_types.dynamic_factor',
+      'class_types.body_mass_kg',
       'rooms.name as room_name',
       'users.name as instructor_name',
       'users.email as instructor_email',
@@ -120,6 +137,15 @@ export function mailDataRepository(db: Db) {
       if (!sessionIds.length) return out;
       const rows = (await trx('session_points').whereIn('session_id', sessionIds).orderBy('point_id').select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>;
       for (const r of rows) out.get(r.session_id)?.push(r.point_id);
+      return out;
+    },
+
+    /** The apparatus recorded per point of each session (PRODUCT.md §4.7). */
+    async recordedApparatusOf(sessionIds: number[], trx: Db = db): Promise<Map<number, Array<{ pointId: number; gearId: number }>>> {
+      const out = new Map<number, Array<{ pointId: number; gearId: number }>>(sessionIds.map((id) => [id, []]));
+      if (!sessionIds.length) return out;
+      const rows = (await trx('session_apparatus').whereIn('session_id', sessionIds).orderBy('point_id').select('session_id', 'point_id', 'gear_id')) as Array<{ session_id: number; point_id: number; gear_id: number }>;
+      for (const r of rows) out.get(r.session_id)?.push({ pointId: r.point_id, gearId: r.gear_id });
       return out;
     },
 

@@ -4,6 +4,7 @@ import type { MailSession } from './mail-data.repository';
 import { reminderMessage } from './templates/reminder';
 import type { MailPoint } from './templates/points';
 import { writeTransaction } from '../db/knex';
+import { changeoversOf, type HungPoint } from '../modules/sessions/session-rig';
 
 const HOUR = 3_600_000;
 
@@ -58,6 +59,7 @@ export async function scheduleReminders(ctx: MailCycleContext): Promise<{ queued
  * status at the start. Written when the reminder is queued, and again when it is sent.
  */
 export async function reminderFor(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
+  const hung = await ctx.hanging(s, pointIds);
   return reminderMessage({
     studioName: ctx.studioName,
     timeZone: ctx.policy.timeZone,
@@ -68,18 +70,16 @@ export async function reminderFor(ctx: MailCycleContext, s: MailSession, pointId
     instructorName: s.instructor.name,
     startsAt: new Date(s.startsAt),
     endsAt: new Date(s.endsAt),
-    points: await pointsAtStart(ctx, s, pointIds),
+    points: pointsAtStart(ctx, s, hung),
+    changeovers: changeoversOf(hung, new Date(s.startsAt), ctx.policy.timeZone, false).map((c) => c.message),
   });
 }
 
-async function pointsAtStart(ctx: MailCycleContext, s: MailSession, ids: number[]): Promise<MailPoint[]> {
-  const bundles = await ctx.snapshots();
+/** Each point as it hangs for the class, at the start (with its own apparatus, §4.7). */
+function pointsAtStart(ctx: MailCycleContext, s: MailSession, hung: HungPoint[]): MailPoint[] {
   const startsAt = new Date(s.startsAt);
-  return ids
-    .map((id) => bundles.get(id))
-    .filter((b) => b !== undefined)
-    .map((b) => {
-      const st = pointStatusAt(b.snapshot, ctx.policy, startsAt);
-      return { label: b.point.label, status: st.status, reasons: st.reasons.map((r) => r.message), clearedUntil: st.clearedUntil };
-    });
+  return hung.map(({ bundle, hanging }) => {
+    const st = pointStatusAt(hanging.snapshot, ctx.policy, startsAt);
+    return { label: bundle.point.label, status: st.status, reasons: st.reasons.map((r) => r.message), clearedUntil: st.clearedUntil };
+  });
 }

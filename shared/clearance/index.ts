@@ -2,6 +2,7 @@ export * from './types';
 export * from './status';
 export * from './voiding';
 export * from './booking';
+export * from './apparatus';
 export * from './preuse';
 export * from './checklist';
 export * from './validity';

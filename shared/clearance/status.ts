@@ -34,6 +34,11 @@ export function formatStudioDateTime(instant: Date, timeZone: string): string {
 }
 const formatZoned = memoize((ms: number, timeZone: string, pattern: string) => format(new TZDate(ms, timeZone), pattern));
 
+/** An instant in the studio's zone with a date-fns pattern, e.g. 'HH:mm' → "18:30". */
+export function formatZonedPattern(instant: Date, timeZone: string, pattern: string): string {
+  return formatZoned(instant.getTime(), timeZone, pattern);
+}
+
 /** A calendar day as the studio reads it, e.g. "3 Nov 2025". */
 export function formatStudioDay(instant: Date, timeZone: string): string {
   return formatZoned(instant.getTime(), timeZone, 'd MMM yyyy');

@@ -86,4 +86,6 @@ export const reasonCodes = {
   pointDoubleBooked: 'point_double_booked',
   instructorDoubleBooked: 'instructor_double_booked',
   inspectionDue: 'inspection_due',
+  noApparatusAvailable: 'no_apparatus_available',
+  apparatusDoubleBooked: 'apparatus_double_booked',
 } as const;

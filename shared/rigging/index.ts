@@ -22,7 +22,9 @@ export {
   type Toward,
 } from './format';
 export {
+  MINOR_DEFAULT_CAP_KN,
   MINOR_DEFAULT_FRACTION,
+  assumedMinorKn,
   describeGear,
   effectiveStrengthKn,
   gearKindLabels,
@@ -50,6 +52,7 @@ export {
   gateOpen,
   gateOpenUnrated,
   manyLinks,
+  minorRatingAssumed,
   ratingFindings,
   threeWayOnConnector,
   type RuleFindings,

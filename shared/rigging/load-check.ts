@@ -5,6 +5,7 @@ import {
   describeGear,
   effectiveStrengthKn,
   isUsableStrength,
+  MINOR_DEFAULT_CAP_KN,
   MINOR_DEFAULT_FRACTION,
   type EffectiveStrength,
   type StrengthBasis,
@@ -28,6 +29,7 @@ const BASIS_WORDS: Record<StrengthBasis, string> = {
   major: 'its major-axis rating',
   minor: 'its minor-axis rating',
   minor_default_30pct: '30 % of its major-axis rating, as no minor-axis rating is entered',
+  minor_default_cap: 'the 7 kN cap on the assumed minor-axis figure (below 30 % of its major-axis rating), as no minor-axis rating is entered',
   gate_open: 'its gate-open rating',
   gate_open_unrated: 'nothing, as no gate-open rating is entered',
 };
@@ -119,7 +121,9 @@ export function checkLoadPath(input: LoadCheckInput): LoadCheckResult {
         majorKn: gear.majorKn,
         minorKn: gear.minorKn,
         gateOpenKn: gear.gateOpenKn,
-        ...(figure.strength.basis === 'minor_default_30pct' ? { defaultMinorFraction: MINOR_DEFAULT_FRACTION } : {}),
+        ...(figure.strength.basis === 'minor_default_30pct' || figure.strength.basis === 'minor_default_cap'
+          ? { defaultMinorFraction: MINOR_DEFAULT_FRACTION, defaultMinorCapKn: MINOR_DEFAULT_CAP_KN }
+          : {}),
       },
       output: figure.strength.kn,
       unit: 'kN',

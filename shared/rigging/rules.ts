@@ -1,6 +1,6 @@
 import { isApparatusKind, isConnectorKind, type ForceUnit } from '../schemas/vocabulary';
 import { parseBridle, type BridleLayout } from './bridle';
-import { describeGear, effectiveStrengthKn, isUsableStrength, validateRatings } from './strength';
+import { assumedMinorKn, describeGear, effectiveStrengthKn, isUsableStrength, MINOR_DEFAULT_CAP_KN, validateRatings } from './strength';
 import type { Finding, LinkInput } from './types';
 import { formatForce } from './format';
 
@@ -27,12 +27,33 @@ export function ratingFindings(link: LinkInput, index: number): Finding[] {
   return validateRatings(link.gear).map((finding) => ({ ...finding, linkIndex: index }));
 }
 
-/** Violation: a connector not rated multi-directional takes three strands (a three-way load). */
-export function threeWayOnConnector(link: LinkInput, index: number): Finding | null {
-  if (!link.threeWay || !isConnectorKind(link.gear.kind) || link.gear.multiDirectional) return null;
+/**
+ * Violation: a connector not rated multi-directional takes three strands (a three-way load).
+ * `bridleMeeting`: the link a bridle's legs meet in takes three strands by construction
+ * (PRODUCT.md §4.2), so the rule applies to it whether or not its flag is set.
+ */
+export function threeWayOnConnector(link: LinkInput, index: number, bridleMeeting = false): Finding | null {
+  if (!(link.threeWay || bridleMeeting) || !isConnectorKind(link.gear.kind) || link.gear.multiDirectional) return null;
+  const why = bridleMeeting ? 'takes a three-way load (the two bridle legs meet in it and the load hangs below)' : 'takes a three-way load';
   return {
     code: 'three_way_on_connector',
-    message: `${nameOf(link)} takes a three-way load but is not rated multi-directional. Use a tri or delta screw link, or a swivel base, rated for a three-way load.`,
+    message: `${nameOf(link)} ${why} but is not rated multi-directional. Use a tri or delta screw link, or a swivel base, rated for a three-way load.`,
+    linkIndex: index,
+  };
+}
+
+/** Warning: no minor-axis rating is entered, so a cross-loaded link counts at an assumed figure. */
+export function minorRatingAssumed(link: LinkInput, index: number, options: RuleOptions = {}): Finding | null {
+  if (link.mode !== 'minor' || link.gear.minorKn !== null || !isUsableStrength(link.gear.majorKn)) return null;
+  const unit = options.displayUnit ?? 'kN';
+  const assumed = assumedMinorKn(link.gear.majorKn);
+  const rule =
+    assumed.basis === 'minor_default_cap'
+      ? `the lesser of 30 % of its major rating and ${formatForce(MINOR_DEFAULT_CAP_KN, unit)}, the smallest minor-axis minimum of EN 12275's classes`
+      : `30 % of its major rating (the lesser of that and ${formatForce(MINOR_DEFAULT_CAP_KN, unit)})`;
+  return {
+    code: 'minor_rating_assumed',
+    message: `${nameOf(link)} has no minor-axis rating entered, so it is counted at ${formatForce(assumed.kn, unit)} across its minor axis: ${rule}. Enter the maker's minor-axis rating from its marking.`,
     linkIndex: index,
   };
 }
@@ -55,7 +76,9 @@ export function crossLoaded(link: LinkInput, index: number, options: RuleOptions
   const countedAt =
     strength.basis === 'minor_default_30pct'
       ? `${formatForce(strength.kn as number, unit)}, 30 % of its major rating, as no minor-axis rating is entered`
-      : `its minor-axis rating of ${formatForce(strength.kn as number, unit)}`;
+      : strength.basis === 'minor_default_cap'
+        ? `${formatForce(strength.kn as number, unit)}, the assumed minor-axis figure, as no minor-axis rating is entered`
+        : `its minor-axis rating of ${formatForce(strength.kn as number, unit)}`;
   return {
     code: 'cross_loaded',
     message: `${nameOf(link)} is loaded across its minor axis (cross-loaded) and is counted at ${countedAt}. Re-clip it so the load runs along its spine where the rigging allows.`,
@@ -200,10 +223,11 @@ export function checkRules(links: LinkInput[], options: RuleOptions = {}): RuleF
 
   links.forEach((link, index) => {
     violations.push(...ratingFindings(link, index));
-    push(violations, threeWayOnConnector(link, index));
+    push(violations, threeWayOnConnector(link, index, index === layout.meetingIndex));
     push(violations, basketOverfilled(link, index));
     push(violations, gateOpenUnrated(link, index));
     push(warnings, crossLoaded(link, index, options));
+    push(warnings, minorRatingAssumed(link, index, options));
     push(warnings, gateOpen(link, index, options));
   });
   violations.push(...apparatusNotLast(links), ...layout.violations);

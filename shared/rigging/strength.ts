@@ -30,12 +30,25 @@ export function describeGear(gear: Pick<RatedGear, 'kind' | 'serial'>): string {
 }
 
 /**
- * Where no minor-axis rating is given, a cross-loaded link counts at this share of its major
- * rating: cross-loading takes away about 70 % of a connector's strength (CHECK-VALUES.md).
+ * Where no minor-axis rating is given, a cross-loaded link counts at the lesser of this share of
+ * its major rating (cross-loading takes away about 70 % of a connector's strength) and
+ * MINOR_DEFAULT_CAP_KN (PRODUCT.md §4.2, CHECK-VALUES.md).
  */
 export const MINOR_DEFAULT_FRACTION = 0.3;
+/**
+ * The smallest minor-axis minimum of EN 12275's connector classes: 30 % alone would count a 25 kN
+ * class K connector at 7.5 kN, above what its class promises across the axis.
+ */
+export const MINOR_DEFAULT_CAP_KN = 7;
 
-export type StrengthBasis = 'major' | 'minor' | 'minor_default_30pct' | 'gate_open' | 'gate_open_unrated';
+/** `minor_default_30pct` / `minor_default_cap`: no minor rating entered, counted at 30 % of major or at the 7 kN cap. */
+export type StrengthBasis = 'major' | 'minor' | 'minor_default_30pct' | 'minor_default_cap' | 'gate_open' | 'gate_open_unrated';
+
+/** The minor-axis figure assumed for a connector whose maker gives none: min(30 % of major, 7 kN). */
+export function assumedMinorKn(majorKn: number): { kn: number; basis: 'minor_default_30pct' | 'minor_default_cap' } {
+  const share = majorKn * MINOR_DEFAULT_FRACTION;
+  return share <= MINOR_DEFAULT_CAP_KN ? { kn: share, basis: 'minor_default_30pct' } : { kn: MINOR_DEFAULT_CAP_KN, basis: 'minor_default_cap' };
+}
 
 export interface EffectiveStrength {
   /** Breaking strength the link is counted at, in kN; null when nothing usable is rated. */
@@ -52,9 +65,7 @@ export function effectiveStrengthKn(
     case 'major':
       return { kn: gear.majorKn, basis: 'major' };
     case 'minor':
-      return gear.minorKn === null
-        ? { kn: gear.majorKn * MINOR_DEFAULT_FRACTION, basis: 'minor_default_30pct' }
-        : { kn: gear.minorKn, basis: 'minor' };
+      return gear.minorKn === null ? assumedMinorKn(gear.majorKn) : { kn: gear.minorKn, basis: 'minor' };
     case 'gate_open':
       // No figure is assumed for an open gate: the check fails instead of guessing.
       return gear.gateOpenKn === null

@@ -164,6 +164,10 @@ export const gearListQuery = z.object({
 export type GearListQuery = z.infer<typeof gearListQuery>;
 
 export const reasonBodySchema = z.object({ reason: text(500).min(1, 'Say why') });
+
+/** PRODUCT.md §4.7: mount an apparatus on a point, swapping only the apparatus link. */
+export const mountApparatusSchema = z.object({ gearId: idSchema });
+export type MountApparatus = z.infer<typeof mountApparatusSchema>;
 export const gearEventBodySchema = z.object({ kind: gearEventKindSchema, note: text(2000).default('') });
 export type GearEventBody = z.infer<typeof gearEventBodySchema>;
 export const gearEventSchema = z.object({ id: z.number(), gearId: z.number(), kind: gearEventKindSchema, note: z.string(), recordedAt: z.string(), recordedBy: z.string().nullable() });

@@ -4,6 +4,15 @@ import { apparatusKindSchema } from './vocabulary';
 import { pointStatusSchema, reasonSchema } from './rig';
 
 const ids = z.array(idSchema).min(1, 'Pick at least one point').max(20, 'At most 20 points').refine((a) => new Set(a).size === a.length, 'List each point once');
+/**
+ * The apparatus to hang per point where the mounted one is not of the class's kind (PRODUCT.md
+ * §4.7); a point left out gets the server's choice.
+ */
+const apparatusChoices = z
+  .array(z.object({ pointId: idSchema, gearId: idSchema }))
+  .max(20, 'At most 20 points')
+  .refine((a) => new Set(a.map((x) => x.pointId)).size === a.length, 'Name one apparatus per point')
+  .optional();
 const when = z.object({ startsAt: instantSchema, endsAt: instantSchema });
 const ordered = <T extends { startsAt?: string; endsAt?: string }>(v: T, ctx: z.RefinementCtx) => {
   if (v.startsAt && v.endsAt) {
@@ -19,6 +28,7 @@ export const createSessionSchema = when
     instructorId: idSchema,
     roomId: idSchema,
     pointIds: ids,
+    apparatus: apparatusChoices,
     /** RFC 5545 RRULE without DTSTART, e.g. FREQ=WEEKLY;BYDAY=TU;COUNT=10. */
     rrule: z.string().trim().min(6).max(300).optional(),
     /** Studio days (YYYY-MM-DD) of the series to leave out. */
@@ -48,7 +58,7 @@ export type UpdateSession = z.infer<typeof updateSessionSchema>;
  * Replace the booked points. With `roomId` (another room), the class moves to that room with
  * those points; every point must hang there. Without it the class keeps its room.
  */
-export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional() });
+export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional(), apparatus: apparatusChoices });
 export type SwapPoints = z.infer<typeof swapPointsSchema>;
 export const cancelSessionSchema = z.object({ reason: z.string().trim().min(1, 'Say why the class is cancelled').max(500), scope: scopeSchema });
 export type CancelSession = z.infer<typeof cancelSessionSchema>;
@@ -58,8 +68,23 @@ export const availabilityQuery = when
   .superRefine(ordered);
 export type AvailabilityQuery = z.infer<typeof availabilityQuery>;
 
-export const pointVerdictSchema = z.object({ pointId: z.number(), label: z.string(), bookable: z.boolean(), reasons: z.array(reasonSchema), warnings: z.array(reasonSchema) });
+/** The apparatus a point hangs for a class: `changeover` when it is not the one mounted now. */
+export const apparatusChoiceSchema = z.object({ gearId: z.number(), kind: z.string(), serial: z.string(), changeover: z.boolean() });
+export const pointVerdictSchema = z.object({ pointId: z.number(), label: z.string(), bookable: z.boolean(), reasons: z.array(reasonSchema), warnings: z.array(reasonSchema), apparatus: apparatusChoiceSchema.nullable().optional() });
 export type PointVerdict = z.infer<typeof pointVerdictSchema>;
+
+export const changeoverSchema = z.object({
+  pointId: z.number(),
+  pointLabel: z.string(),
+  gearId: z.number(),
+  kind: z.string(),
+  serial: z.string(),
+  mountedGearId: z.number().nullable(),
+  mountedSerial: z.string().nullable(),
+  message: z.string(),
+});
+export type ChangeoverWire = z.infer<typeof changeoverSchema>;
+
 
 /**
  * A booked point with its status at the class's start. Once the class has started it is the record
@@ -90,6 +115,10 @@ export const sessionSchema = z.object({
   cancelReason: z.string().nullable(),
   pointIds: z.array(z.number()),
   points: z.array(sessionPointSchema),
+  /** What hangs on each point for the class (PRODUCT.md §4.7). */
+  hanging: z.array(z.object({ pointId: z.number(), gearId: z.number().nullable(), kind: z.string().nullable(), serial: z.string().nullable(), mounted: z.boolean() })).default([]),
+  /** Apparatus to mount before the class, e.g. "Mount hoop HP-0102 on LS-3 before 18:30 on Thu 3 Dec". */
+  changeovers: z.array(changeoverSchema).default([]),
   atRisk: z.boolean(),
   riskReasons: z.array(reasonSchema.extend({ pointId: z.number() })),
   inspectionDue: z.boolean(),

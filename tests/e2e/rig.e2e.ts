@@ -263,7 +263,13 @@ describe('the rigger builds and checks load paths', () => {
     await wide.waitFor();
     await tooWide.waitFor({ state: 'detached' });
     expect(await row.locator('li', { has: page.getByText(wideText) }).last().innerText()).toMatch(/^Warning:/);
-    await until(() => summaryOf(row).innerText()).toMatch(/Passes[\s\S]*1 warning/);
+    // The carabiner the legs meet in takes three strands by construction (§4.2): its three-way box
+    // shows ticked and locked, and the check fails on it whatever was ticked.
+    const meetingBox = linkItem(page, biner).getByLabel('Takes a three-way load');
+    expect(await meetingBox.isChecked()).toBe(true);
+    expect(await meetingBox.isDisabled()).toBe(true);
+    await row.getByText(`${biner.name} takes a three-way load (the two bridle legs meet in it`).waitFor();
+    await until(() => summaryOf(row).innerText()).toMatch(/Fails[\s\S]*1 warning/);
     // The leg tension appears in the working: T = W ÷ (2·cos 50°).
     await row.getByText('Show the working, step by step').click();
     const legRow = await row.getByRole('row').filter({ hasText: 'Bridle leg tension T = W ÷ (2·cos(θ/2))' }).innerText();

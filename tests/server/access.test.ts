@@ -53,6 +53,11 @@ describe('access declarations', () => {
     expect(access('get /api/users')).toEqual(['owner', 'reception']);
   });
 
+  it('lets riggers and instructors mount an apparatus (a changeover), and no one else', () => {
+    const access = (key: string) => ctx.app.locals.routes.find((r) => `${r.method} ${r.path}` === key)?.access;
+    expect(access('post /api/points/:id/apparatus')).toEqual(['rigger', 'instructor']);
+  });
+
   it('answers every declared route 401 when signed out', async () => {
     for (const r of ctx.app.locals.routes) {
       const path = r.path.replace(/:\w+/g, '1');

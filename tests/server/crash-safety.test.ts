@@ -44,7 +44,7 @@ beforeAll(async () => {
   for (const list of [ids.bookingPoints, ids.faultPoints]) {
     for (let i = 0; i < 4; i++) {
       const p = await makePoint(db, { roomId: ids.roomId, clearedAt: new Date(Date.now() - DAY).toISOString(), structuralRatingKn: 30 });
-      for (const g of await makeStandardPath(db, p.id)) await db('gear_items').where({ id: g }).update({ inspected_until: new Date(Date.now() + 20 * DAY).toISOString() });
+      for (const g of await makeStandardPath(db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: null } })) await db('gear_items').where({ id: g }).update({ inspected_until: new Date(Date.now() + 20 * DAY).toISOString() });
       list.push(p.id);
     }
   }

@@ -16,7 +16,8 @@ async function studioWithPoints(n: number, o: { clearedAt?: string | null } = {}
   const points: number[] = [];
   for (let i = 0; i < n; i++) {
     const p = await makePoint(ctx.db, { roomId, clearedAt: o.clearedAt === undefined ? '2026-11-30T10:00:00Z' : o.clearedAt, structuralRatingKn: 30 });
-    const ids = await makeStandardPath(ctx.db, p.id);
+    // A fabric hangs on each point, so a silks class needs no changeover (PRODUCT.md §4.7).
+    const ids = await makeStandardPath(ctx.db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: '2027-01-30T00:00:00Z' } });
     for (const g of ids) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
     points.push(p.id);
   }
@@ -170,7 +171,7 @@ describe('at risk and alternatives', () => {
     const desk = await as(ctx, 'reception');
     const s = await studioWithPoints(1);
     const elsewhere = await makePoint(ctx.db, { clearedAt: '2026-11-30T10:00:00Z', structuralRatingKn: 30 });
-    for (const g of await makeStandardPath(ctx.db, elsewhere.id)) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
+    for (const g of await makeStandardPath(ctx.db, elsewhere.id, { apparatus: { kind: 'fabric', inspectedUntil: '2027-01-30T00:00:00Z' } })) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
     const booked = await desk.post('/api/sessions').send(body(s));
     const alts = await desk.get(`/api/sessions/${booked.body.id}/alternatives`);
     expect(alts.body).toEqual([expect.objectContaining({ pointId: elsewhere.id, sameRoom: false })]);
@@ -205,7 +206,7 @@ async function clearedPoints(n: number, o: { roomId?: number; name?: string } = 
   const points: number[] = [];
   for (let i = 0; i < n; i++) {
     const p = await makePoint(ctx.db, { roomId, clearedAt: '2026-11-30T10:00:00Z', structuralRatingKn: 30 });
-    for (const g of await makeStandardPath(ctx.db, p.id)) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
+    for (const g of await makeStandardPath(ctx.db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: null } })) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2027-01-30T00:00:00Z' });
     points.push(p.id);
   }
   return { roomId, points };

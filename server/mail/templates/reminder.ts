@@ -1,5 +1,5 @@
 import { studioDay } from '../../../shared/clearance';
-import { button, clockTime, esc, facts, heading, oneLine, page, paragraph, shortDay, textFooter, when, type RenderedMail } from './layout';
+import { button, clockTime, esc, facts, heading, itemList, oneLine, page, paragraph, shortDay, textFooter, when, type RenderedMail } from './layout';
 import { blockedNote, pointItems, pointLines, type MailPoint } from './points';
 
 export interface ReminderInput {
@@ -13,6 +13,8 @@ export interface ReminderInput {
   startsAt: Date;
   endsAt: Date;
   points: MailPoint[];
+  /** Apparatus to mount before class, e.g. "Mount hoop HP-0102 on LS-3 before 18:30" (PRODUCT.md §4.7). */
+  changeovers?: string[];
 }
 
 /** "at 18:00" today, "on Thu 3 Dec at 18:00" on another day. */
@@ -45,6 +47,7 @@ export function reminderMessage(i: ReminderInput): RenderedMail {
     'Points (status at the start of class):',
     ...(i.points.length ? pointLines(i.points, tz) : ['No points are booked for this class.']),
     ...(note ? ['', note] : []),
+    ...(i.changeovers?.length ? ['', 'Changeovers (mount before class, then record the pre-use check):', ...i.changeovers] : []),
     '',
     'Record the pre-use check of each point before class:',
     link,
@@ -61,6 +64,7 @@ export function reminderMessage(i: ReminderInput): RenderedMail {
       heading('Points, at the start of class'),
       i.points.length ? pointItems(i.points, tz) : paragraph('No points are booked for this class.', { muted: true }),
       note ? paragraph(note) : '',
+      i.changeovers?.length ? heading('Changeovers') + itemList(i.changeovers.map((c) => ({ title: c, details: ['Mount it before class, then record the pre-use check.'] }))) : '',
       button(link, 'Open the pre-use check'),
       `<p style="margin:0;font-size:13px;color:#56666a;word-break:break-all;">${esc(link)}</p>`,
     ].join(''),

@@ -1,5 +1,6 @@
 import type { Db } from '../../db/knex';
-import { freezeSnapshot, type OpenFault, type PointSnapshot, type GearSnapshot } from '../../../shared/clearance';
+import { freezeSnapshot, type OpenFault, type PointSnapshot, type GearSnapshot, type RecordedApparatus } from '../../../shared/clearance';
+import { freezeDeep } from '../../../shared/freeze';
 import type { GearRecord, LinkRecord, PointRecord, RigRepository } from './rig.repository';
 
 const toDate = (s: string | null) => (s ? new Date(s) : null);
@@ -88,4 +89,28 @@ export async function loadSnapshots(db: Db, rig: RigRepository, filter: { ids?: 
     });
     return { point: p, links: pl, snapshot };
   });
+}
+
+export interface ApparatusBundle extends RecordedApparatus {
+  record: GearRecord;
+}
+
+/**
+ * Apparatus items by id, each as the rules see it with the open faults on it (two queries), for
+ * the classes they are recorded for or could be (PRODUCT.md §4.7). Sealed like point snapshots.
+ */
+export async function loadApparatus(rig: RigRepository, by: { ids: number[] } | { kind: string; unmounted: true }, trx: Db): Promise<Map<number, ApparatusBundle>> {
+  const records = 'ids' in by ? await rig.gearByIds([...new Set(by.ids)], trx) : (await rig.gearByIds(await rig.unmountedOfKind(by.kind, trx), trx));
+  if (!records.length) return new Map();
+  const faults = (await trx('faults')
+    .where('status', 'open')
+    .whereIn('gear_id', records.map((g) => g.id))
+    .select('id', 'point_id', 'gear_id', 'severity', 'description')) as Array<{ id: number; point_id: number | null; gear_id: number | null; severity: OpenFault['severity']; description: string }>;
+  return new Map(
+    records.map((g) => {
+      const gear = freezeDeep(gearSnapshot(g));
+      const openFaults = freezeDeep(faults.filter((f) => f.gear_id === g.id).map((f) => ({ id: f.id, pointId: f.point_id, gearId: f.gear_id, severity: f.severity, description: f.description })));
+      return [g.id, { record: g, gear, openFaults }];
+    }),
+  );
 }

@@ -391,6 +391,24 @@ export function rigRepository(db: Db) {
     async swapGearInPath(oldGearId: number, newGearId: number, trx: Db) {
       await trx('load_path_links').where({ gear_id: oldGearId }).update({ gear_id: newGearId });
     },
+    /** Ids of the items of an apparatus kind not retired and hanging on no point (the gear room). */
+    async unmountedOfKind(kind: string, trx: Db = db): Promise<number[]> {
+      const rows = (await trx('gear_items').leftJoin('load_path_links', 'load_path_links.gear_id', 'gear_items.id').where('gear_items.kind', kind).whereNot('gear_items.status', 'retired').whereNull('load_path_links.id').select('gear_items.id')) as Array<{ id: number }>;
+      return rows.map((r) => r.id);
+    },
+    /** Mounts `gearId` as the point's apparatus: replaces the apparatus link, or hangs it below the last link. */
+    async setApparatusLink(pointId: number, currentGearId: number | null, gearId: number, trx: Db) {
+      if (currentGearId !== null) {
+        await trx('load_path_links').where({ point_id: pointId, gear_id: currentGearId }).update({ gear_id: gearId });
+        return;
+      }
+      const last = (await trx('load_path_links').where({ point_id: pointId }).max('position as position').first()) as { position: number | null } | undefined;
+      await trx('load_path_links').insert({ point_id: pointId, position: (last?.position ?? -1) + 1, gear_id: gearId, mode: 'major', three_way: false, basket_over_half: false, leg: null, included_angle_deg: null });
+    },
+    /** Takes an apparatus off the point it hangs on (the last link; nothing else moves). */
+    async removeLink(gearId: number, trx: Db) {
+      await trx('load_path_links').where({ gear_id: gearId }).delete();
+    },
     async pointOfGear(gearId: number, trx: Db = db): Promise<number | null> {
       const row = await trx('load_path_links').where({ gear_id: gearId }).first('point_id');
       return row ? (row.point_id as number) : null;

@@ -9,6 +9,7 @@ import {
   gearListQuery,
   loadCheckQuery,
   loadPathBodySchema,
+  mountApparatusSchema,
   reasonBodySchema,
   updateGearSchema,
   updatePointSchema,
@@ -53,6 +54,8 @@ export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsServic
     },
   });
   api.put('/points/:id/load-path', { access: RIG_EDITORS, params: idParams, body: loadPathBodySchema, handler: ({ params, body, user }) => rig.replaceLoadPath(params.id, body, user.id) });
+  // A changeover (§4.7): riggers, and instructors at the point before their class.
+  api.post('/points/:id/apparatus', { access: ['rigger', 'instructor'], params: idParams, body: mountApparatusSchema, handler: ({ params, body, user }) => rig.mountApparatus(params.id, body.gearId, user.id) });
   api.get('/points/:id/load-check', { access: 'signed_in', params: idParams, query: loadCheckQuery, handler: ({ params, query }) => rig.loadCheck(params.id, query) });
 
   // gear

@@ -4,12 +4,12 @@ import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
 import type { StudioRepository } from '../studio/studio.repository';
 import { impossibleGearFacts, type CreateGear, type CreatePoint, type GearEventBody, type GearListQuery, type LoadPathBody, type UpdateGear, type UpdatePoint } from '../../../shared/schemas/rig';
-import { pointStatusAt, serviceLifeEnd, studioDay, voidsClearance, gearRatingChangeVoids, pathConfigOf, type PathConfig, type PointStatus } from '../../../shared/clearance';
-import { checkLoadPath, type LoadProfile } from '../../../shared/rigging';
+import { apparatusUnfitReasons, pointStatusAt, serviceLifeEnd, splitPath, studioDay, voidsClearance, gearRatingChangeVoids, pathConfigOf, type PathConfig, type PointStatus } from '../../../shared/clearance';
+import { checkLoadPath, describeGear, type LoadProfile } from '../../../shared/rigging';
 import { isApparatusKind } from '../../../shared/schemas/vocabulary';
 import { requiredFactorReasonOf, type Policy } from '../../../shared/schemas/policy';
 import type { GearRecord, RigRepository } from './rig.repository';
-import { loadSnapshots, type SnapshotBundle } from './point-snapshots';
+import { loadApparatus, loadSnapshots, type SnapshotBundle } from './point-snapshots';
 import { voidClearance } from './clearance-voids';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
@@ -183,6 +183,51 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         if (voidsClearance(before, after)) await voidClearance(trx, { rig, audit }, { pointId: id, at: now, actorId, why: { reason: 'fixed_links_changed', source: 'load path saved' } });
         await audit.record(trx, { actorId, action: 'point.load_path_replaced', entity: 'point', entityId: id, before: before.links, after: after.links }, now);
         return { voided, changed: true };
+      });
+      return { ...(await this.getPoint(id)), ...result };
+    },
+
+    /**
+     * PRODUCT.md §4.7: mounts a fit apparatus of a kind the point allows, swapping only the
+     * apparatus link (the one there goes back to the gear room). Voids nothing (§4.1): the
+     * apparatus carries its own inspection. An item hanging on another point moves from there,
+     * unless a class is under way on it.
+     */
+    async mountApparatus(id: number, gearId: number, actorId: number) {
+      const { policy } = await studio.get();
+      const result = await writeTransaction(db, async (trx) => {
+        const now = clock.now();
+        const b = await bundle(id, trx);
+        const g = await rig.gearById(gearId, trx);
+        if (!g) throw new HttpError(400, 'unknown_gear', 'There is no gear item with that id.', { source: 'body', fields: { gearId: 'Pick an apparatus from the register' } });
+        const name = describeGear(g);
+        if (!isApparatusKind(g.kind)) throw new HttpError(400, 'not_apparatus', `${name} is not an apparatus: only a fabric, hoop, trapeze, hammock, straps or rope is mounted this way.`, { source: 'body', fields: { gearId: 'Pick an apparatus' } });
+        const { fixed, apparatus } = splitPath(b.snapshot.links);
+        if (apparatus?.gear.id === gearId) return { changed: false, movedFrom: null };
+        if (!fixed.length) throw conflict('no_load_path', `Point ${b.point.label} has no fixed rigging to hang ${name} from.`);
+        if (!b.point.apparatus.includes(g.kind)) {
+          throw conflict('apparatus_not_allowed', `Point ${b.point.label} does not allow ${g.kind} (allowed: ${b.point.apparatus.join(', ') || 'none'}).`, { fields: { gearId: `Not allowed on ${b.point.label}` } });
+        }
+        const item = (await loadApparatus(rig, { ids: [gearId] }, trx)).get(gearId)!;
+        const unfit = apparatusUnfitReasons(item.gear, item.openFaults, policy, now, now);
+        if (unfit.length) throw conflict('apparatus_unfit', `${name} cannot be mounted: ${unfit.map((r) => r.message.replace(/^The /, 'the ')).join('; ')}.`, { reasons: unfit, fields: { gearId: 'Not fit to hang' } });
+        let movedFrom: string | null = null;
+        if (g.pointId !== null && g.pointId !== id) {
+          const other = await bundle(g.pointId, trx);
+          if (splitPath(other.snapshot.links).apparatus?.gear.id !== gearId) throw conflict('gear_in_use', `${name} is part of the fixed rigging of ${other.point.label}.`);
+          const underWay = await trx('session_points').where({ point_id: g.pointId, cancelled: false }).where('starts_at', '<=', now.toISOString()).where('ends_at', '>', now.toISOString()).first('session_id');
+          if (underWay) throw conflict('apparatus_in_use', `${name} hangs on ${other.point.label} for a class under way: take it down after that class.`);
+          await rig.removeLink(gearId, trx);
+          movedFrom = other.point.label;
+          await audit.record(trx, { actorId, action: 'point.apparatus_removed', entity: 'point', entityId: other.point.id, before: { gearId, serial: g.serial }, after: { gearId: null, movedTo: b.point.label } }, now);
+        }
+        await rig.setApparatusLink(id, apparatus?.gear.id ?? null, gearId, trx);
+        await audit.record(
+          trx,
+          { actorId, action: 'point.apparatus_mounted', entity: 'point', entityId: id, before: { gearId: apparatus?.gear.id ?? null, serial: apparatus?.gear.serial ?? null }, after: { gearId, serial: g.serial, movedFrom } },
+          now,
+        );
+        return { changed: true, movedFrom };
       });
       return { ...(await this.getPoint(id)), ...result };
     },

@@ -1,8 +1,9 @@
 import { writeTransaction, type Db } from '../../db/knex';
 import type { RigRepository } from '../rig/rig.repository';
 import type { StudioRepository } from '../studio/studio.repository';
-import { loadSnapshots } from '../rig/point-snapshots';
-import { recordAtStart, type RecordedStatus } from '../../../shared/clearance';
+import { loadApparatus, loadSnapshots } from '../rig/point-snapshots';
+import { hangFor, recordAtStart, type RecordedStatus } from '../../../shared/clearance';
+import type { ApparatusKind } from '../../../shared/schemas/vocabulary';
 import type { Reason } from '../../../shared/clearance';
 
 /** One booked point of a session as it stood when the class started; never rewritten. */
@@ -61,12 +62,14 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
     const q = trx('session_points as sp')
       .join('sessions as s', 's.id', 'sp.session_id')
       .leftJoin('session_records as r', (j) => j.on('r.session_id', '=', 'sp.session_id').andOn('r.point_id', '=', 'sp.point_id').andOn('r.starts_at', '=', 's.starts_at'))
+      .join('class_types as c', 'c.id', 's.class_type_id')
+      .leftJoin('session_apparatus as sa', (j) => j.on('sa.session_id', '=', 'sp.session_id').andOn('sa.point_id', '=', 'sp.point_id'))
       .whereNull('r.id')
       .where('s.starts_at', '<=', now.toISOString())
-      .select('sp.session_id', 'sp.point_id', 's.starts_at');
+      .select('sp.session_id', 'sp.point_id', 's.starts_at', 'c.apparatus as kind', 'sa.gear_id');
     if (Array.isArray(sessionIds)) q.whereIn('sp.session_id', sessionIds);
     else if (sessionIds !== 'all') q.where('s.starts_at', '>', new Date(now.getTime() - WORKER_LOOKBACK_MS).toISOString());
-    return (await q) as Array<{ session_id: number; point_id: number; starts_at: string }>;
+    return (await q) as Array<{ session_id: number; point_id: number; starts_at: string; kind: string; gear_id: number | null }>;
   }
 
   /**
@@ -82,10 +85,13 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
       if (!rows.length) return 0;
       const { policy } = await studio.get(trx);
       const bundles = new Map((await loadSnapshots(db, rig, { ids: [...new Set(rows.map((r) => r.point_id))] }, trx)).map((b) => [b.point.id, b]));
+      const items = await loadApparatus(rig, { ids: rows.flatMap((r) => (r.gear_id === null ? [] : [r.gear_id])) }, trx);
       const inserts = rows.flatMap((r) => {
         const b = bundles.get(r.point_id);
         if (!b) return [];
-        const rec = recordAtStart(b.snapshot, policy, new Date(r.starts_at));
+        // The point as it hung for this class (PRODUCT.md §4.7): a changeover's item, not whatever is mounted.
+        const hung = hangFor(b.snapshot, r.kind as ApparatusKind, r.gear_id === null ? null : (items.get(r.gear_id) ?? null));
+        const rec = recordAtStart(hung.snapshot, policy, new Date(r.starts_at));
         return [{
           session_id: r.session_id,
           point_id: r.point_id,

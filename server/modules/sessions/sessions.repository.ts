@@ -1,3 +1,4 @@
+import type { Knex } from 'knex';
 import type { Db } from '../../db/knex';
 
 export interface SessionRecord {
@@ -16,6 +17,17 @@ export interface SessionRecord {
   cancelled: boolean;
   cancelReason: string | null;
   pointIds: number[];
+  /** The class's load profile figures (null: the policy's). */
+  performersPerPoint: number;
+  dynamicFactor: number | null;
+  bodyMassKg: number | null;
+  /** The apparatus recorded per point at booking (PRODUCT.md §4.7). */
+  recordedApparatus: Array<{ pointId: number; gearId: number }>;
+}
+
+export interface ApparatusChoice {
+  pointId: number;
+  gearId: number;
 }
 
 interface Row {
@@ -33,6 +45,9 @@ interface Row {
   series_id: number | null;
   cancelled: number | boolean;
   cancel_reason: string | null;
+  performers_per_point: number;
+  dynamic_factor: number | null;
+  body_mass_kg: number | null;
 }
 
 /** No class lasts longer; overlap searches start this far back so they can use the start-time index. */
@@ -43,7 +58,21 @@ function base(db: Db) {
     .join('class_types', 'class_types.id', 'sessions.class_type_id')
     .join('rooms', 'rooms.id', 'sessions.room_id')
     .join('users', 'users.id', 'sessions.instructor_id')
-    .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'class_types.capacity', 'rooms.name as room_name', 'users.name as instructor_name');
+    .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'class_types.capacity', 'class_types.performers_per_point', 'class_types.dynamic_factor', 'class_types.body_mass_kg', 'rooms.name as room_name', 'users.name as instructor_name');
+}
+
+const APPARATUS_KINDS = ['fabric', 'hoop', 'trapeze', 'hammock', 'straps', 'rope'];
+
+/** The apparatus mounted on points (by point id), for the given points or the given items. */
+async function mountedApparatus(trx: Db, by: { pointIds?: number[]; gearIds?: number[] }): Promise<Map<number, { gearId: number; kind: string }>> {
+  const q = trx('load_path_links').join('gear_items', 'gear_items.id', 'load_path_links.gear_id').whereIn('gear_items.kind', APPARATUS_KINDS).select('load_path_links.point_id', 'gear_items.id', 'gear_items.kind');
+  if (by.pointIds) {
+    if (!by.pointIds.length) return new Map();
+    q.whereIn('load_path_links.point_id', [...new Set(by.pointIds)]);
+  }
+  if (by.gearIds) q.whereIn('gear_items.id', by.gearIds);
+  const rows = (await q) as Array<{ point_id: number; id: number; kind: string }>;
+  return new Map(rows.map((r) => [r.point_id, { gearId: r.id, kind: r.kind }]));
 }
 
 export function sessionsRepository(db: Db) {
@@ -51,6 +80,9 @@ export function sessionsRepository(db: Db) {
     const links = rows.length ? ((await trx('session_points').whereIn('session_id', rows.map((r) => r.id)).orderBy('point_id').select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
     const byId = new Map<number, number[]>();
     for (const l of links) byId.set(l.session_id, [...(byId.get(l.session_id) ?? []), l.point_id]);
+    const hung = rows.length ? ((await trx('session_apparatus').whereIn('session_id', rows.map((r) => r.id)).orderBy('point_id').select('session_id', 'point_id', 'gear_id')) as Array<{ session_id: number; point_id: number; gear_id: number }>) : [];
+    const hungById = new Map<number, ApparatusChoice[]>();
+    for (const h of hung) hungById.set(h.session_id, [...(hungById.get(h.session_id) ?? []), { pointId: h.point_id, gearId: h.gear_id }]);
     return rows.map((r) => ({
       id: r.id,
       classTypeId: r.class_type_id,
@@ -67,6 +99,10 @@ export function sessionsRepository(db: Db) {
       cancelled: Boolean(r.cancelled),
       cancelReason: r.cancel_reason,
       pointIds: byId.get(r.id) ?? [],
+      performersPerPoint: r.performers_per_point,
+      dynamicFactor: r.dynamic_factor,
+      bodyMassKg: r.body_mass_kg,
+      recordedApparatus: hungById.get(r.id) ?? [],
     }));
   }
 
@@ -114,7 +150,7 @@ export function sessionsRepository(db: Db) {
       const [row] = await trx('series').insert({ rrule, created_at: at.toISOString() }).returning('id');
       return (row as { id: number }).id;
     },
-    async insert(s: { classTypeId: number; instructorId: number; roomId: number; startsAt: Date; endsAt: Date; seriesId: number | null; pointIds: number[] }, at: Date, trx: Db) {
+    async insert(s: { classTypeId: number; instructorId: number; roomId: number; startsAt: Date; endsAt: Date; seriesId: number | null; pointIds: number[]; apparatus: ApparatusChoice[] }, at: Date, trx: Db) {
       const [row] = await trx('sessions')
         .insert({
           class_type_id: s.classTypeId,
@@ -132,6 +168,7 @@ export function sessionsRepository(db: Db) {
         .returning('id');
       const id = (row as { id: number }).id;
       await trx('session_points').insert(s.pointIds.map((p) => ({ session_id: id, point_id: p, starts_at: s.startsAt.toISOString(), ends_at: s.endsAt.toISOString(), cancelled: false })));
+      if (s.apparatus.length) await trx('session_apparatus').insert(s.apparatus.map((a) => ({ session_id: id, point_id: a.pointId, gear_id: a.gearId, starts_at: s.startsAt.toISOString(), ends_at: s.endsAt.toISOString(), cancelled: false })));
       return id;
     },
     async update(id: number, patch: { startsAt?: Date; endsAt?: Date; instructorId?: number; roomId?: number; cancelled?: boolean; cancelReason?: string }, at: Date, trx: Db) {
@@ -144,11 +181,65 @@ export function sessionsRepository(db: Db) {
       if (patch.cancelled !== undefined) row.cancelled = sp.cancelled = patch.cancelled;
       if (patch.cancelReason !== undefined) row.cancel_reason = patch.cancelReason;
       await trx('sessions').where({ id }).update(row);
-      if (Object.keys(sp).length) await trx('session_points').where({ session_id: id }).update(sp);
+      if (Object.keys(sp).length) {
+        await trx('session_points').where({ session_id: id }).update(sp);
+        await trx('session_apparatus').where({ session_id: id }).update(sp);
+      }
     },
-    async replacePoints(id: number, pointIds: number[], startsAt: string, endsAt: string, trx: Db) {
+    async replacePoints(id: number, pointIds: number[], apparatus: ApparatusChoice[], startsAt: string, endsAt: string, trx: Db) {
       await trx('session_points').where({ session_id: id }).delete();
       await trx('session_points').insert(pointIds.map((p) => ({ session_id: id, point_id: p, starts_at: startsAt, ends_at: endsAt, cancelled: false })));
+      await trx('session_apparatus').where({ session_id: id }).delete();
+      if (apparatus.length) await trx('session_apparatus').insert(apparatus.map((a) => ({ session_id: id, point_id: a.pointId, gear_id: a.gearId, starts_at: startsAt, ends_at: endsAt, cancelled: false })));
+    },
+    /**
+     * Of `gearIds`, the items (with the points) that hang for another live class overlapping [start, end): recorded for
+     * it (unless its point now has an item of the class's kind mounted, which it uses instead), or
+     * mounted on its point with the class of the item's kind.
+     */
+    async apparatusBusy(gearIds: number[], start: Date, end: Date, excludeSessionIds: number[], trx: Db): Promise<Map<number, Set<number>>> {
+      // Item → the points it hangs on for those classes.
+      const busy = new Map<number, Set<number>>();
+      const add = (gearId: number, pointId: number) => busy.set(gearId, (busy.get(gearId) ?? new Set()).add(pointId));
+      if (!gearIds.length) return busy;
+      const overlapping = (q: Knex.QueryBuilder, table: string) =>
+        q
+          .where(`${table}.cancelled`, false)
+          .where(`${table}.starts_at`, '<', end.toISOString())
+          .where(`${table}.starts_at`, '>', new Date(start.getTime() - MAX_SESSION_MS).toISOString())
+          .where(`${table}.ends_at`, '>', start.toISOString());
+      const recordedQ = overlapping(
+        trx('session_apparatus')
+          .join('sessions', 'sessions.id', 'session_apparatus.session_id')
+          .join('class_types', 'class_types.id', 'sessions.class_type_id')
+          .whereIn('session_apparatus.gear_id', gearIds)
+          .select('session_apparatus.session_id', 'session_apparatus.point_id', 'session_apparatus.gear_id', 'class_types.apparatus'),
+        'session_apparatus',
+      );
+      if (excludeSessionIds.length) recordedQ.whereNotIn('session_apparatus.session_id', excludeSessionIds);
+      const recorded = (await recordedQ) as Array<{ session_id: number; point_id: number; gear_id: number; apparatus: string }>;
+      const mountedOn = await mountedApparatus(trx, { pointIds: recorded.map((r) => r.point_id) });
+      for (const r of recorded) {
+        const m = mountedOn.get(r.point_id);
+        if (!(m && m.kind === r.apparatus && m.gearId !== r.gear_id)) add(r.gear_id, r.point_id);
+      }
+      const mounted = await mountedApparatus(trx, { gearIds });
+      if (mounted.size) {
+        const onPointsQ = overlapping(
+          trx('session_points')
+            .join('sessions', 'sessions.id', 'session_points.session_id')
+            .join('class_types', 'class_types.id', 'sessions.class_type_id')
+            .whereIn('session_points.point_id', [...mounted.keys()])
+            .select('session_points.session_id', 'session_points.point_id', 'class_types.apparatus'),
+          'session_points',
+        );
+        if (excludeSessionIds.length) onPointsQ.whereNotIn('session_points.session_id', excludeSessionIds);
+        for (const r of (await onPointsQ) as Array<{ session_id: number; point_id: number; apparatus: string }>) {
+          const m = mounted.get(r.point_id)!;
+          if (m.kind === r.apparatus) add(m.gearId, r.point_id);
+        }
+      }
+      return busy;
     },
   };
 }

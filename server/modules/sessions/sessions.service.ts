@@ -4,16 +4,17 @@ import { HttpError, conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
 import type { StudioRepository } from '../studio/studio.repository';
 import type { RigRepository } from '../rig/rig.repository';
-import { loadSnapshots, type SnapshotBundle } from '../rig/point-snapshots';
+import { loadApparatus, loadSnapshots, type ApparatusBundle, type SnapshotBundle } from '../rig/point-snapshots';
+import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf } from './session-rig';
 import { statusWire } from '../rig/rig.service';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { bookingReasons, instructorReasons, placesFromRecords, pointStatusAt, pointStatusOver, sessionRisk, type Reason, type ValidityTracker } from '../../../shared/clearance';
+import { apparatusUnfitReasons, bookingReasons, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
 import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, SwapPoints, UpdateSession } from '../../../shared/schemas/sessions';
-import type { SessionRecord, SessionsRepository } from './sessions.repository';
+import type { ApparatusChoice, SessionRecord, SessionsRepository } from './sessions.repository';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 import { sessionRecords, type SessionPointRecord, type SessionRecords } from './session-records';
 
@@ -46,65 +47,132 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
   }
 
   /**
-   * Every reason of PRODUCT.md §4.4 for one occurrence, per point and for the session as a whole.
-   * Called inside the write transaction that books, so no one can book between check and write.
+   * Every reason of PRODUCT.md §4.4 for one occurrence, per point and for the session as a whole,
+   * with the apparatus each point will hang for it (§4.7). Called inside the write transaction that
+   * books, so no one can book between check and write.
+   *
+   * The apparatus for a point: the mounted one when it is of the class's kind; otherwise the item
+   * named (`named`), or, for a `prefer`red one (kept from before a move or swap), that item while it
+   * is still fit and free, else the server's choice: the strongest item of the kind in the gear room
+   * (on no point) that is in service, with no open fault, inspected until after the class ends and
+   * not past its service life by then, and hanging for no other class at that time.
    */
   async function checkOccurrence(
     trx: Db,
-    a: { classType: ClassType; policy: Policy; now: Date; roomId: number; instructorId: number; occ: Occurrence; pointIds: number[]; bundles: Map<number, SnapshotBundle>; exclude: number[] },
+    a: { classType: ClassType; policy: Policy; now: Date; roomId: number; instructorId: number; occ: Occurrence; pointIds: number[]; bundles: Map<number, SnapshotBundle>; exclude: number[]; named?: Map<number, { gearId: number; prefer?: boolean }>; eachAlone?: boolean },
   ) {
     const profile = profileFor(a.classType, a.policy);
+    const kind = a.classType.apparatus;
     const busy = await repo.pointsBusy(a.pointIds, a.occ.startsAt, a.occ.endsAt, a.exclude, trx);
+    const named = a.named ?? new Map<number, { gearId: number; prefer?: boolean }>();
+    const items = await loadApparatus(rig, { ids: [...named.values()].map((n) => n.gearId) }, trx);
+    // Items of the kind in the gear room, strongest first, loaded only when some point needs one.
+    const needsStock = a.pointIds.some((id) => {
+      const mounted = a.bundles.get(id) && splitPath(a.bundles.get(id)!.snapshot.links).apparatus?.gear;
+      return !(mounted && mounted.kind === kind) && (!named.has(id) || named.get(id)!.prefer);
+    });
+    const stock = needsStock ? [...(await loadApparatus(rig, { kind, unmounted: true }, trx)).values()].sort((x, y) => byStrength(x.gear, y.gear)) : [];
+    const mountedIds = a.pointIds.map((id) => a.bundles.get(id) && splitPath(a.bundles.get(id)!.snapshot.links).apparatus?.gear.id).filter((x): x is number => typeof x === 'number');
+    const itemBusy = await repo.apparatusBusy([...new Set([...items.keys(), ...stock.map((x) => x.gear.id), ...mountedIds])], a.occ.startsAt, a.occ.endsAt, a.exclude, trx);
+    // Busy on another point; on this same point the clash is the point's own double booking.
+    const busyElsewhere = (gearId: number, pointId: number) => [...(itemBusy.get(gearId) ?? [])].some((p) => p !== pointId);
+    const taken = new Set<number>();
+    const fitFor = (x: ApparatusBundle) => apparatusUnfitReasons(x.gear, x.openFaults, a.policy, a.now, a.occ.endsAt);
+    const chooseFromStock = (): ApparatusBundle | null => stock.find((x) => !taken.has(x.gear.id) && !itemBusy.has(x.gear.id) && fitFor(x).length === 0) ?? null;
+
     const points = a.pointIds.map((pointId) => {
       const b = a.bundles.get(pointId);
-      if (!b) return { pointId, reasons: [{ code: 'point_unknown', message: `There is no point with id ${pointId}.` }], warnings: [] as Reason[] };
+      if (!b) return { pointId, reasons: [{ code: 'point_unknown', message: `There is no point with id ${pointId}.` }], warnings: [] as Reason[], apparatus: null };
+      const label = b.point.label;
+      const extra: Reason[] = [];
+      const mounted = splitPath(b.snapshot.links).apparatus?.gear ?? null;
+      const want = named.get(pointId);
+      let recorded: ApparatusBundle | null = null;
+      if (mounted && mounted.kind === kind) {
+        if (want && !want.prefer && want.gearId !== mounted.id) {
+          extra.push({ code: 'apparatus_already_mounted', message: `Point ${label} already has ${gearName(mounted)} mounted, and this class uses it; mount the other ${kind} on the point first to use that one.` });
+        }
+      } else {
+        const item = want ? items.get(want.gearId) : undefined;
+        if (want && !want.prefer && !item) extra.push({ code: 'unknown_gear', message: `There is no gear item with id ${want.gearId} to hang on point ${label}.` });
+        else if (want && !want.prefer && item && item.gear.kind !== kind) extra.push({ code: 'apparatus_wrong_kind', message: `${gearName(item.gear)} is not a ${kind}: this class hangs a ${kind} on point ${label}.` });
+        else if (item && item.gear.kind === kind && (!want!.prefer || (fitFor(item).length === 0 && !busyElsewhere(item.gear.id, pointId) && !taken.has(item.gear.id)))) recorded = item;
+        else {
+          recorded = chooseFromStock();
+          if (!recorded) {
+            const why = stock.length === 0 ? `the studio has no ${kind} in the gear room that is not retired` : stock.map((x) => `${x.gear.serial} (${itemBusy.has(x.gear.id) || taken.has(x.gear.id) ? 'hangs for another class at that time' : fitFor(x).map((r) => r.message.replace(/^The /, '')).join('; ')})`).join(', ');
+            extra.push(noApparatusReason(b.point, kind, why));
+          }
+        }
+      }
+      const hanging = hangFor(b.snapshot, kind, recorded);
       const check = bookingReasons({
-        point: b.snapshot,
+        point: hanging.snapshot,
         policy: a.policy,
         now: a.now,
-        session: { startsAt: a.occ.startsAt, endsAt: a.occ.endsAt, apparatus: a.classType.apparatus, performersPerPoint: a.classType.performersPerPoint, profile },
+        session: { startsAt: a.occ.startsAt, endsAt: a.occ.endsAt, apparatus: kind, performersPerPoint: a.classType.performersPerPoint, profile },
         pointBookedElsewhere: busy.has(pointId),
       });
-      const reasons = [...check.reasons];
+      const reasons = [...check.reasons, ...extra];
+      const hung = hanging.apparatus;
+      if (hung && (busyElsewhere(hung.id, pointId) || taken.has(hung.id))) {
+        reasons.push({ code: reasonCodes.apparatusDoubleBooked, message: `${gearName(hung)} already hangs for another class at that time, so it cannot also hang on point ${label}.` });
+      }
+      // Points asked about one by one (the picker, suggested replacements) do not share out the items.
+      if (hung && !a.eachAlone) taken.add(hung.id);
       if (b.point.roomId !== a.roomId) reasons.push({ code: 'point_not_in_room', message: `${b.point.label} hangs in ${b.point.roomName}, not in this class’s room.` });
-      return { pointId, reasons, warnings: check.warnings };
+      const apparatus = hung ? { gearId: hung.id, kind: hung.kind, serial: hung.serial, changeover: hanging.changeover } : null;
+      return { pointId, reasons, warnings: check.warnings, apparatus };
     });
     const reasons: Reason[] = [...instructorReasons(await repo.instructorBusy(a.instructorId, a.occ.startsAt, a.occ.endsAt, a.exclude, trx))];
     if (a.occ.endsAt.getTime() <= a.now.getTime()) reasons.push({ code: 'in_the_past', message: 'This class would already be over.' });
     return { points, reasons, ok: reasons.length === 0 && points.every((p) => p.reasons.length === 0) };
   }
 
+  /** The apparatus rows to write for a checked occurrence. */
+  const choicesOf = (points: Array<{ pointId: number; apparatus: { gearId: number } | null }>): ApparatusChoice[] =>
+    points.filter((p) => p.apparatus).map((p) => ({ pointId: p.pointId, gearId: p.apparatus!.gearId }));
+
+  /** Items named at booking, per point. */
+  const namedOf = (list: Array<{ pointId: number; gearId: number }> | undefined, prefer = false) => new Map((list ?? []).map((x) => [x.pointId, { gearId: x.gearId, prefer }]));
+
   function refuse(points: Array<{ pointId: number; reasons: Reason[] }>, reasons: Reason[], extra: Record<string, unknown> = {}): never {
-    const named = points.filter((p) => p.reasons.length);
+    const named = points.filter((p) => p.reasons.length).map(refusedPoint);
     throw conflict('points_unavailable', 'Some points cannot take this class at that time.', { points: named, reasons, ...extra });
   }
 
   /** A refused occurrence of a series, as a 409 lists it (creating a series, or changing "this and the following"). */
   function occurrenceOf(c: { occ: Occurrence; points: Array<{ pointId: number; reasons: Reason[] }>; reasons: Reason[] }) {
-    return { startsAt: c.occ.startsAt.toISOString(), endsAt: c.occ.endsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons };
+    return { startsAt: c.occ.startsAt.toISOString(), endsAt: c.occ.endsAt.toISOString(), points: c.points.filter((p) => p.reasons.length).map(refusedPoint), reasons: c.reasons };
   }
+  /** A refused point as the 409 lists it: its reasons and warnings (the apparatus it would have hung is moot). */
+  const refusedPoint = <P extends { pointId: number; reasons: Reason[] }>({ apparatus: _a, ...p }: P & { apparatus?: unknown }) => p;
 
   /**
-   * The wire view: each point's status at the session's start, at risk, inspection due, places.
-   * A class that has started shows what was kept at its start (PRODUCT.md §10), never today's status.
+   * The wire view: each point's status at the session's time as it hangs for the class, at risk,
+   * changeovers, places. A class that has started shows what was kept at its start (PRODUCT.md §10),
+   * never today's status: its points and what hung on them come from the record.
    */
-  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, policy: Policy, now: Date, track?: ValidityTracker, kept?: Map<number, SessionPointRecord[]>) {
+  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, recorded: Map<number, ApparatusBundle>, policy: Policy, now: Date, track?: ValidityTracker, kept?: Map<number, SessionPointRecord[]>) {
     const startsAt = new Date(s.startsAt);
     const endsAt = new Date(s.endsAt);
     const at = startsAt > now ? startsAt : now;
-    const snaps = s.pointIds.map((id) => bundles.get(id)).filter((b): b is SnapshotBundle => Boolean(b));
-    track?.session({ startsAt, endsAt, points: snaps.map((b) => b.snapshot) });
-    const risk = sessionRisk({ points: snaps.map((b) => b.snapshot), policy, now, startsAt, endsAt, cancelled: s.cancelled });
+    const hung = hangingOf(s, bundles, recorded);
+    track?.session({ startsAt, endsAt, points: hung.map((h) => h.hanging.snapshot) });
+    const risk = riskOf(s, hung, policy, now, { startsAt, endsAt, cancelled: s.cancelled });
     const live = !s.cancelled && endsAt > now;
-    const inspectionDue = live && snaps.some((b) => pointStatusOver(b.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
+    const inspectionDue = live && hung.some((h) => pointStatusOver(h.hanging.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
+    const { recordedApparatus: _recorded, ...record } = s;
     if (startsAt <= now) {
       const records = (kept?.get(s.id) ?? []).filter((r) => r.startsAt === s.startsAt);
       const points = records.map((r) => ({ pointId: r.pointId, label: r.label, status: r.status, clearedUntil: r.clearedUntil, reasons: r.reasons, apparatus: r.apparatus, recordedAt: r.recordedAt }));
-      return { ...s, points, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placesFromRecords(records, s.capacity, s.cancelled), recordedAtStart: true };
+      const hanging = records.map((r) => ({ pointId: r.pointId, gearId: r.apparatus?.gearId ?? null, kind: r.apparatus?.kind ?? null, serial: r.apparatus?.serial ?? null, mounted: r.apparatus !== null }));
+      return { ...record, points, hanging, changeovers: [], atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placesFromRecords(records, s.capacity, s.cancelled), recordedAtStart: true };
     }
-    const points = snaps.map((b) => ({ pointId: b.point.id, label: b.point.label, ...statusWire(pointStatusAt(b.snapshot, policy, at)) }));
+    const points = hung.map((h) => ({ pointId: h.bundle.point.id, label: h.bundle.point.label, ...statusWire(pointStatusAt(h.hanging.snapshot, policy, at)) }));
     const places = s.cancelled ? 0 : Math.min(s.capacity, points.filter((p) => p.status !== 'blocked').length);
-    return { ...s, points, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places, recordedAtStart: false };
+    const changeovers = !s.cancelled ? changeoversOf(hung, startsAt, policy.timeZone, true) : [];
+    return { ...record, points, hanging: apparatusWire(hung), changeovers, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places, recordedAtStart: false };
   }
 
   /** The kept records of the sessions that have started by `now` (kept first where a worker cycle has not yet). */
@@ -135,7 +203,8 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
         const kept = await startRecords(sessions, now);
         const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
-        return deriveAt(policy, now, (track) => sessions.map((s) => view(s, bundles, policy, track.now, track, kept)));
+        const recorded = await loadRecorded(rig, sessions, db);
+        return deriveAt(policy, now, (track) => sessions.map((s) => view(s, bundles, recorded, policy, track.now, track, kept)));
       });
     },
 
@@ -144,7 +213,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const { policy } = await studio.get();
       const now = clock.now();
       const kept = await startRecords([s], now);
-      return view(s, await bundlesFor(s.pointIds), policy, now, undefined, kept);
+      return view(s, await bundlesFor(s.pointIds), await loadRecorded(rig, [s], db), policy, now, undefined, kept);
     },
 
     /** What the booking dialog asks: each point of the room, bookable or not for that exact time, with reasons. */
@@ -163,9 +232,10 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         pointIds: roomPoints,
         bundles,
         exclude: q.excludeSessionId ? [q.excludeSessionId] : [],
+        eachAlone: true,
       });
       return {
-        points: result.points.map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, bookable: p.reasons.length === 0, reasons: p.reasons, warnings: p.warnings })),
+        points: result.points.map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, bookable: p.reasons.length === 0, reasons: p.reasons, warnings: p.warnings, apparatus: p.apparatus })),
         reasons: q.instructorId ? result.reasons : result.reasons.filter((r) => r.code !== 'instructor_double_booked'),
       };
     },
@@ -192,7 +262,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const bundles = await bundlesFor(body.pointIds, trx);
         const checks = [];
         for (const occ of occurrences) {
-          checks.push({ occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: body.roomId, instructorId: body.instructorId, occ, pointIds: body.pointIds, bundles, exclude: [] })) });
+          checks.push({ occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: body.roomId, instructorId: body.instructorId, occ, pointIds: body.pointIds, bundles, exclude: [], named: namedOf(body.apparatus) })) });
         }
         const refused = checks.filter((c) => !c.ok);
         if (refused.length && !(body.rrule && body.bookAvailable && refused.length < checks.length)) {
@@ -207,11 +277,12 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const seriesId = body.rrule ? await repo.insertSeries(body.rrule, now, trx) : null;
         const ids: number[] = [];
         for (const c of checks.filter((x) => x.ok)) {
-          ids.push(await repo.insert({ classTypeId: body.classTypeId, instructorId: body.instructorId, roomId: body.roomId, startsAt: c.occ.startsAt, endsAt: c.occ.endsAt, seriesId, pointIds: body.pointIds }, now, trx));
+          ids.push(await repo.insert({ classTypeId: body.classTypeId, instructorId: body.instructorId, roomId: body.roomId, startsAt: c.occ.startsAt, endsAt: c.occ.endsAt, seriesId, pointIds: body.pointIds, apparatus: choicesOf(c.points) }, now, trx));
         }
-        await audit.record(trx, { actorId, action: 'session.booked', entity: 'session', entityId: ids[0], after: { ...body, sessionIds: ids } }, now);
+        const apparatus = checks.filter((x) => x.ok).map((x) => choicesOf(x.points));
+        await audit.record(trx, { actorId, action: 'session.booked', entity: 'session', entityId: ids[0], after: { ...body, sessionIds: ids, apparatus } }, now);
         const warnings = checks.filter((c) => c.ok).flatMap((c) => c.points.flatMap((p) => p.warnings.map((w) => ({ ...w, pointId: p.pointId, startsAt: c.occ.startsAt.toISOString() }))));
-        return { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length), reasons: c.reasons })) };
+        return { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length).map(refusedPoint), reasons: c.reasons })) };
       });
       const firstSession = await this.get(created.ids[0]);
       return { ...firstSession, warnings: created.warnings, seriesId: created.seriesId, sessionIds: created.ids, skipped: created.skipped };
@@ -236,7 +307,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         for (const t of targets) {
           const occ = { startsAt: new Date(new Date(t.startsAt).getTime() + dStart), endsAt: new Date(new Date(t.endsAt).getTime() + dEnd) };
           if (occ.endsAt <= occ.startsAt) throw new HttpError(400, 'invalid_request', 'The class must end after it starts.', { source: 'body', fields: { endsAt: 'Must be after the start' } });
-          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude })) });
+          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude, named: namedOf(t.recordedApparatus, true) })) });
         }
         const refused = checks.filter((c) => !c.ok);
         if (refused.length) {
@@ -244,8 +315,10 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           const series = patch.scope === 'following' && s.seriesId ? { occurrences: refused.map((c) => ({ sessionId: c.t.id, ...occurrenceOf(c) })), bookable: checks.length - refused.length, total: checks.length } : {};
           refuse(first.points, first.reasons, { sessionId: first.t.id, startsAt: first.occ.startsAt.toISOString(), ...series });
         }
-        for (const { t, occ } of checks) {
+        for (const { t, occ, points } of checks) {
           await repo.update(t.id, { startsAt: occ.startsAt, endsAt: occ.endsAt, instructorId: patch.instructorId }, now, trx);
+          // A move may need another item where the one recorded is taken at the new time.
+          await repo.replacePoints(t.id, t.pointIds, choicesOf(points), occ.startsAt.toISOString(), occ.endsAt.toISOString(), trx);
           const after = (await repo.byId(t.id, trx))!;
           if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
           if (patch.instructorId !== undefined && patch.instructorId !== t.instructorId) await deps.notifier?.sessionChanged(trx, { kind: 'instructor_changed', sessionId: t.id, before: t, after, at: now });
@@ -268,9 +341,10 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         if (changesRoom && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
         const classType = await classTypeOrThrow(s.classTypeId, trx);
         const bundles = await bundlesFor(pointIds, trx);
-        const c = await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id] });
+        const named = new Map([...namedOf(s.recordedApparatus, true), ...namedOf(body.apparatus)]);
+        const c = await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id], named });
         if (!c.ok) refuse(c.points, c.reasons);
-        await repo.replacePoints(id, pointIds, s.startsAt, s.endsAt, trx);
+        await repo.replacePoints(id, pointIds, choicesOf(c.points), s.startsAt, s.endsAt, trx);
         await repo.update(id, changesRoom ? { roomId } : {}, now, trx);
         const after = (await repo.byId(id, trx))!;
         if (changesRoom) {
@@ -278,7 +352,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           await audit.record(trx, { actorId, action: 'session.room_changed', entity: 'session', entityId: id, before: { roomId: s.roomId, pointIds: s.pointIds }, after: { roomId, pointIds } }, now);
         } else {
           await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: id, before: s, after, at: now });
-          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: s.pointIds, after: pointIds }, now);
+          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: { pointIds: s.pointIds, apparatus: s.recordedApparatus }, after: { pointIds, apparatus: choicesOf(c.points) } }, now);
         }
       });
       return this.get(id);
@@ -309,7 +383,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const candidates = [...bundles.keys()].filter((p) => !s.pointIds.includes(p));
       const now = clock.now();
       const occ = { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) };
-      const c = await checkOccurrence(db, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ, pointIds: candidates, bundles, exclude: [id] });
+      const c = await checkOccurrence(db, { classType, policy, now, roomId: s.roomId, instructorId: s.instructorId, occ, pointIds: candidates, bundles, exclude: [id], eachAlone: true });
       return c.points
         .filter((p) => p.reasons.every((r) => r.code === 'point_not_in_room'))
         .map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, roomId: bundles.get(p.pointId)!.point.roomId, roomName: bundles.get(p.pointId)!.point.roomName, sameRoom: p.reasons.length === 0, warnings: p.warnings }))

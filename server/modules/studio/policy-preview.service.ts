@@ -5,6 +5,7 @@ import type { RigRepository } from '../rig/rig.repository';
 import type { SessionsRepository } from '../sessions/sessions.repository';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { loadSnapshots } from '../rig/point-snapshots';
+import { hangingOf, loadRecorded } from '../sessions/session-rig';
 import { policyChangeEffects } from '../../../shared/clearance';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { PolicyPreview } from '../../../shared/schemas/studio';
@@ -20,12 +21,14 @@ export function policyPreviewService(deps: { db: Db; studio: StudioRepository; r
       const now = clock.now();
       const { policy: current } = await studio.get();
       const bundles = await loadSnapshots(db, rig, {});
-      const byId = new Map(bundles.map((b) => [b.point.id, b.snapshot]));
+      const byId = new Map(bundles.map((b) => [b.point.id, b]));
       const types = new Map((await classTypes.list()).map((c) => [c.id, c]));
-      // Each booked point as it hangs now (the path with its mounted apparatus).
-      const booked = (await sessions.list({ from: now, to: new Date(now.getTime() + HORIZON_MS) })).flatMap((s) => {
+      const list = await sessions.list({ from: now, to: new Date(now.getTime() + HORIZON_MS) });
+      const recorded = await loadRecorded(rig, list, db);
+      // Each booked point as it hangs for its class: its fixed links and the class's apparatus (§4.7).
+      const booked = list.flatMap((s) => {
         const classType = types.get(s.classTypeId);
-        const points = s.pointIds.flatMap((id) => byId.get(id) ?? []);
+        const points = hangingOf(s, byId, recorded).map((h) => h.hanging.snapshot);
         return classType ? [{ id: s.id, startsAt: new Date(s.startsAt), cancelled: s.cancelled, classType, points }] : [];
       });
       const effects = policyChangeEffects({

@@ -7,7 +7,8 @@ import type { RigRepository } from '../rig/rig.repository';
 import { loadSnapshots } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { InspectionsRepository } from '../inspections/inspections.repository';
-import { pointStatusAt, sessionRisk, studioDay } from '../../../shared/clearance';
+import { pointStatusAt, studioDay, type PointSnapshot } from '../../../shared/clearance';
+import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf, type BookedClass } from '../sessions/session-rig';
 import type { CurrentUser } from '../../http/auth';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 
@@ -33,20 +34,35 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
       .where('sessions.starts_at', '<', end.toISOString())
       .where('sessions.ends_at', '>', start.toISOString())
       .orderBy('sessions.starts_at')
-      .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'rooms.name as room_name', 'users.name as instructor_name');
+      .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'class_types.performers_per_point', 'class_types.dynamic_factor', 'class_types.body_mass_kg', 'rooms.name as room_name', 'users.name as instructor_name');
     if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
-    const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
+    const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; performers_per_point: number; dynamic_factor: number | null; body_mass_kg: number | null; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
     const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
     const bookedBySession = new Map<number, number[]>();
     for (const b of booked) bookedBySession.set(b.session_id, [...(bookedBySession.get(b.session_id) ?? []), b.point_id]);
+    const hungRows = sessions.length ? ((await db('session_apparatus').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id', 'gear_id')) as Array<{ session_id: number; point_id: number; gear_id: number }>) : [];
+    const classes = new Map<number, BookedClass>(
+      sessions.map((s) => [
+        s.id,
+        {
+          apparatus: s.apparatus,
+          performersPerPoint: s.performers_per_point,
+          dynamicFactor: s.dynamic_factor,
+          bodyMassKg: s.body_mass_kg,
+          pointIds: bookedBySession.get(s.id) ?? [],
+          recordedApparatus: hungRows.filter((h) => h.session_id === s.id).map((h) => ({ pointId: h.point_id, gearId: h.gear_id })),
+        },
+      ]),
+    );
     const bundles = await loadSnapshots(db, rig);
     const byId = new Map(bundles.map((b) => [b.point.id, b]));
+    const recorded = await loadRecorded(rig, [...classes.values()], db);
     const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
-    const pointView = (id: number, at: Date) => {
+    const pointView = (id: number, at: Date, snapshot: PointSnapshot = byId.get(id)!.snapshot) => {
       const b = byId.get(id)!;
       const due = !preuse.has(id);
       // `preuse_due` is the contract's word (PRODUCT.md §6.1); `preuseDue` is the client's.
-      return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(b.snapshot, policy, at)), preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
+      return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(snapshot, policy, at)), preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
     };
     return deriveAt(policy, now, (track) => {
       // The studio day turns at midnight in the studio's zone: a new day, new sessions, pre-use due.
@@ -55,12 +71,13 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
         studioDay: studioDay(now, policy.timeZone),
         timeZone: policy.timeZone,
         sessions: sessions.map((s) => {
-          const pointIds = (bookedBySession.get(s.id) ?? []).filter((id) => byId.has(id));
+          const cls = classes.get(s.id)!;
           const startsAt = new Date(s.starts_at);
           const endsAt = new Date(s.ends_at);
-          const points = pointIds.map((id) => byId.get(id)!.snapshot);
-          track.session({ startsAt, endsAt, points });
-          const risk = sessionRisk({ points, policy, now, startsAt, endsAt, cancelled: Boolean(s.cancelled) });
+          // Each point as it hangs for this class: its own apparatus, mounted or to be mounted (§4.7).
+          const hung = hangingOf(cls, byId, recorded);
+          track.session({ startsAt, endsAt, points: hung.map((h) => h.hanging.snapshot) });
+          const risk = riskOf(cls, hung, policy, now, { startsAt, endsAt, cancelled: Boolean(s.cancelled) });
           return {
             id: s.id,
             className: s.class_name,
@@ -76,7 +93,9 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
             atRisk: risk.atRisk,
             riskReasons: risk.reasons,
             // Each point's status at the session's start, or now once it has begun.
-            points: pointIds.map((id) => pointView(id, startsAt > now ? startsAt : now)),
+            points: hung.map((h) => pointView(h.bundle.point.id, startsAt > now ? startsAt : now, h.hanging.snapshot)),
+            hanging: apparatusWire(hung),
+            changeovers: !s.cancelled && startsAt > now ? changeoversOf(hung, startsAt, policy.timeZone, false) : [],
           };
         }),
         points: bundles.map((b) => {

@@ -98,6 +98,7 @@ export function useRigMutations() {
       mutationFn: ({ id, ...body }: GearEventBody & { id: number }) => api(`/gear/${id}/events`, { method: 'POST', body }),
       onSuccess: invalidate,
     }),
+    mountApparatus: useMountApparatus(),
     upload: useMutation({
       mutationFn: ({ owner, file, kind }: { owner: DocumentOwner; file: File; kind: string }) => {
         const form = new FormData();
@@ -108,4 +109,16 @@ export function useRigMutations() {
       onSuccess: invalidate,
     }),
   };
+}
+
+/**
+ * PRODUCT.md §4.7: mount an apparatus on a point (riggers, and instructors doing a changeover on
+ * Today). It moves what every class on the point hangs, so the schedule and Today refresh too.
+ */
+export function useMountApparatus() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: ({ pointId, gearId }: { pointId: number; gearId: number }) => api(`/points/${pointId}/apparatus`, { method: 'POST', body: { gearId }, schema: z.object({ id: z.number(), changed: z.boolean(), movedFrom: z.string().nullable() }) }),
+    onSuccess: () => Promise.all([['rig'], ['today'], ['sessions'], ['schedule']].map((queryKey) => qc.invalidateQueries({ queryKey }))),
+  });
 }

@@ -19,6 +19,7 @@ import { LoadPathChain } from './components/link-card';
 import { LoadPathEditor, type SaveOutcome } from './components/load-path-editor';
 import { PointForm } from './components/point-form';
 import { PointStatusPanel } from './components/point-status-panel';
+import { MountApparatus } from './components/mount-apparatus';
 import { Detail } from './components/detail';
 
 const linkButton = 'inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50';
@@ -101,6 +102,7 @@ function PointView({ point, fmt, classTypes, classTypesError, classTypesPending 
           <>
             <LoadPathChain links={links} structure={point.structure} ratingKn={point.structuralRatingKn} fmt={fmt} />
             <Caution />
+            {isRigger && links.length > 0 ? <MountApparatus point={point} /> : null}
           </>
         )}
       </Card>

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { studioQueries } from '../settings/api';
 import { reasonSchema } from '../../../shared/schemas/rig';
+import { changeoverSchema } from '../../../shared/schemas/sessions';
 import type { PreuseBody } from '../../../shared/schemas/safety';
 
 // GET /api/today has no schema in shared/ yet; this is the part of it the board reads.
@@ -32,6 +33,8 @@ export const todaySessionSchema = z.object({
   atRisk: z.boolean(),
   riskReasons: z.array(reasonSchema.extend({ pointId: z.number() })),
   points: z.array(todayPointSchema),
+  /** Apparatus to mount before the class (PRODUCT.md §4.7). */
+  changeovers: z.array(changeoverSchema).default([]),
 });
 export type TodaySession = z.infer<typeof todaySessionSchema>;
 

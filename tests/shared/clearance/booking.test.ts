@@ -172,7 +172,7 @@ describe('instructorReasons', () => {
 
 describe('sessionRisk', () => {
   const risk = (points: PointSnapshot[], startsAt: Date, endsAt: Date, at: Date = now, cancelled = false) =>
-    sessionRisk({ points, policy, now: at, startsAt, endsAt, cancelled });
+    sessionRisk({ points, policy, now: at, startsAt, endsAt, cancelled, cls: session() });
   // Ten days after `now`: outside the 7-day window.
   const farStart = new Date('2025-06-20T17:00:00Z');
   const farEnd = new Date('2025-06-20T18:30:00Z');

@@ -71,7 +71,7 @@ function answers(point: PointSnapshot, policy: Policy, now: Date, session: { sta
     atSession: pointStatusAt(point, policy, at),
     over: pointStatusOver(point, policy, at, session.endsAt),
     live: session.endsAt > now,
-    risk: sessionRisk({ points: [point], policy, now, ...session }),
+    risk: sessionRisk({ points: [point], policy, now, ...session, cls: { apparatus: 'fabric', performersPerPoint: 1, profile: { performers: 1, bodyMassKg: policy.bodyMassKg, dynamicFactor: 5.6 } } }),
   };
 }
 

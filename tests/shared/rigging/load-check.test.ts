@@ -66,19 +66,19 @@ describe('a plain chain', () => {
   });
 
   it('counts a cross-loaded link at its minor strength and warns, without failing when the chain is still strong enough', () => {
-    const path = [sling(), link({ serial: 'X', majorKn: 100, minorKn: null }, { mode: 'minor' }), fabric()];
+    const path = [sling(), link({ serial: 'X', majorKn: 100, minorKn: 40 }, { mode: 'minor' }), fabric()];
     const result = check(path);
-    expect(result.chainStrengthKn).toBeCloseTo(100 * 0.3, 12);
+    expect(result.chainStrengthKn).toBe(40);
     expect(codes(result.warnings)).toEqual(['cross_loaded']);
     expect(result.pass).toBe(true);
   });
 
-  it('fails a chain whose cross-loading takes it below the factor', () => {
+  it('fails a chain whose cross-loading takes it below the factor, saying the minor figure was assumed', () => {
     const path = [sling(), link({ majorKn: 25, minorKn: null }, { mode: 'minor' }), fabric()];
     const result = check(path);
-    expect(result.chainStrengthKn).toBeCloseTo(7.5, 12);
+    expect(result.chainStrengthKn).toBe(7);
     expect(codes(result.violations)).toEqual(['factor_below_required']);
-    expect(codes(result.warnings)).toEqual(['cross_loaded']);
+    expect(codes(result.warnings)).toEqual(['cross_loaded', 'minor_rating_assumed']);
   });
 
   it('includes every load-independent rule violation, failing a strong chain', () => {
@@ -247,10 +247,18 @@ describe('the working', () => {
   });
 
   it('states the 30 % default it used for a missing minor rating', () => {
+    const result = check([sling(), link({ majorKn: 20, minorKn: null }, { mode: 'minor' }), fabric()]);
+    const step = result.working.filter((s) => s.step === 'link_strength')[1];
+    expect(step.inputs).toMatchObject({ basis: 'minor_default_30pct', majorKn: 20, defaultMinorFraction: 0.3, defaultMinorCapKn: 7 });
+    expect(step.label).toMatch(/30 %/);
+  });
+
+  it('states the 7 kN cap where 30 % of the major rating would be more', () => {
     const result = check([sling(), link({ majorKn: 50, minorKn: null }, { mode: 'minor' }), fabric()]);
     const step = result.working.filter((s) => s.step === 'link_strength')[1];
-    expect(step.inputs).toMatchObject({ basis: 'minor_default_30pct', majorKn: 50, defaultMinorFraction: 0.3 });
-    expect(step.label).toMatch(/30 %/);
+    expect(step.inputs).toMatchObject({ basis: 'minor_default_cap', majorKn: 50, defaultMinorCapKn: 7 });
+    expect(step.output).toBe(7);
+    expect(step.label).toMatch(/7 kN cap/);
   });
 });
 

@@ -294,9 +294,12 @@ describe('properties of the load check', () => {
     });
     fc.assert(
       fc.property(path.chain((p) => fc.tuple(fc.constant(p), checkInput(p.links), fc.nat())), ([p, input, at]) => {
-        // Into the part of the path that carries the whole load, above the last link.
-        const span = input.links.length - p.trunkStart;
-        const position = p.trunkStart + (at % span);
+        // Into the part of the path that carries the whole load, above the last link; in a bridle,
+        // below the meeting link, which takes three strands by construction (§4.2).
+        const first = p.trunkStart > 0 ? p.trunkStart + 1 : 0;
+        const span = input.links.length - first;
+        if (span <= 0) return;
+        const position = first + (at % span);
         const links = [...input.links.slice(0, position), spare(at), ...input.links.slice(position)];
         const before = checkLoadPath(input);
         const after = checkLoadPath({ ...input, links });

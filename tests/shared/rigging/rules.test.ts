@@ -43,10 +43,14 @@ describe('effective strength', () => {
     expect(effectiveStrengthKn(rated, 'minor')).toEqual({ kn: 8, basis: 'minor' });
   });
 
-  it('counts a cross-loaded link at 30 % of its major rating when the maker gives no minor rating', () => {
-    const result = effectiveStrengthKn({ ...rated, minorKn: null }, 'minor');
+  it('counts a cross-loaded link at 30 % of its major rating when the maker gives no minor rating and that is at most 7 kN', () => {
+    const result = effectiveStrengthKn({ ...rated, majorKn: 20, minorKn: null }, 'minor');
     expect(result.basis).toBe('minor_default_30pct');
-    expect(result.kn).toBeCloseTo(24 * 0.3, 12);
+    expect(result.kn).toBeCloseTo(20 * 0.3, 12);
+  });
+
+  it('counts a cross-loaded link at 7 kN when 30 % of its major rating would be more', () => {
+    expect(effectiveStrengthKn({ ...rated, majorKn: 24, minorKn: null }, 'minor')).toEqual({ kn: 7, basis: 'minor_default_cap' });
   });
 
   it('counts a gate-open link at its gate-open rating, and at nothing when none is given', () => {

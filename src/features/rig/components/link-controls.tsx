@@ -24,6 +24,7 @@ export function LinkControls({
   count,
   pool,
   angleError,
+  bridleMeeting = false,
   onChange,
   onMove,
   onSwap,
@@ -34,6 +35,8 @@ export function LinkControls({
   count: number;
   pool: Gear[];
   angleError?: string;
+  /** The link a bridle's legs meet in: three-way by construction (PRODUCT.md §4.2), shown set and locked. */
+  bridleMeeting?: boolean;
   onChange: (patch: LinkPatch) => void;
   onMove: (dir: -1 | 1) => void;
   onSwap: (gear: Gear) => void;
@@ -65,7 +68,16 @@ export function LinkControls({
         />
       </div>
       <div className="flex flex-wrap gap-x-6">
-        <CheckboxField label="Takes a three-way load" checked={link.threeWay} onChange={(e) => onChange({ threeWay: e.target.checked })} />
+        {bridleMeeting ? (
+          <CheckboxField
+            label="Takes a three-way load"
+            checked
+            disabled
+            hint="The bridle legs meet in this link, so it takes three strands whatever is ticked: use a tri or delta screw link, or a swivel base, rated for it."
+          />
+        ) : (
+          <CheckboxField label="Takes a three-way load" checked={link.threeWay} onChange={(e) => onChange({ threeWay: e.target.checked })} />
+        )}
         <CheckboxField label="Wide material fills the basket past half" checked={link.basketOverHalf} onChange={(e) => onChange({ basketOverHalf: e.target.checked })} />
       </div>
       <div className="flex flex-wrap items-end gap-2">

@@ -2,7 +2,7 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { toast } from 'sonner';
 import { Info, Plus } from 'lucide-react';
-import { describeGear } from '../../../../shared/rigging';
+import { describeGear, parseBridle } from '../../../../shared/rigging';
 import { voidsClearance } from '../../../../shared/clearance';
 import { loadPathBodySchema, type Gear, type Point } from '../../../../shared/schemas/rig';
 import type { ApparatusKind } from '../../../../shared/schemas/vocabulary';
@@ -37,6 +37,7 @@ export function LoadPathEditor({ point, fmt, classTypes, onDone }: { point: Poin
 
   const original = useMemo(() => toLinkInputs(draftOf(point)), [point]);
   const edited = useMemo(() => toLinkInputs(links), [links]);
+  const meetingIndex = useMemo(() => parseBridle(edited).meetingIndex, [edited]);
   const before = pathConfig(point.structuralRatingKn, original);
   const after = pathConfig(point.structuralRatingKn, edited);
   const changed = !samePath(before, after);
@@ -139,6 +140,7 @@ export function LoadPathEditor({ point, fmt, classTypes, onDone }: { point: Poin
                 count={links.length}
                 pool={pool}
                 angleError={problems[link.key]?.angle}
+                bridleMeeting={i === meetingIndex}
                 onChange={(p) => patch(link.key, p)}
                 onMove={(dir) => move(i, dir)}
                 onSwap={(gear) => edit(links.map((l) => (l.key === link.key ? { ...l, gear } : l)), `${describeGear(link.gear)} swapped for ${describeGear(gear)}.`)}

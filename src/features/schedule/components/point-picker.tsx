@@ -1,6 +1,6 @@
 import { useEffect, useId } from 'react';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
-import { CalendarClock, CircleCheck, OctagonX, UserX } from 'lucide-react';
+import { CalendarClock, CircleCheck, OctagonX, Repeat2, UserX } from 'lucide-react';
 import type { AvailabilityQuery, PointVerdict } from '../../../../shared/schemas/sessions';
 import { scheduleQueries, type Availability } from '../api';
 import { Loading } from '../../../components/ui/states';
@@ -99,6 +99,9 @@ function PointRow({ verdict: p, checked, onToggle }: { verdict: PointVerdict; ch
           </span>
           <span id={`${id}-why`} className="block">
             {p.reasons.map((r) => <span key={r.code + r.message} className="block text-sm text-stop-700">{r.message}</span>)}
+            {p.bookable && p.apparatus?.changeover ? (
+              <span className="flex items-center gap-1 text-sm text-warn-700"><Repeat2 className="size-4 shrink-0" aria-hidden />Changeover needed: {p.apparatus.kind} {p.apparatus.serial} is mounted on {p.label} before the class</span>
+            ) : null}
             {p.warnings.map((w) => (
               <span key={w.code + w.message} className="flex items-center gap-1 text-sm text-warn-700"><CalendarClock className="size-4 shrink-0" aria-hidden />{w.message}</span>
             ))}

@@ -8,7 +8,7 @@ import { scheduleQueries, type Session } from '../api';
 import { stateOf } from '../session-state';
 import { apparatusLabel, clockRange, longDay, placesText, zoneAbbrev } from '../format';
 import { SessionStateBadge } from './session-state-badge';
-import { RiskReasons, SessionPoints } from './session-points';
+import { RiskReasons, SessionChangeovers, SessionPoints } from './session-points';
 import { SuggestedReplacements } from './suggested-replacements';
 import { ChangePointsForm } from './change-points-form';
 import { MoveSessionForm } from './move-session-form';
@@ -82,6 +82,7 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
         ) : null}
       </div>
       <RiskReasons session={s} />
+      <SessionChangeovers session={s} />
       {canEdit && !s.cancelled && !started && s.atRisk ? <SuggestedReplacements session={s} onSwapped={setFlash} /> : null}
       <SessionPoints session={s} timeZone={timeZone} />
       {canEdit ? (

@@ -1,4 +1,4 @@
-import { CircleHelp, TriangleAlert } from 'lucide-react';
+import { CircleHelp, Repeat2, TriangleAlert } from 'lucide-react';
 import { gearKindLabels } from '../../../../shared/rigging/strength';
 import { Link } from 'react-router-dom';
 import type { Session } from '../api';
@@ -17,6 +17,33 @@ export function RiskReasons({ session }: { session: Session }) {
         {session.riskReasons.map((r) => <li key={`${r.pointId}-${r.code}-${r.message}`}>{r.message}</li>)}
       </ul>
     </div>
+  );
+}
+
+/** The apparatus to mount before the class (PRODUCT.md §4.7), for the desk to see and plan. */
+export function SessionChangeovers({ session }: { session: Session }) {
+  if (!session.changeovers.length) return null;
+  return (
+    <section aria-labelledby="session-changeovers" className="rounded-xl border border-warn-700/30 bg-warn-50 p-4">
+      <h3 id="session-changeovers" className="flex items-center gap-2 font-semibold text-ink"><Repeat2 className="size-5 shrink-0" aria-hidden />Changeover before class</h3>
+      <ul className="mt-2 list-disc space-y-1 pl-9 text-sm">
+        {session.changeovers.map((c) => (
+          <li key={`${c.pointId}-${c.gearId}`}>{c.message}{c.mountedSerial ? ` (${c.mountedSerial} comes down first)` : ''}</li>
+        ))}
+      </ul>
+      <p className="mt-1 text-sm text-muted">The instructor or a rigger mounts it from Today or the point’s page.</p>
+    </section>
+  );
+}
+
+/** What hangs on the point for this class: the mounted apparatus, or the one to mount. */
+function HangingLine({ session, pointId }: { session: Session; pointId: number }) {
+  const h = session.hanging.find((x) => x.pointId === pointId);
+  if (!h) return null;
+  return (
+    <p className="text-sm">
+      {h.serial ? <>Hangs {h.kind} {h.serial}{h.mounted ? ' (mounted)' : ' (to be mounted before class)'}</> : <span className="text-stop-700">No {session.apparatus} to hang for this class</span>}
+    </p>
   );
 }
 
@@ -59,6 +86,7 @@ export function SessionPoints({ session, timeZone }: { session: Session; timeZon
                   {session.recordedAtStart ? <> · {p.apparatus ? <>{gearKindLabels[p.apparatus.kind as keyof typeof gearKindLabels] ?? p.apparatus.kind} {p.apparatus.serial} hanging</> : 'no apparatus hanging'}</> : null}
                 </p>
               )}
+              {session.recordedAtStart ? null : <HangingLine session={session} pointId={p.pointId} />}
               {p.reasons.length ? (
                 <ul className="list-disc space-y-0.5 pl-5 text-sm text-stop-700">
                   {p.reasons.map((r) => <li key={r.code + r.message}>{r.message}</li>)}
