@@ -127,7 +127,9 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
   const inspectionsRepo = inspectionsRepository(db);
-  const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock });
+  // What each class kept of its points as it started (PRODUCT.md §10); the exports read them too.
+  const records = sessionRecords({ db, rig: rigRepo, studio: studioRepo });
+  const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock, records });
   // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
   // (sessions: outbox.notifySessionChange) write to it in their own transaction; the worker sends.
   const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
@@ -137,8 +139,6 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   studioRoutes(api, studioService(studioRepo, clock, { db, audit }), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
-  // What each class kept of its points as it started (PRODUCT.md §10); the export reads them too.
-  const records = sessionRecords({ db, rig: rigRepo, studio: studioRepo });
   rigRoutes(api, rig, docs, db, records);
   documentsRoutes(api, docs);
   classTypesRoutes(api, classTypes);

@@ -4,6 +4,8 @@ import { stringify } from 'csv-stringify';
 import type { Inspection } from '../../../shared/schemas/safety';
 import { formatStudioDateTime } from '../../../shared/clearance';
 import { formulaSafeRow } from '../../../shared/records/csv-safe';
+import { HELD_CSS, heldSection } from '../sessions/classes-held-export';
+import type { ClassHeldRecord } from '../sessions/session-records';
 
 /** What the foot of every export carries (PRODUCT.md §10). */
 export interface ExportMeta {
@@ -73,7 +75,7 @@ export function csvRows(i: Inspection, timeZone: string): string[][] {
 }
 
 /** A client that goes away mid-download ends the export quietly; any other failure is reported. */
-async function pipeTo(out: Writable, source: Readable, through?: NodeJS.ReadWriteStream): Promise<void> {
+export async function pipeTo(out: Writable, source: Readable, through?: NodeJS.ReadWriteStream): Promise<void> {
   try {
     await (through ? pipeline(source, through, out) : pipeline(source, out));
   } catch (err) {
@@ -104,7 +106,7 @@ export async function streamCsv(out: Writable, batches: AsyncIterable<Inspection
   return count;
 }
 
-const esc = (v: string) => v.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+export const esc = (v: string) => v.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 const PRINT_CSS = `
 :root { color: #111; background: #fff; font-family: Lexend, "Segoe UI", system-ui, sans-serif; font-size: 10.5pt; line-height: 1.35; }
@@ -142,15 +144,19 @@ td.res { white-space: nowrap; }
 `;
 
 /** The printable log: one page of HTML, streamed entry by entry, for the browser to print. */
-export async function streamPrintable(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
+export async function streamPrintable(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta, held?: { batches: AsyncIterable<ClassHeldRecord[]>; scope: string }): Promise<number> {
   let count = 0;
+  const heldCounts = { records: 0, classes: 0 };
   async function* chunks() {
     yield printableHead(meta);
     for await (const batch of batches) {
       count += batch.length;
       yield batch.map((i) => printableEntry(i, meta.timeZone)).join('');
     }
-    yield printableFoot(count, meta);
+    if (count === 0) yield '<p>No inspections match.</p>';
+    // The classes held in the same range follow the inspections, under the same chain head.
+    if (held) yield* heldSection(held.batches, { ...meta, scope: held.scope }, heldCounts);
+    yield printableFoot(count, meta, held ? heldCounts : null);
   }
   await pipeTo(out, Readable.from(chunks()));
   return count;
@@ -158,11 +164,11 @@ export async function streamPrintable(out: Writable, batches: AsyncIterable<Insp
 
 function printableHead(meta: ExportMeta): string {
   const title = `${meta.studioName}: inspection log`;
-  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${esc(title)}</title><style>${PRINT_CSS}</style><script src="/print-log.js" defer></script></head><body>
+  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${esc(title)}</title><style>${PRINT_CSS}${HELD_CSS}</style><script src="/print-log.js" defer></script></head><body>
 <header><h1>${esc(title)}</h1>
 <p class="meta">${esc(meta.scope)}, newest first. Times in ${esc(meta.timeZone.replace(/_/g, ' '))}. Printed ${esc(formatStudioDateTime(meta.exportedAt, meta.timeZone))}.</p>
 <p class="caution"><strong>Caution.</strong> Figures come from the ratings entered and the rules configured. They do not replace inspection by a qualified rigger, the maker’s instructions, an engineer’s assessment of the structure, or local codes and licensed practice.</p>
-<div class="toolbar"><button type="button" data-print>Print this log</button><span>Every matching inspection is on this page; page numbers and the audit chain head print with it.</span></div>
+<div class="toolbar"><button type="button" data-print>Print this log</button><span>Every matching inspection, and the classes held in the same range, are on this page; page numbers and the audit chain head print with it.</span></div>
 </header><main>`;
 }
 
@@ -190,6 +196,7 @@ function printableEntry(i: Inspection, timeZone: string): string {
   return `<article data-inspection="${i.id}"><h2><span>#${i.id} · ${esc(subject)}</span><span>${esc(kindWord[i.kind])}</span><span>Result: ${i.result === 'pass' ? 'pass' : i.result.toUpperCase()}</span><span class="when">${esc(when(i.inspectedAt))} · ${esc(i.inspector ?? 'former staff member')}</span></h2>${outcome}${reasons}${i.notes ? `<p class="notes">Notes: ${esc(i.notes)}</p>` : ''}${items}${photos}</article>`;
 }
 
-function printableFoot(count: number, meta: ExportMeta): string {
-  return `${count ? '' : '<p>No inspections match.</p>'}</main><footer class="foot" data-testid="chain-head"><p>${count} inspection${count === 1 ? '' : 's'} in this log. End of log.</p><p>Audit chain head when printed: <code>${meta.head.count}:${esc(meta.head.hash)}</code><br>The owner can check that this head is still in the studio’s audit chain (Audit → Verify the audit chain).</p></footer></body></html>`;
+function printableFoot(count: number, meta: ExportMeta, held: { records: number; classes: number } | null): string {
+  const heldText = held ? ` ${held.classes} class${held.classes === 1 ? '' : 'es'} held (${held.records} booked point${held.records === 1 ? '' : 's'}).` : '';
+  return `</main><footer class="foot" data-testid="chain-head"><p>${count} inspection${count === 1 ? '' : 's'} in this log.${heldText} End of log.</p><p>Audit chain head when printed: <code>${meta.head.count}:${esc(meta.head.hash)}</code><br>The owner can check that this head is still in the studio’s audit chain (Audit → Verify the audit chain).</p></footer></body></html>`;
 }

@@ -15,6 +15,7 @@ import { intervalClassOfKind } from '../../../shared/schemas/vocabulary';
 import type { ClearanceBody, GearInspectionBody, InspectionLogFilters, InspectionLogQuery, PreuseBody } from '../../../shared/schemas/safety';
 import type { InspectionsRepository } from './inspections.repository';
 import { streamCsv, streamPrintable } from './inspection-export';
+import type { SessionRecords } from '../sessions/session-records';
 
 type Items = Array<{ key: string; result: string; note?: string }>;
 
@@ -36,7 +37,7 @@ function matchItems(expected: Array<{ key: string }>, got: Items) {
   }
 }
 
-export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; rig: RigRepository; studio: StudioRepository; audit: AuditRepository; faults: FaultsService; clock: Clock }) {
+export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; rig: RigRepository; studio: StudioRepository; audit: AuditRepository; faults: FaultsService; clock: Clock; records: SessionRecords }) {
   const { db, repo, rig, studio, audit, faults, clock } = deps;
 
   async function pointBundle(id: number, trx: Db = db) {
@@ -212,7 +213,9 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
      */
     async export(f: InspectionLogFilters, format: 'csv' | 'html', out: Writable): Promise<number> {
       const { name, policy } = await studio.get();
-      const { head, upToId } = await db.transaction(async (trx) => ({ head: await audit.head(trx), upToId: await repo.maxId(trx) }));
+      // The printable log carries the classes held in the range: any started class's missing record is kept first.
+      if (format === 'html') await deps.records.keepInRange(f.from, f.to, clock.now());
+      const { head, upToId, heldUpToId } = await db.transaction(async (trx) => ({ head: await audit.head(trx), upToId: await repo.maxId(trx), heldUpToId: await deps.records.maxId(trx) }));
       const points = f.pointId ? await rig.pointById(f.pointId) : null;
       const gear = f.gearId ? await rig.gearById(f.gearId) : null;
       const day = (iso: string) => formatStudioDateTime(new Date(iso), policy.timeZone);
@@ -225,7 +228,16 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
       ].filter(Boolean).join(' ');
       const meta = { studioName: name, timeZone: policy.timeZone, exportedAt: clock.now(), head, scope };
       const batches = repo.batches(f, upToId);
-      return format === 'csv' ? streamCsv(out, batches, meta) : streamPrintable(out, batches, meta);
+      if (format === 'csv') return streamCsv(out, batches, meta);
+      const heldScope = [
+        'Classes',
+        points ? `on point ${points.label}` : f.pointId ? `on point #${f.pointId}` : '',
+        gear ? `that hung gear ${gear.serial}` : f.gearId ? `that hung gear #${f.gearId}` : '',
+        f.from ? `starting from ${day(f.from)}` : '',
+        f.to ? `before ${day(f.to)}` : '',
+      ].filter(Boolean).join(' ');
+      const held = { batches: deps.records.heldBatches(f, heldUpToId), scope: f.kind ? `${heldScope} (the kind filter is for inspections only)` : heldScope };
+      return streamPrintable(out, batches, meta, held);
     },
   };
 }

@@ -1,4 +1,5 @@
 import { writeTransaction, type Db } from '../../db/knex';
+import { keyset, type SortColumn } from '../../db/keyset';
 import type { RigRepository } from '../rig/rig.repository';
 import type { StudioRepository } from '../studio/studio.repository';
 import { loadApparatus, loadSnapshots } from '../rig/point-snapshots';
@@ -43,6 +44,31 @@ const toRecord = (r: Row): SessionPointRecord => ({
   apparatus: r.apparatus_json ? (JSON.parse(r.apparatus_json) as SessionPointRecord['apparatus']) : null,
   recordedAt: r.recorded_at,
 });
+
+/** A record with its class as the export prints it: name, room, instructor, cancelled or not. */
+export interface ClassHeldRecord extends SessionPointRecord {
+  id: number;
+  endsAt: string;
+  cancelled: boolean;
+  className: string;
+  roomName: string;
+  instructorName: string;
+}
+
+/** The classes-held export's filters: the log's range and point; `gearId` keeps classes that hung that item. */
+export interface ClassHeldFilters {
+  from?: string;
+  to?: string;
+  pointId?: number;
+  gearId?: number;
+}
+
+/** Newest class first; a class's points together (by record id, unique, so the keyset is exact). */
+const HELD_SORT: SortColumn[] = [
+  { col: 'r.starts_at', dir: 'desc' },
+  { col: 'r.session_id', dir: 'desc' },
+  { col: 'r.id', dir: 'asc' },
+];
 
 /** How far back the worker looks for a started class without its record; older ones are kept when read. */
 const WORKER_LOOKBACK_MS = 2 * 86_400_000;
@@ -118,9 +144,53 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
     return out;
   }
 
+  /** Keeps the record of every class started in [from, to) that lacks one, 500 classes at a time. */
+  async function keepInRange(from: string | undefined, to: string | undefined, now: Date): Promise<void> {
+    const q = db('sessions').where('starts_at', '<=', now.toISOString()).orderBy('id').pluck('id');
+    if (from) q.where('starts_at', '>=', new Date(from).toISOString());
+    if (to) q.where('starts_at', '<', new Date(to).toISOString());
+    const started = (await q) as number[];
+    for (let i = 0; i < started.length; i += 500) await keepStarted(now, started.slice(i, i + 500));
+  }
+
   return {
     keepStarted,
+    keepInRange,
     bySession,
+    async maxId(trx: Db = db): Promise<number> {
+      const row = (await trx('session_records').max({ id: 'id' }).first()) as { id: number | null } | undefined;
+      return Number(row?.id ?? 0);
+    },
+    /**
+     * Every record of classes started in [from, to), newest class first, in batches read one after
+     * another by keyset (the export): memory holds one batch whatever the range. Only records up to
+     * `upToId` are read, so the foot's chain head vouches for exactly the rows above it.
+     */
+    async *heldBatches(f: ClassHeldFilters, upToId: number, batchSize = 500): AsyncGenerator<ClassHeldRecord[]> {
+      let after: Array<string | number> | undefined;
+      for (;;) {
+        const q = db('session_records as r')
+          .join('sessions as s', 's.id', 'r.session_id')
+          .join('class_types as c', 'c.id', 's.class_type_id')
+          .join('rooms as m', 'm.id', 's.room_id')
+          .leftJoin('users as u', 'u.id', 's.instructor_id')
+          .where('r.id', '<=', upToId)
+          .select('r.*', 's.ends_at', 's.cancelled', 'c.name as class_name', 'm.name as room_name', 'u.name as instructor_name');
+        if (f.from) q.where('r.starts_at', '>=', new Date(f.from).toISOString());
+        if (f.to) q.where('r.starts_at', '<', new Date(f.to).toISOString());
+        if (f.pointId) q.where('r.point_id', f.pointId);
+        const rows = (await keyset(q, HELD_SORT, after).limit(batchSize)) as Array<Row & { ends_at: string; cancelled: number | boolean; class_name: string; room_name: string; instructor_name: string | null }>;
+        if (!rows.length) return;
+        const items = rows
+          .map((r) => ({ ...toRecord(r), id: r.id, endsAt: r.ends_at, cancelled: Boolean(r.cancelled), className: r.class_name, roomName: r.room_name, instructorName: r.instructor_name ?? 'former staff member' }))
+          // The item that hung is kept in the record's JSON; a gear filter reads it there.
+          .filter((r) => !f.gearId || r.apparatus?.gearId === f.gearId);
+        if (items.length) yield items;
+        if (rows.length < batchSize) return;
+        const last = rows[rows.length - 1];
+        after = [last.starts_at, last.session_id, last.id];
+      }
+    },
     /** The records of the given started sessions, keeping any not yet kept first. */
     async ensure(sessionIds: number[], now: Date): Promise<Map<number, SessionPointRecord[]>> {
       if (!sessionIds.length) return new Map();
@@ -152,8 +222,7 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
      * keeps any not yet kept for classes already started.
      */
     async inRange(from: Date, to: Date, now: Date): Promise<SessionPointRecord[]> {
-      const started = (await db('sessions').where('starts_at', '>=', from.toISOString()).where('starts_at', '<', to.toISOString()).where('starts_at', '<=', now.toISOString()).pluck('id')) as number[];
-      for (let i = 0; i < started.length; i += 500) await keepStarted(now, started.slice(i, i + 500));
+      await keepInRange(from.toISOString(), to.toISOString(), now);
       const rows = (await db('session_records').where('starts_at', '>=', from.toISOString()).where('starts_at', '<', to.toISOString()).orderBy([{ column: 'starts_at' }, { column: 'session_id' }, { column: 'point_id' }])) as Row[];
       return rows.map(toRecord);
     },

@@ -1,6 +1,7 @@
 import type { ApiRouter } from '../../http/route';
 import { idParams } from '../../../shared/schemas/common';
 import { availabilityQuery, cancelSessionSchema, createSessionSchema, sessionListQuery, swapPointsSchema, updateSessionSchema } from '../../../shared/schemas/sessions';
+import { inspectionLogFilters } from '../../../shared/schemas/safety';
 import type { SessionsService } from './sessions.service';
 
 const DESK = ['reception', 'owner'] as const;
@@ -8,6 +9,16 @@ const DESK = ['reception', 'owner'] as const;
 export function sessionsRoutes(api: ApiRouter, sessions: SessionsService) {
   api.get('/sessions', { access: 'signed_in', query: sessionListQuery, handler: ({ query }) => sessions.list(query) });
   api.get('/sessions/availability', { access: 'signed_in', query: availabilityQuery, handler: ({ query }) => sessions.availability(query) });
+  // The classes held in a range as recorded at their start, streamed (PRODUCT.md §10); the log's filters, same access as its export.
+  api.get('/sessions/records/export.csv', {
+    access: ['owner', 'rigger'],
+    query: inspectionLogFilters,
+    handler: async ({ query, res }) => {
+      res.type('text/csv; charset=utf-8').attachment('loftwise-classes-held.csv');
+      await sessions.exportHeld(query, res);
+      return undefined;
+    },
+  });
   api.get('/sessions/:id', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.get(params.id) });
   api.get('/sessions/:id/alternatives', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.alternatives(params.id) });
   api.post('/sessions', { access: DESK, body: createSessionSchema, status: 201, handler: ({ body, user }) => sessions.create(body, user.id) });

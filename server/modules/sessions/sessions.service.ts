@@ -17,6 +17,10 @@ import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery,
 import type { ApparatusChoice, SessionRecord, SessionsRepository } from './sessions.repository';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 import { sessionRecords, type SessionPointRecord, type SessionRecords } from './session-records';
+import type { Writable } from 'node:stream';
+import { formatStudioDateTime } from '../../../shared/clearance';
+import type { InspectionLogFilters } from '../../../shared/schemas/safety';
+import { streamHeldCsv } from './classes-held-export';
 
 export type SessionChangeKind = 'moved' | 'points_swapped' | 'room_changed' | 'cancelled' | 'instructor_changed';
 /** Told inside the change's transaction, so the instructor's e-mail is queued with it or not at all. */
@@ -190,6 +194,28 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
   }
 
   return {
+    /**
+     * The classes held in a range (PRODUCT.md §10): each booked point as recorded at the class's
+     * start, streamed as CSV with the chain head at the foot. Missing records of started classes
+     * are kept first; the head and the newest record are read together, so the foot vouches for
+     * exactly the rows above it. The log's `kind` filter is for inspections and is ignored here.
+     */
+    async exportHeld(f: InspectionLogFilters, out: Writable): Promise<number> {
+      const { name, policy } = await studio.get();
+      await records.keepInRange(f.from, f.to, clock.now());
+      const { head, upToId } = await db.transaction(async (trx) => ({ head: await audit.head(trx), upToId: await records.maxId(trx) }));
+      const point = f.pointId ? await rig.pointById(f.pointId) : null;
+      const gear = f.gearId ? await rig.gearById(f.gearId) : null;
+      const day = (iso: string) => formatStudioDateTime(new Date(iso), policy.timeZone);
+      const scope = [
+        'Classes',
+        point ? `on point ${point.label}` : f.pointId ? `on point #${f.pointId}` : '',
+        gear ? `that hung gear ${gear.serial}` : f.gearId ? `that hung gear #${f.gearId}` : '',
+        f.from ? `starting from ${day(f.from)}` : '',
+        f.to ? `before ${day(f.to)}` : '',
+      ].filter(Boolean).join(' ');
+      return streamHeldCsv(out, records.heldBatches(f, upToId), { studioName: name, timeZone: policy.timeZone, exportedAt: clock.now(), head, scope });
+    },
     async list(q: SessionListQuery) {
       const from = new Date(q.from);
       const to = new Date(q.to);
