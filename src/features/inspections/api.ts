@@ -69,6 +69,8 @@ export const inspectionQueries = {
 };
 
 export const exportCsvHref = (f: LogFilters, timeZone: string) => `/api/inspections/export.csv${logSearch(f, timeZone)}`;
+/** Each booked point of the classes held in the same range and point, as recorded at each class's start. */
+export const classesHeldCsvHref = (f: LogFilters, timeZone: string) => `/api/sessions/records/export.csv${logSearch(f, timeZone)}`;
 /** The complete printable log (a page of its own, streamed by the server). */
 export const printableHref = (f: LogFilters, timeZone: string) => `/api/inspections/export.html${logSearch(f, timeZone)}`;
 

@@ -5,7 +5,7 @@ import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { EmptyState, ErrorState, Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
-import { exportCsvHref, inspectionQueries, printableHref, type InspectionKind, type LogFilters } from '../api';
+import { classesHeldCsvHref, exportCsvHref, inspectionQueries, printableHref, type InspectionKind, type LogFilters } from '../api';
 import { kindText } from '../labels';
 import { InspectionEntry } from './inspection-entry';
 
@@ -43,9 +43,15 @@ export function InspectionLog({ timeZone, canExport }: { timeZone: string; canEx
             <a href={exportCsvHref(asked, timeZone)} download className={linkButton}>
               <Download className="size-4" aria-hidden /> Download CSV
             </a>
+            <a href={classesHeldCsvHref(asked, timeZone)} download className={linkButton}>
+              <Download className="size-4" aria-hidden /> Classes held CSV
+            </a>
             <a href={printableHref(asked, timeZone)} target="_blank" rel="noopener" className={linkButton}>
               <Printer className="size-4" aria-hidden /> Printable log<span className="sr-only"> (opens in a new tab)</span>
             </a>
+            <p className="basis-full text-xs text-muted">
+              The printable log ends with the classes held in the same dates{filters.pointId ? ' on this point' : ''}: each point’s status as recorded when the class started, never today’s.
+            </p>
           </div>
         ) : null}
       </div>
