@@ -103,6 +103,27 @@ describe('the inspection log on screen and on paper', () => {
     await printable.close();
   });
 
+  it('ends the printable log with the classes held, each point as recorded at the class’s start, and offers them as a CSV', async () => {
+    await owner.goto(`${baseUrl}/inspections`);
+    const log = owner.getByTestId('inspection-log');
+    const csv = log.getByRole('link', { name: /Classes held CSV/ });
+    expect(await csv.getAttribute('href')).toBe('/api/sessions/records/export.csv');
+    const [printable] = await Promise.all([owner.context().waitForEvent('page'), log.getByRole('link', { name: /Printable log/ }).click()]);
+    await printable.waitForLoadState('load');
+    // The demo studio's past classes were recorded at their start.
+    const held = printable.getByTestId('classes-held');
+    expect(await held.getByRole('heading', { name: 'Classes held' }).isVisible()).toBe(true);
+    expect(await held.locator('.class').count()).toBeGreaterThan(0);
+    expect(await held.locator('th').allInnerTexts()).toEqual(expect.arrayContaining([expect.stringMatching(/status at start/i), expect.stringMatching(/apparatus that hung/i)]));
+    expect(await printable.getByText(/^Caution\./).count()).toBe(1);
+    expect(await printable.getByTestId('chain-head').innerText()).toMatch(/\d+ class(es)? held \(\d+ booked points?\)/);
+    await held.scrollIntoViewIfNeeded();
+    await shot(printable, 'printable-classes-held');
+    const pages = pdfPages(await printable.pdf({ format: 'A4' }));
+    expect(pages.join('\n')).toContain('Classes held');
+    await printable.close();
+  });
+
   it('prints the point page with its history, without its controls, numbered', async () => {
     await owner.goto(`${baseUrl}/rig/points/${pointId}`);
     await owner.getByTestId('point-history').getByTestId('inspection-entry').first().waitFor();

@@ -91,7 +91,7 @@ describe('GET /api/sessions/records/export.csv: the classes held, as recorded at
     expect(section).toContain('Classes held');
     expect(section).toContain(`data-session="${monday}"`);
     const mondayArticle = section.slice(section.indexOf(`data-session="${monday}"`));
-    expect(mondayArticle.slice(0, mondayArticle.indexOf('</article>'))).not.toContain('blocked');
+    expect(mondayArticle.slice(0, mondayArticle.indexOf('</div>'))).not.toContain('blocked');
     expect(section).toContain('Cancelled');
     expect(printable).toContain('2 classes held (4 booked points)');
     expect(printable).toContain(`${head.count}:${head.hash}`);

@@ -327,7 +327,7 @@ describe('paged lists and exports with hostile queries', () => {
     const p = await makePoint(ctx.db);
     await bulkInspections(p.id, owner.user.id, 3);
     const junk = ['', 'a', '%00', 'WzFd', 'WyJ4Il0', 'WyIyMDI2IiwxXQ', 'W251bGxd', 'eyJhIjoxfQ', 'WzEsMiwzXQ', '_-_-', 'W1tbW1tbXV1dXV1d', 'x'.repeat(500), '-1', '1e9', 'NaN', '2026-13-45T99:99:99Z'];
-    const paths = ['/api/inspections', '/api/faults', '/api/audit', '/api/outbox', '/api/inspections/export.csv', '/api/inspections/export.html'];
+    const paths = ['/api/inspections', '/api/faults', '/api/audit', '/api/outbox', '/api/inspections/export.csv', '/api/inspections/export.html', '/api/sessions/records/export.csv'];
     for (const path of paths) {
       for (const v of junk) {
         for (const key of ['cursor', 'limit', 'from', 'to', 'entityId', 'actorId', 'status', 'kind']) {

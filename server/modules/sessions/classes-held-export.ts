@@ -75,9 +75,11 @@ export async function streamHeldCsv(out: Writable, batches: AsyncIterable<ClassH
 export const HELD_CSS = `
 section.held { margin-top: 1.5rem; }
 section.held > h2 { font-size: 13pt; margin: 0 0 .2rem; break-after: avoid; page-break-after: avoid; }
-article.class h3 { font-size: 11pt; margin: 0; display: flex; flex-wrap: wrap; gap: .2rem .9rem; align-items: baseline; }
-article.class h3 .when { font-weight: 400; font-size: 9.5pt; }
-article.class .cancelled { font-weight: 700; text-transform: uppercase; letter-spacing: .03em; }
+.class { border-top: 1.5pt solid #000; padding: .45rem 0 .6rem; break-inside: avoid; page-break-inside: avoid; }
+.class h3 { font-size: 11pt; margin: 0; display: flex; flex-wrap: wrap; gap: .2rem .9rem; align-items: baseline; }
+
+.class h3 .when { font-weight: 400; font-size: 9.5pt; }
+.class .cancelled { font-weight: 700; text-transform: uppercase; letter-spacing: .03em; }
 table.held-points th:nth-child(1) { width: 5rem; } table.held-points th:nth-child(2) { width: 6.5rem; } table.held-points th:nth-child(4) { width: 9rem; }
 `;
 
@@ -90,7 +92,7 @@ export async function* heldSection(batches: AsyncIterable<ClassHeldRecord[]>, me
   const when = (iso: string | null) => (iso ? formatStudioDateTime(new Date(iso), meta.timeZone) : '');
   yield `<section class="held" aria-labelledby="held-title" data-testid="classes-held"><h2 id="held-title">Classes held</h2><p class="meta">${esc(meta.scope)}, newest first: each booked point as it stood when the class started, as recorded then; never today’s status.</p>`;
   let open: number | null = null;
-  const close = '</tbody></table></article>';
+  const close = '</tbody></table></div>';
   for await (const batch of batches) {
     let html = '';
     for (const r of batch) {
@@ -98,7 +100,7 @@ export async function* heldSection(batches: AsyncIterable<ClassHeldRecord[]>, me
         if (open !== null) html += close;
         open = r.sessionId;
         counts.classes += 1;
-        html += `<article class="class" data-session="${r.sessionId}"><h3><span>${esc(r.className)}</span><span>${esc(r.roomName)}</span><span class="when">${esc(when(r.startsAt))} (${esc(new Date(r.startsAt).toISOString())}) · ${esc(r.instructorName)}</span>${r.cancelled ? '<span class="cancelled">Cancelled</span>' : ''}</h3>`;
+        html += `<div class="class" data-session="${r.sessionId}"><h3><span>${esc(r.className)}</span><span>${esc(r.roomName)}</span><span class="when">${esc(when(r.startsAt))} (${esc(new Date(r.startsAt).toISOString())}) · ${esc(r.instructorName)}</span>${r.cancelled ? '<span class="cancelled">Cancelled</span>' : ''}</h3>`;
         html += `<table class="held-points"><thead><tr><th scope="col">Point</th><th scope="col">Status at start</th><th scope="col">Reasons at start</th><th scope="col">Apparatus that hung</th><th scope="col">Recorded at</th></tr></thead><tbody>`;
       }
       counts.records += 1;
