@@ -80,7 +80,7 @@ section.held > h2 { font-size: 13pt; margin: 0 0 .2rem; break-after: avoid; page
 
 .class h3 .when { font-weight: 400; font-size: 9.5pt; }
 .class .cancelled { font-weight: 700; text-transform: uppercase; letter-spacing: .03em; }
-table.held-points th:nth-child(1) { width: 5rem; } table.held-points th:nth-child(2) { width: 6.5rem; } table.held-points th:nth-child(4) { width: 9rem; }
+table.held-points th:nth-child(1) { width: 5rem; } table.held-points th:nth-child(2) { width: 9rem; } table.held-points th:nth-child(4) { width: 9rem; }
 `;
 
 /**
@@ -104,9 +104,9 @@ export async function* heldSection(batches: AsyncIterable<ClassHeldRecord[]>, me
         html += `<table class="held-points"><thead><tr><th scope="col">Point</th><th scope="col">Status at start</th><th scope="col">Reasons at start</th><th scope="col">Apparatus that hung</th><th scope="col">Recorded at</th></tr></thead><tbody>`;
       }
       counts.records += 1;
-      const flag = r.status === 'blocked' ? ' flag' : '';
-      const until = (r.status === 'cleared' || r.status === 'expiring') && r.clearedUntil ? ` until ${esc(when(r.clearedUntil))}` : '';
-      html += `<tr><td>${esc(r.label)}</td><td class="res${flag}">${esc(statusText[r.status])}${until}</td><td>${esc(r.reasons.map((x) => x.message).join('; '))}</td><td>${r.apparatus ? `${esc(r.apparatus.kind)} ${esc(r.apparatus.serial)}` : 'none recorded'}</td><td>${esc(when(r.recordedAt))}</td></tr>`;
+      const flag = r.status === 'blocked' ? ' class="flag"' : '';
+      const until = (r.status === 'cleared' || r.status === 'expiring') && r.clearedUntil ? `<br>until ${esc(when(r.clearedUntil))}` : '';
+      html += `<tr><td>${esc(r.label)}</td><td${flag}>${esc(statusText[r.status])}${until}</td><td>${esc(r.reasons.map((x) => x.message).join('; '))}</td><td>${r.apparatus ? `${esc(r.apparatus.kind)} ${esc(r.apparatus.serial)}` : 'none recorded'}</td><td>${esc(when(r.recordedAt))}</td></tr>`;
     }
     yield html;
   }
