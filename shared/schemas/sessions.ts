@@ -35,6 +35,11 @@ export const createSessionSchema = when
     skipDays: z.array(dateSchema).max(100).optional(),
     /** For a series some of whose occurrences cannot be booked: book the rest. */
     bookAvailable: z.boolean().optional(),
+    /**
+     * One per booking dialog opening: a repeat with the same key (a double click, a retry after a
+     * lost answer) answers the first booking instead of booking again.
+     */
+    idempotencyKey: z.string().trim().regex(/^[A-Za-z0-9_-]{8,100}$/, 'A request key is 8 to 100 letters, digits, - or _').optional(),
   })
   .superRefine(ordered);
 export type CreateSession = z.infer<typeof createSessionSchema>;

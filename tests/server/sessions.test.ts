@@ -109,6 +109,62 @@ describe('POST /api/sessions', () => {
   });
 });
 
+describe('POST /api/sessions with an idempotency key', () => {
+  it('books once when the same booking is sent twice at once (a double click): both answer the one class, the repeat says so', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const key = 'dialog-0001-abcdef';
+    const [a, b] = await Promise.all([desk.post('/api/sessions').send(body(s, { idempotencyKey: key })), desk.post('/api/sessions').send(body(s, { idempotencyKey: key }))]);
+    expect([a.status, b.status]).toEqual([201, 201]);
+    expect(a.body.id).toBe(b.body.id);
+    expect([a.body.replayed, b.body.replayed].sort()).toEqual([false, true]);
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 1 }]);
+    expect(await ctx.db('audit_entries').where({ action: 'session.booked' }).count({ n: '*' })).toEqual([{ n: 1 }]);
+  });
+
+  it('answers a retry of a weekly series with the same classes, not "cannot be booked"', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const series = body(s, { rrule: 'FREQ=WEEKLY;COUNT=4', idempotencyKey: 'series-retry-0001' });
+    const first = await desk.post('/api/sessions').send(series);
+    const retry = await desk.post('/api/sessions').send(series);
+    expect(retry.status).toBe(201);
+    expect(retry.body.sessionIds).toEqual(first.body.sessionIds);
+    expect(retry.body.sessionIds).toHaveLength(4);
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 4 }]);
+  });
+
+  it('refuses the same key with a different booking, booking nothing more', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    expect((await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]], idempotencyKey: 'reused-key-0001' }))).status).toBe(201);
+    const other = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[1]], idempotencyKey: 'reused-key-0001' }));
+    expect(other.status).toBe(409);
+    expect(other.body.error.code).toBe('idempotency_key_reused');
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 1 }]);
+  });
+
+  it('keeps nothing for a refused booking: the same key books once the points are changed', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    await ctx.db('points').where({ id: s.points[0] }).update({ apparatus_json: JSON.stringify(['hoop']) });
+    expect((await desk.post('/api/sessions').send(body(s, { idempotencyKey: 'fix-and-retry-01' }))).status).toBe(409);
+    const fixed = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[1]], idempotencyKey: 'fix-and-retry-01' }));
+    expect(fixed.status).toBe(201);
+    expect(fixed.body.replayed).toBe(false);
+  });
+
+  it('does not answer one person’s key to another', async () => {
+    const desk = await as(ctx, 'reception');
+    const owner = await as(ctx, 'owner');
+    const s = await studioWithPoints(1);
+    expect((await desk.post('/api/sessions').send(body(s, { idempotencyKey: 'shared-key-00001' }))).status).toBe(201);
+    const res = await owner.post('/api/sessions').send(body(s, { idempotencyKey: 'shared-key-00001' }));
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('idempotency_key_reused');
+  });
+});
+
 describe('recurring series', () => {
   it('books a weekly series; one that cannot be booked whole says which and why and books nothing', async () => {
     const desk = await as(ctx, 'reception');

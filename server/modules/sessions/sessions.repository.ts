@@ -186,6 +186,14 @@ export function sessionsRepository(db: Db) {
         await trx('session_apparatus').where({ session_id: id }).update(sp);
       }
     },
+    /** The kept result of an earlier request with this key, if any. */
+    async idempotentResult(route: string, key: string, trx: Db) {
+      const row = (await trx('idempotency_keys').where({ route, key }).first('actor_id', 'request_hash', 'result_json')) as { actor_id: number; request_hash: string; result_json: string } | undefined;
+      return row ? { actorId: row.actor_id, requestHash: row.request_hash, result: JSON.parse(row.result_json) as unknown } : null;
+    },
+    async keepIdempotentResult(r: { route: string; key: string; actorId: number; requestHash: string; result: unknown }, at: Date, trx: Db) {
+      await trx('idempotency_keys').insert({ route: r.route, key: r.key, actor_id: r.actorId, request_hash: r.requestHash, result_json: JSON.stringify(r.result), created_at: at.toISOString() });
+    },
     async replacePoints(id: number, pointIds: number[], apparatus: ApparatusChoice[], startsAt: string, endsAt: string, trx: Db) {
       await trx('session_points').where({ session_id: id }).delete();
       await trx('session_points').insert(pointIds.map((p) => ({ session_id: id, point_id: p, starts_at: startsAt, ends_at: endsAt, cancelled: false })));

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { HttpError, conflict, notFound } from '../../http/errors';
@@ -240,7 +241,9 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       };
     },
 
-    async create(body: CreateSession, actorId: number) {
+    async create(request: CreateSession, actorId: number) {
+      const { idempotencyKey, ...body } = request;
+      const requestHash = createHash('sha256').update(JSON.stringify(body)).digest('hex');
       const { policy } = await studio.get();
       const first: Occurrence = { startsAt: new Date(body.startsAt), endsAt: new Date(body.endsAt) };
       const duration = first.endsAt.getTime() - first.startsAt.getTime();
@@ -254,8 +257,18 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         }
         if (!occurrences.length) throw new HttpError(400, 'invalid_request', 'The repeat rule gives no classes.', { source: 'body', fields: { rrule: 'No occurrences' } });
       }
-      const created = await writeTransaction(db, async (trx) => {
+      type Created = { ids: number[]; seriesId: number | null; warnings: Array<Reason & { pointId: number; startsAt: string }>; skipped: unknown[]; replayed?: boolean };
+      const created = await writeTransaction(db, async (trx): Promise<Created> => {
         const now = clock.now();
+        // Looked up inside the write transaction: a second request with the key waits for the
+        // first to commit, then finds its result (one connection serialises the two).
+        if (idempotencyKey) {
+          const prior = await repo.idempotentResult('sessions.create', idempotencyKey, trx);
+          if (prior) {
+            if (prior.actorId !== actorId || prior.requestHash !== requestHash) throw conflict('idempotency_key_reused', 'This booking form already booked a different class. Close it and open a new one.');
+            return { ...(prior.result as Created), replayed: true };
+          }
+        }
         const classType = await classTypeOrThrow(body.classTypeId, trx);
         await checkInstructor(body.instructorId, trx);
         if (!(await rig.roomById(body.roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
@@ -282,10 +295,13 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const apparatus = checks.filter((x) => x.ok).map((x) => choicesOf(x.points));
         await audit.record(trx, { actorId, action: 'session.booked', entity: 'session', entityId: ids[0], after: { ...body, sessionIds: ids, apparatus } }, now);
         const warnings = checks.filter((c) => c.ok).flatMap((c) => c.points.flatMap((p) => p.warnings.map((w) => ({ ...w, pointId: p.pointId, startsAt: c.occ.startsAt.toISOString() }))));
-        return { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length).map(refusedPoint), reasons: c.reasons })) };
+        const result: Created = { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length).map(refusedPoint), reasons: c.reasons })) };
+        if (idempotencyKey) await repo.keepIdempotentResult({ route: 'sessions.create', key: idempotencyKey, actorId, requestHash, result }, now, trx);
+        return result;
       });
       const firstSession = await this.get(created.ids[0]);
-      return { ...firstSession, warnings: created.warnings, seriesId: created.seriesId, sessionIds: created.ids, skipped: created.skipped };
+      // A repeat says so, so the desk can tell "booked by your first click" from a second booking.
+      return { ...firstSession, warnings: created.warnings, seriesId: created.seriesId, sessionIds: created.ids, skipped: created.skipped, replayed: created.replayed ?? false };
     },
 
     /** Move, stretch or change instructor, re-checked; `following` applies the same change to the rest of the series. */
