@@ -1,4 +1,5 @@
-import { useCallback, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { useLocation, useNavigate, useSearchParams } from 'react-router-dom';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { toast } from 'sonner';
 import { CalendarPlus, X } from 'lucide-react';
@@ -6,6 +7,7 @@ import type { Me } from '../../../shared/schemas/staff';
 import { studioQueries } from '../settings/api';
 import { staffQueries } from '../staff/api';
 import { Button } from '../../components/ui/button';
+import { ConfirmDialog } from '../../components/ui/confirm';
 import { ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { errorMessage } from '../../lib/api-client';
 import { conflictOf, scheduleQueries, useScheduleMutations, type CreatedSessions, type Session } from './api';
@@ -26,6 +28,24 @@ import { MAIL_NOTE, type Scope } from './components/scope-choice';
 
 const DESK = new Set(['reception', 'owner']);
 
+/** The calendar's views as the address names them (`?view=week`). */
+const VIEWS = { month: 'dayGridMonth', week: 'timeGridWeek', day: 'timeGridDay' } as const;
+type ViewName = keyof typeof VIEWS;
+const viewName = (type: string) => (Object.keys(VIEWS) as ViewName[]).find((k) => VIEWS[k] === type);
+
+/** `?book=2026-12-03T18:00-19:00`: the booking dialog open on that slot (what was typed is not kept). */
+function prefillOf(text: string | null): BookingPrefill | null {
+  const m = text?.match(/^(\d{4}-\d{2}-\d{2})T(\d{2}:\d{2})(?:-(\d{2}:\d{2}))?$/);
+  return m ? { date: m[1], start: m[2], end: m[3] } : null;
+}
+/** A copy of the search params with some set (a string) or removed (null). */
+function edit(prev: URLSearchParams, changes: Record<string, string | null>) {
+  const next = new URLSearchParams(prev);
+  for (const [k, v] of Object.entries(changes)) if (v === null) next.delete(k); else next.set(k, v);
+  return next;
+}
+const prefillText = (p: BookingPrefill) => `${p.date}T${p.start}${p.end ? `-${p.end}` : ''}`;
+
 export function SchedulePage({ me }: { me: Me }) {
   const studio = useQuery(studioQueries.detail());
   if (studio.isPending) return <Loading label="Loading the schedule…" />;
@@ -44,8 +64,65 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
   const [range, setRange] = useState<VisibleRange | null>(null);
   const [calendarBusy, setCalendarBusy] = useState(false);
   const [calendarError, setCalendarError] = useState<unknown>(null);
-  const [openId, setOpenId] = useState<number | null>(null);
-  const [booking, setBooking] = useState<BookingPrefill | null>(null);
+  // The week, the view, the open class and the open booking dialog live in the address, so a
+  // reload keeps them; a drawer or dialog opened here is a history entry, so Back closes it.
+  const [params, setParams] = useSearchParams();
+  const location = useLocation();
+  const navigate = useNavigate();
+  const layered = Boolean((location.state as { layer?: boolean } | null)?.layer);
+  const openLayer = (key: string, value: string) =>
+    setParams((prev) => edit(prev, { [key]: value }), { replace: layered, state: { layer: true } });
+  const closeLayer = (key: string) => {
+    if (layered) navigate(-1);
+    else setParams((prev) => edit(prev, { [key]: null }), { replace: true });
+  };
+  const openId = Number(params.get('class')) || null;
+  const setOpenId = (id: number | null) => (id === null ? closeLayer('class') : openLayer('class', String(id)));
+  const initial = useRef({ date: /^\d{4}-\d{2}-\d{2}$/.test(params.get('date') ?? '') ? params.get('date')! : undefined, view: VIEWS[params.get('view') as ViewName] as string | undefined });
+  const onRange = (r: VisibleRange) => {
+    setRange(r);
+    const view = viewName(r.view);
+    if (params.get('date') !== r.day || params.get('view') !== view)
+      setParams((prev) => edit(prev, { date: r.day, view: view ?? null }), { replace: true, state: location.state });
+  };
+
+  // The booking form stays mounted while its address entry comes and goes (Back asks first).
+  const bookParam = params.get('book');
+  const [booking, setBookingState] = useState<BookingPrefill | null>(() => prefillOf(bookParam));
+  const bookingDirty = useRef(false);
+  const discardOk = useRef(false);
+  const [askDiscard, setAskDiscard] = useState(false);
+  const onBookingDirty = useCallback((d: boolean) => { bookingDirty.current = d; }, []);
+  const setBooking = (p: BookingPrefill | null) => {
+    if (p) return openLayer('book', prefillText(p));
+    discardOk.current = true;
+    closeLayer('book');
+  };
+  const requestCloseBooking = () => (bookingDirty.current ? setAskDiscard(true) : setBooking(null));
+  useEffect(() => {
+    if (bookParam) {
+      discardOk.current = false;
+      setBookingState((cur) => cur ?? prefillOf(bookParam));
+      return;
+    }
+    if (!booking) return;
+    if (bookingDirty.current && !discardOk.current) {
+      // Back pressed with typed data: put the entry back and ask.
+      setParams((prev) => edit(prev, { book: prefillText(booking) }), { state: { layer: true } });
+      setAskDiscard(true);
+      return;
+    }
+    setBookingState(null);
+  }, [bookParam]); // eslint-disable-line react-hooks/exhaustive-deps
+  // A reload or closing the tab with typed data asks too.
+  useEffect(() => {
+    if (!booking) return;
+    const warn = (e: BeforeUnloadEvent) => {
+      if (bookingDirty.current) e.preventDefault();
+    };
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  }, [booking]);
   const [pendingMove, setPendingMove] = useState<MoveRequest | null>(null);
   const [notice, setNotice] = useState<{ title: string; lines: string[] } | null>(null);
   const [focus, setFocus] = useState<string | null>(null);
@@ -112,6 +189,7 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
 
   const onBooked = (created: CreatedSessions) => {
     setBooking(null);
+    // The drawer is not opened here: "Open" below does, as its own history entry.
     setFocus(created.startsAt);
     const n = created.sessionIds.length;
     const warnings = [...new Set(created.warnings.map((w) => w.message))];
@@ -119,7 +197,7 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
     toast.success(`Booked ${created.className}, ${whenShort(created.startsAt, created.endsAt, timeZone)}${n > 1 ? `, and ${n - 1} more` : ''}.`, {
       description: [...warnings, ...skipped].join(' ') || undefined,
       duration: warnings.length || skipped.length ? 12_000 : 6_000,
-      action: { label: 'Open', onClick: () => setOpenId(created.id) },
+      action: { label: 'Open', onClick: () => openLayer('class', String(created.id)) },
     });
   };
 
@@ -152,7 +230,9 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
           refreshKey={visible.dataUpdatedAt}
           hours={hours}
           focus={focus}
-          onRange={setRange}
+          initialDate={initial.current.date}
+          initialView={initial.current.view}
+          onRange={onRange}
           onLoading={setCalendarBusy}
           onError={setCalendarError}
           onOpen={setOpenId}
@@ -163,7 +243,17 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
       <ScheduleLegend />
       <AgendaList sessions={shown} isPending={visible.isPending} error={visible.error} retry={() => visible.refetch()} timeZone={timeZone} onOpen={setOpenId} rangeLabel={range?.title ?? ''} />
       <SessionDrawer id={openId} timeZone={timeZone} canEdit={canEdit} onClose={() => setOpenId(null)} />
-      {canEdit ? <BookingDialog prefill={booking} timeZone={timeZone} onClose={() => setBooking(null)} onBooked={onBooked} /> : null}
+      {canEdit ? <BookingDialog prefill={booking} timeZone={timeZone} onClose={requestCloseBooking} onBooked={onBooked} onDirty={onBookingDirty} /> : null}
+      <ConfirmDialog
+        open={askDiscard}
+        title="Discard this booking?"
+        confirmLabel="Discard what I typed"
+        cancelLabel="Keep editing"
+        onCancel={() => setAskDiscard(false)}
+        onConfirm={() => { setAskDiscard(false); setBooking(null); }}
+      >
+        Nothing is booked yet. Closing the form throws away the class, instructor, room and points you picked.
+      </ConfirmDialog>
       <MoveScopeDialog
         move={pendingMove}
         timeZone={timeZone}
