@@ -54,17 +54,26 @@ export type SessionListQuery = z.infer<typeof sessionListQuery>;
 
 export const scopeSchema = z.enum(['this', 'following']).default('this');
 export const updateSessionSchema = z
-  .object({ startsAt: instantSchema.optional(), endsAt: instantSchema.optional(), instructorId: idSchema.optional(), scope: scopeSchema })
+  .object({
+    startsAt: instantSchema.optional(),
+    endsAt: instantSchema.optional(),
+    instructorId: idSchema.optional(),
+    /** New points with the move, checked at the new time (a blocked point left behind in one step). */
+    pointIds: ids.optional(),
+    scope: scopeSchema,
+  })
   .superRefine(ordered)
-  .refine((v) => v.startsAt !== undefined || v.endsAt !== undefined || v.instructorId !== undefined, { message: 'Change the time or the instructor' });
+  .refine((v) => v.startsAt !== undefined || v.endsAt !== undefined || v.instructorId !== undefined || v.pointIds !== undefined, { message: 'Change the time, the points or the instructor' });
 export type UpdateSession = z.infer<typeof updateSessionSchema>;
 
 /**
  * Replace the booked points. With `roomId` (another room), the class moves to that room with
- * those points; every point must hang there. Without it the class keeps its room.
+ * those points; every point must hang there. Without it the class keeps its room. With
+ * `scope: "following"` every later class of the series takes the same points (and room).
  */
-export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional(), apparatus: apparatusChoices });
+export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional(), apparatus: apparatusChoices, scope: scopeSchema });
 export type SwapPoints = z.infer<typeof swapPointsSchema>;
+export type SwapPointsInput = z.input<typeof swapPointsSchema>;
 export const cancelSessionSchema = z.object({ reason: z.string().trim().min(1, 'Say why the class is cancelled').max(500), scope: scopeSchema });
 export type CancelSession = z.infer<typeof cancelSessionSchema>;
 

@@ -382,6 +382,79 @@ describe('PUT /api/sessions/:id/points with roomId: moving a class to another ro
   });
 });
 
+describe('swapping a point for “this and the following” classes', () => {
+  const pointsOf = async (ids: number[]) => Promise.all(ids.map(async (id) => ((await ctx.db('session_points').where({ session_id: id }).select('point_id')) as Array<{ point_id: number }>).map((r) => r.point_id)));
+
+  it('gives this class and every later one of the series the new point; earlier classes keep theirs', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=4', pointIds: [s.points[0]] }));
+    const [first, second, third, fourth] = series.body.sessionIds;
+    const res = await desk.put(`/api/sessions/${second}/points`).send({ pointIds: [s.points[1]], scope: 'following' });
+    expect(res.status).toBe(200);
+    expect(await pointsOf([first, second, third, fourth])).toEqual([[s.points[0]], [s.points[1]], [s.points[1]], [s.points[1]]]);
+    const audit = await ctx.db('audit_entries').orderBy('id', 'desc').first('action', 'after_json');
+    expect(audit.action).toBe('session.points_swapped');
+    expect(JSON.parse(audit.after_json)).toMatchObject({ pointIds: [s.points[1]], sessionIds: [second, third, fourth] });
+  });
+
+  it('swaps this class only when asked for this class', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=3', pointIds: [s.points[0]] }));
+    const [first, second, third] = series.body.sessionIds;
+    expect((await desk.put(`/api/sessions/${first}/points`).send({ pointIds: [s.points[1]] })).status).toBe(200);
+    expect(await pointsOf([first, second, third])).toEqual([[s.points[1]], [s.points[0]], [s.points[0]]]);
+  });
+
+  it('swaps none when a later class cannot take the point, listing each refused class as a move does', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=3', pointIds: [s.points[0]] }));
+    const [first, second, third] = series.body.sessionIds;
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    // Someone else has the new point at the time of the third class.
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, pointIds: [s.points[1]], startsAt: '2026-12-17T18:00:00Z', endsAt: '2026-12-17T19:00:00Z' }))).status).toBe(201);
+    const refused = await desk.put(`/api/sessions/${first}/points`).send({ pointIds: [s.points[1]], scope: 'following' });
+    expect(refused.status).toBe(409);
+    const d = refused.body.error.details;
+    expect(d).toMatchObject({ bookable: 2, total: 3, sessionId: third, startsAt: '2026-12-17T18:00:00.000Z' });
+    expect(d.occurrences).toEqual([{ sessionId: third, startsAt: '2026-12-17T18:00:00.000Z', endsAt: '2026-12-17T19:00:00.000Z', points: [expect.objectContaining({ pointId: s.points[1] })], reasons: [] }]);
+    expect(codes(d.occurrences[0].points[0].reasons)).toEqual(['point_double_booked']);
+    expect(await pointsOf([first, second, third])).toEqual([[s.points[0]], [s.points[0]], [s.points[0]]]);
+  });
+});
+
+describe('a class whose only point is blocked', () => {
+  it('moves to another time with a replacement point in one step, the blocked point left behind', async () => {
+    const desk = await as(ctx, 'reception');
+    const instructor = await as(ctx, 'instructor');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]] }));
+    expect((await instructor.post('/api/faults').send({ pointId: s.points[0], severity: 'high', description: 'Swivel grinds' })).status).toBe(201);
+    // Moving alone keeps the blocked point, so it is refused.
+    const alone = await desk.patch(`/api/sessions/${booked.body.id}`).send({ startsAt: '2026-12-04T18:00:00Z', endsAt: '2026-12-04T19:00:00Z' });
+    expect(alone.status).toBe(409);
+    const res = await desk.patch(`/api/sessions/${booked.body.id}`).send({ startsAt: '2026-12-04T18:00:00Z', endsAt: '2026-12-04T19:00:00Z', pointIds: [s.points[1]] });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ startsAt: '2026-12-04T18:00:00.000Z', pointIds: [s.points[1]], atRisk: false });
+    const sp = await ctx.db('session_points').where({ session_id: booked.body.id }).select('point_id', 'starts_at');
+    expect(sp).toEqual([{ point_id: s.points[1], starts_at: '2026-12-04T18:00:00.000Z' }]);
+  });
+
+  it('frees the blocked point of a class with others: the class keeps the rest and is calm again', async () => {
+    const desk = await as(ctx, 'reception');
+    const instructor = await as(ctx, 'instructor');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s));
+    await instructor.post('/api/faults').send({ pointId: s.points[0], severity: 'high', description: 'Swivel grinds' });
+    expect((await desk.get(`/api/sessions/${booked.body.id}`)).body.atRisk).toBe(true);
+    const res = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [s.points[1]] });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ pointIds: [s.points[1]], atRisk: false, places: 1 });
+  });
+});
+
 describe('a refused change to “this and the following”', () => {
   it('lists every class of the series that cannot be moved, with its reasons, and moves none', async () => {
     const desk = await as(ctx, 'reception');

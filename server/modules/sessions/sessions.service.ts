@@ -32,6 +32,8 @@ interface Occurrence {
 
 const MAX_RANGE_DAYS = 100;
 
+const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
+
 export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
   const records = deps.records ?? sessionRecords({ db, rig, studio });
@@ -316,14 +318,15 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const dEnd = patch.endsAt ? new Date(patch.endsAt).getTime() - new Date(s.endsAt).getTime() : dStart;
         if (patch.instructorId !== undefined) await checkInstructor(patch.instructorId, trx);
         const classType = await classTypeOrThrow(s.classTypeId, trx);
-        const bundles = await bundlesFor([...new Set(targets.flatMap((t) => t.pointIds))], trx);
+        const pointsOf = (t: SessionRecord) => patch.pointIds ?? t.pointIds;
+        const bundles = await bundlesFor([...new Set([...targets.flatMap((t) => t.pointIds), ...(patch.pointIds ?? [])])], trx);
         const exclude = targets.map((t) => t.id);
         // Every class is checked before any is written: a refusal names each one that cannot take the change.
         const checks = [];
         for (const t of targets) {
           const occ = { startsAt: new Date(new Date(t.startsAt).getTime() + dStart), endsAt: new Date(new Date(t.endsAt).getTime() + dEnd) };
           if (occ.endsAt <= occ.startsAt) throw new HttpError(400, 'invalid_request', 'The class must end after it starts.', { source: 'body', fields: { endsAt: 'Must be after the start' } });
-          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude, named: namedOf(t.recordedApparatus, true) })) });
+          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: pointsOf(t), bundles, exclude, named: namedOf(t.recordedApparatus, true) })) });
         }
         const refused = checks.filter((c) => !c.ok);
         if (refused.length) {
@@ -333,18 +336,25 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         }
         for (const { t, occ, points } of checks) {
           await repo.update(t.id, { startsAt: occ.startsAt, endsAt: occ.endsAt, instructorId: patch.instructorId }, now, trx);
-          // A move may need another item where the one recorded is taken at the new time.
-          await repo.replacePoints(t.id, t.pointIds, choicesOf(points), occ.startsAt.toISOString(), occ.endsAt.toISOString(), trx);
+          const newPoints = patch.pointIds && !samePoints(patch.pointIds, t.pointIds) ? patch.pointIds : null;
+          // A move may need another item where the one recorded is taken at the new time; new points go with it.
+          await repo.replacePoints(t.id, pointsOf(t), choicesOf(points), occ.startsAt.toISOString(), occ.endsAt.toISOString(), trx);
           const after = (await repo.byId(t.id, trx))!;
+          // One notice per class: a move that also changes points is told as the move (it names the points).
           if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
+          else if (newPoints) await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: t.id, before: t, after, at: now });
           if (patch.instructorId !== undefined && patch.instructorId !== t.instructorId) await deps.notifier?.sessionChanged(trx, { kind: 'instructor_changed', sessionId: t.id, before: t, after, at: now });
         }
-        await audit.record(trx, { actorId, action: dStart || dEnd ? 'session.moved' : 'session.instructor_changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId }, after: patch }, now);
+        await audit.record(trx, { actorId, action: dStart || dEnd ? 'session.moved' : patch.instructorId === undefined && patch.pointIds ? 'session.points_swapped' : 'session.instructor_changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId, ...(patch.pointIds ? { pointIds: s.pointIds } : {}) }, after: patch }, now);
       });
       return this.get(id);
     },
 
-    /** Replace the points; with another `roomId` the class moves to that room on them. Same §4.4 checks either way. */
+    /**
+     * Replace the points; with another `roomId` the class moves to that room on them. Same §4.4
+     * checks either way. `following` gives every later class of the series the same points (and
+     * room), all or nothing, refused with the same shape as a move of the following classes.
+     */
     async swapPoints(id: number, body: SwapPoints, actorId: number) {
       const { pointIds } = body;
       const { policy } = await studio.get();
@@ -353,22 +363,38 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
         const roomId = body.roomId ?? s.roomId;
-        const changesRoom = roomId !== s.roomId;
-        if (changesRoom && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
+        if (roomId !== s.roomId && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
+        const following = body.scope === 'following' && s.seriesId !== null;
+        const targets = following ? await repo.bySeriesFrom(s.seriesId!, s.startsAt, trx) : [s];
         const classType = await classTypeOrThrow(s.classTypeId, trx);
         const bundles = await bundlesFor(pointIds, trx);
-        const named = new Map([...namedOf(s.recordedApparatus, true), ...namedOf(body.apparatus)]);
-        const c = await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id], named });
-        if (!c.ok) refuse(c.points, c.reasons);
-        await repo.replacePoints(id, pointIds, choicesOf(c.points), s.startsAt, s.endsAt, trx);
-        await repo.update(id, changesRoom ? { roomId } : {}, now, trx);
-        const after = (await repo.byId(id, trx))!;
-        if (changesRoom) {
-          await deps.notifier?.sessionChanged(trx, { kind: 'room_changed', sessionId: id, before: s, after, at: now });
-          await audit.record(trx, { actorId, action: 'session.room_changed', entity: 'session', entityId: id, before: { roomId: s.roomId, pointIds: s.pointIds }, after: { roomId, pointIds } }, now);
+        const exclude = targets.map((t) => t.id);
+        const checks = [];
+        for (const t of targets) {
+          const occ = { startsAt: new Date(t.startsAt), endsAt: new Date(t.endsAt) };
+          const named = new Map([...namedOf(t.recordedApparatus, true), ...namedOf(body.apparatus)]);
+          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: t.instructorId, occ, pointIds, bundles, exclude, named })) });
+        }
+        const refused = checks.filter((c) => !c.ok);
+        if (refused.length) {
+          const [first] = refused;
+          const series = following ? { occurrences: refused.map((c) => ({ sessionId: c.t.id, ...occurrenceOf(c) })), bookable: checks.length - refused.length, total: checks.length } : {};
+          refuse(first.points, first.reasons, { sessionId: first.t.id, startsAt: first.occ.startsAt.toISOString(), ...series });
+        }
+        for (const { t, points } of checks) {
+          const changesRoom = roomId !== t.roomId;
+          if (!changesRoom && samePoints(pointIds, t.pointIds) && !body.apparatus?.length) continue;
+          await repo.replacePoints(t.id, pointIds, choicesOf(points), t.startsAt, t.endsAt, trx);
+          await repo.update(t.id, changesRoom ? { roomId } : {}, now, trx);
+          const after = (await repo.byId(t.id, trx))!;
+          await deps.notifier?.sessionChanged(trx, { kind: changesRoom ? 'room_changed' : 'points_swapped', sessionId: t.id, before: t, after, at: now });
+        }
+        const sessionIds = following ? { sessionIds: targets.map((t) => t.id) } : {};
+        const chosen = choicesOf(checks[0].points);
+        if (roomId !== s.roomId) {
+          await audit.record(trx, { actorId, action: 'session.room_changed', entity: 'session', entityId: id, before: { roomId: s.roomId, pointIds: s.pointIds }, after: { roomId, pointIds, ...sessionIds } }, now);
         } else {
-          await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: id, before: s, after, at: now });
-          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: { pointIds: s.pointIds, apparatus: s.recordedApparatus }, after: { pointIds, apparatus: choicesOf(c.points) } }, now);
+          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: { pointIds: s.pointIds, apparatus: s.recordedApparatus }, after: { pointIds, apparatus: chosen, ...sessionIds } }, now);
         }
       });
       return this.get(id);
