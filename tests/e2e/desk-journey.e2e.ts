@@ -18,6 +18,8 @@ let reception: BrowserContext;
 let rigger: BrowserContext;
 let desk: Page;
 let roomId = 0;
+let riggerApi: Page;
+const points: Record<string, number> = {};
 const consoleErrors: string[] = [];
 
 beforeAll(async () => {
@@ -25,7 +27,8 @@ beforeAll(async () => {
   const riggerPage = await rigger.newPage();
   await signInAs(riggerPage, baseUrl, 'rigger@loftwise.test');
   roomId = (await apiCall<{ id: number }>(riggerPage, baseUrl, 'POST', '/rooms', { name: ROOM })).id;
-  for (const label of ['DW-1', 'DW-2']) await createFabricPoint(riggerPage, baseUrl, { roomId, label });
+  for (const label of ['DW-1', 'DW-2', 'DW-3', 'DW-4', 'DW-5', 'DW-6']) points[label] = await createFabricPoint(riggerPage, baseUrl, { roomId, label });
+  riggerApi = riggerPage;
   reception = await openBrowser(DESKTOP);
   desk = await reception.newPage();
   desk.on('console', (m) => { if (m.type() === 'error') consoleErrors.push(`${desk.url()}: ${m.text()}`); });
@@ -63,6 +66,13 @@ async function classesOnDay(page: Page) {
   const from = new Date(`${day}T00:00:00Z`).getTime() - 86_400_000;
   const list = await apiCall<Array<{ roomId: number; cancelled: boolean }>>(page, baseUrl, 'GET', `/sessions?from=${new Date(from).toISOString()}&to=${new Date(from + 3 * 86_400_000).toISOString()}&roomId=${roomId}`);
   return list.filter((s) => !s.cancelled);
+}
+
+async function classTypeId() {
+  return (await apiCall<Array<{ id: number; name: string }>>(desk, baseUrl, 'GET', '/class-types')).find((c) => c.name === CLASS)!.id;
+}
+async function instructorId() {
+  return (await apiCall<Array<{ id: number; name: string }>>(desk, baseUrl, 'GET', '/instructors')).find((u) => u.name === INSTRUCTOR)!.id;
 }
 
 describe('the desk books without a catch', () => {
@@ -158,6 +168,48 @@ describe('the desk books without a catch', () => {
     await drawer.waitFor({ state: 'hidden' });
     expect(new URL(desk.url()).pathname).toBe('/schedule');
     expect(await desk.getByRole('heading', { name: 'Schedule', level: 1 }).isVisible()).toBe(true);
+  });
+
+  it('swaps a point for this and the following classes of a weekly series when asked', async () => {
+    const first = studioDate(10);
+    const series = await apiCall<{ sessionIds: number[] }>(desk, baseUrl, 'POST', '/sessions', {
+      classTypeId: await classTypeId(), instructorId: await instructorId(), roomId, pointIds: [points['DW-3']],
+      startsAt: `${first}T06:00:00Z`, endsAt: `${first}T07:00:00Z`, rrule: 'FREQ=WEEKLY;COUNT=3',
+    });
+    await desk.goto(`${baseUrl}/schedule?date=${first}&view=week&class=${series.sessionIds[0]}`);
+    const drawer = desk.getByRole('dialog', { name: CLASS });
+    await drawer.getByRole('button', { name: 'Change points' }).click();
+    const form = drawer.getByRole('form', { name: 'Change points' });
+    await pointBox(form, 'DW-4').waitFor();
+    await pointBox(form, 'DW-3').uncheck();
+    await pointBox(form, 'DW-4').check();
+    await form.locator('label').filter({ hasText: 'This and the following' }).click();
+    await shotScreen(desk, 'desk-swap-following');
+    await form.getByRole('button', { name: 'Save points' }).click();
+    await expect.poll(() => drawer.getByRole('status').innerText()).toContain('for this and the following classes');
+    for (const id of series.sessionIds) expect((await apiCall<{ pointIds: number[] }>(desk, baseUrl, 'GET', `/sessions/${id}`)).pointIds).toEqual([points['DW-4']]);
+  });
+
+  it('moves a class whose only point is blocked to another time with a free point, in one step', async () => {
+    const when = studioDate(11);
+    const booked = await apiCall<{ id: number }>(desk, baseUrl, 'POST', '/sessions', {
+      classTypeId: await classTypeId(), instructorId: await instructorId(), roomId, pointIds: [points['DW-5']], startsAt: `${when}T06:00:00Z`, endsAt: `${when}T07:00:00Z`,
+    });
+    await apiCall(riggerApi, baseUrl, 'POST', '/faults', { pointId: points['DW-5'], severity: 'high', description: 'Sling sheath cut' });
+    await desk.goto(`${baseUrl}/schedule?date=${when}&view=week&class=${booked.id}`);
+    const drawer = desk.getByRole('dialog', { name: CLASS });
+    await drawer.getByRole('button', { name: 'Move', exact: true }).click();
+    const form = drawer.getByRole('form', { name: 'Move the class' });
+    await form.getByLabel('Starts').fill('05:00');
+    await form.getByLabel('Ends').fill('06:00');
+    await pointBox(form, 'DW-6').waitFor();
+    expect(await pointBox(form, 'DW-5').isChecked()).toBe(false);
+    await pointBox(form, 'DW-6').check();
+    await shotScreen(desk, 'desk-move-with-point');
+    await form.getByRole('button', { name: 'Move', exact: true }).click();
+    await expect.poll(() => drawer.getByRole('status').innerText()).toContain('Moved to');
+    const after = await apiCall<{ pointIds: number[]; atRisk: boolean }>(desk, baseUrl, 'GET', `/sessions/${booked.id}`);
+    expect(after).toMatchObject({ pointIds: [points['DW-6']], atRisk: false });
   });
 
   it('showed no console error on any of these pages', () => {
