@@ -420,7 +420,77 @@ describe('at-risk alerts', () => {
     await w.runOnce();
     expect(received()).toHaveLength(2);
     expect(received()[1].text).toContain('Clamp bolt loose');
-    expect((await rows({ kind: 'at_risk' })).map((r) => String(r.unique_key).split(':').pop())).toEqual(['1', '2']);
+    // The count of alerts for this class and start, then the points the alert is about.
+    expect((await rows({ kind: 'at_risk' })).map((r) => String(r.unique_key).split(':cause:'))).toEqual([[expect.stringMatching(/:1$/), String(a.id)], [expect.stringMatching(/:2$/), String(a.id)]]);
+  });
+});
+
+describe('at-risk alerts, one per cause', () => {
+  const weekly = async (s: Studio, first: string, pointIds: number[], weeks: number) => {
+    const ids = [];
+    for (let w = 0; w < weeks; w++) ids.push(await book(s, new Date(new Date(first).getTime() + w * 7 * 24 * HOUR).toISOString(), pointIds));
+    return ids;
+  };
+
+  it('sends one alert per recipient for one fault under a weekly class, listing every date', async () => {
+    const s = await studio();
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const ids = await weekly(s, '2026-12-03T18:00:00Z', [a.id], 5);
+    const w = worker();
+    await w.runOnce();
+    await openFault({ gearId: a.gear[3], description: 'Bearing grinds' });
+    const summary = await w.runOnce();
+    expect(summary.atRiskAlerts).toBe(1);
+    // (The rigger's morning digest goes out in the same cycle; it is not an alert.)
+    const alerts = () => received().filter((m) => m.subject.startsWith('At risk'));
+    const mail = alerts();
+    expect(mail).toHaveLength(1);
+    expect(mail[0].to.sort()).toEqual([desk.email, rigger.email].sort());
+    expect(mail[0].subject).toBe('At risk: Silks Foundations in Main Hall, 5 classes from Thu 3 Dec');
+    for (const day of ['Thu 3 Dec', 'Thu 10 Dec', 'Thu 17 Dec', 'Thu 24 Dec', 'Thu 31 Dec']) expect(linesOf(mail[0].text)).toContain(`${day} 18:00–19:00  Silks Foundations, Main Hall, Ada Instructor`);
+    expect(mail[0].text.match(/Bearing grinds/g)).toHaveLength(1);
+    // Every date is flagged, so the next cycle says nothing more.
+    expect((await ctx.db('sessions').whereIn('id', ids).select('at_risk')).every((r) => Boolean(r.at_risk))).toBe(true);
+    await w.runOnce();
+    expect(alerts()).toHaveLength(1);
+  });
+
+  it('sends one alert per cause: a fault under one weekly class and a failed check under another make two, not one per date', async () => {
+    const s = await studio();
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const b = await point(s, 'B-1', '2026-11-29T10:00:00Z');
+    await weekly(s, '2026-12-03T18:00:00Z', [a.id], 4);
+    await weekly(s, '2026-12-04T18:00:00Z', [b.id], 4);
+    const w = worker();
+    await w.runOnce();
+    await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
+    await openFault({ pointId: b.id, description: 'Pre-use check failed: sling sheath cut' });
+    await w.runOnce();
+    const mail = received();
+    expect(mail).toHaveLength(2);
+    expect(mail.every((m) => m.to.join() === desk.email)).toBe(true);
+    expect(mail.map((m) => m.subject).sort()).toEqual(['At risk: Silks Foundations in Main Hall, 4 classes from Fri 4 Dec', 'At risk: Silks Foundations in Main Hall, 4 classes from Thu 3 Dec']);
+  });
+
+  it('still sends a waiting grouped alert when its first class is cancelled meanwhile, listing the classes still at risk', async () => {
+    const s = await studio();
+    await makeUser(ctx.db, { role: 'reception' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const [first] = await weekly(s, '2026-12-03T18:00:00Z', [a.id], 3);
+    const smtp = await smtpDown();
+    const w = worker();
+    await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
+    await w.runOnce();
+    await ctx.db('sessions').where({ id: first }).update({ cancelled: true });
+    const back = await smtp.back();
+    ctx.clock.advance(retryDelayMs(1));
+    expect((await w.runOnce()).sent).toBe(1);
+    const [mail] = received(back);
+    expect(mail.subject).toBe('At risk: Silks Foundations in Main Hall, 2 classes from Thu 10 Dec');
+    expect(mail.text).not.toContain('Thu 3 Dec');
   });
 });
 
