@@ -125,12 +125,13 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
-  const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
+  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
+  // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
+  // transaction; the worker sends.
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
+  const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock });
-  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
-  // (sessions: outbox.notifySessionChange) write to it in their own transaction; the worker sends.
-  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
 
   const api = new ApiRouter('/api');
   staffRoutes(api, staff);

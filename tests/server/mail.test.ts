@@ -494,6 +494,43 @@ describe('at-risk alerts, one per cause', () => {
   });
 });
 
+describe('a fault reported through the API reaches the riggers', () => {
+  it('tells the riggers of a fault on a point with no booked class, which raises no at-risk alert', async () => {
+    const s = await studio();
+    const rigger = await makeUser(ctx.db, { role: 'rigger', name: 'Rory Rigger' });
+    await makeUser(ctx.db, { role: 'rigger', active: false });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const instructor = await as(ctx, 'instructor', { name: 'Ivy Instructor' });
+    expect((await instructor.post('/api/faults').send({ pointId: a.id, severity: 'medium', description: 'Sling sheath cut' })).status).toBe(201);
+    const summary = await worker().runOnce();
+    expect(summary.atRiskAlerts).toBe(0);
+    const notices = received().filter((m) => m.subject.startsWith('Fault'));
+    expect(notices).toHaveLength(1);
+    expect(notices[0].to).toEqual([rigger.email]);
+    expect(notices[0].subject).toBe('Fault on point A-1 (Main Hall): Sling sheath cut');
+    expect(linesOf(notices[0].text)).toContain('Reported by: Ivy Instructor');
+    expect(notices[0].text).toContain('No booked class uses this point');
+  });
+
+  it('tells the riggers of a high-severity fault even when booked classes raise an at-risk alert too; a medium one is left to the alert', async () => {
+    const s = await studio();
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const b = await point(s, 'B-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-03T18:00:00Z', [a.id]);
+    await book(s, '2026-12-04T18:00:00Z', [b.id]);
+    const instructor = await as(ctx, 'instructor');
+    await instructor.post('/api/faults').send({ gearId: a.gear[3], severity: 'high', description: 'Swivel seized' });
+    await instructor.post('/api/faults').send({ pointId: b.id, severity: 'medium', description: 'Paint flaking on beam' });
+    await worker().runOnce();
+    const subjects = received().map((m) => `${m.to.sort().join(',')} ${m.subject}`);
+    expect(subjects.filter((x) => x.includes('Fault'))).toEqual([expect.stringMatching(new RegExp(`^${rigger.email} Fault \\(high severity\\) on point A-1 \\(Main Hall\\): Swivel seized$`))]);
+    expect(subjects.filter((x) => x.includes('At risk'))).toHaveLength(2);
+    expect(subjects.filter((x) => x.includes('At risk')).every((x) => x.startsWith([desk.email, rigger.email].sort().join(',')))).toBe(true);
+  });
+});
+
 describe('daily digest', () => {
   it('goes once per studio day from 07:00 to riggers, not to those who opted out, listing what comes due', async () => {
     const s = await studio();

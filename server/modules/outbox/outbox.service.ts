@@ -8,6 +8,7 @@ import { pointStatusAt } from '../../../shared/clearance';
 import { mailDataRepository } from '../../mail/mail-data.repository';
 import { sessionChangeMessage, type SessionChangeKind } from '../../mail/templates/session-change';
 import type { MailPoint } from '../../mail/templates/points';
+import { faultReportedMessage } from '../../mail/templates/fault-reported';
 import { outboxRepository, type NewOutboxRow, type OutboxKind, type OutboxState } from './outbox.repository';
 
 /** A message to send: a new outbox row without the worker's own bookkeeping (`state`, `note`). */
@@ -113,9 +114,49 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     return queued;
   }
 
+  /**
+   * A fault just opened, told to the active riggers when nothing else would tell them: the point
+   * has no booked class ahead (so no at-risk alert follows), or the fault is of high severity
+   * (always). In the caller's transaction, so the notice exists exactly when the fault does.
+   */
+  async function faultOpened(trx: Db, f: { faultId: number; pointId: number | null; gearId: number | null; severity: string; description: string; reportedBy: number }): Promise<boolean> {
+    const at = clock.now();
+    const gear = f.gearId !== null ? await rig.gearById(f.gearId, trx) : null;
+    const pointId = f.pointId ?? gear?.pointId ?? null;
+    const point = pointId !== null ? await rig.pointById(pointId, trx) : null;
+    const booked = pointId !== null && (await data.pointBookedAfter(pointId, at, trx));
+    const why = !booked ? 'no_booked_class' : f.severity === 'high' ? 'high_severity' : null;
+    if (!why) return false;
+    const { name: studioName, policy } = await studio.get(trx);
+    const reporter = await data.userById(f.reportedBy, trx);
+    const to = (await data.activeStaff(['rigger'], trx)).map((u) => u.email);
+    const mail = faultReportedMessage({
+      studioName,
+      timeZone: policy.timeZone,
+      appUrl,
+      faultId: f.faultId,
+      pointLabel: point?.label ?? null,
+      roomName: point?.roomName || null,
+      gearSerial: gear?.serial ?? null,
+      severity: f.severity,
+      description: f.description,
+      reportedBy: reporter?.name ?? 'someone',
+      reportedAt: at,
+      why,
+    });
+    return enqueue(trx, {
+      kind: 'fault',
+      uniqueKey: `fault:${f.faultId}`,
+      to,
+      ...mail,
+      ...(to.length ? {} : { state: 'skipped' as const, note: 'Nobody to tell: there is no active rigger account.' }),
+    } as EnqueueInput);
+  }
+
   return {
     enqueue,
     notifySessionChange,
+    faultOpened,
     /** The same, under the name the sessions service's SessionNotifier expects: pass `notifier: outbox`. */
     async sessionChanged(trx: Db, change: SessionChange): Promise<void> {
       await notifySessionChange(trx, change);
