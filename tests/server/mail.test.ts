@@ -10,6 +10,7 @@ import { outboxRepository, retryDelayMs, MAX_ATTEMPTS } from '../../server/modul
 import { outboxService } from '../../server/modules/outbox/outbox.service';
 import { studioRepository } from '../../server/modules/studio/studio.repository';
 import { sessionChangeMessage } from '../../server/mail/templates/session-change';
+import { UNDO_WINDOW_MS } from '../../shared/schedule/undo';
 
 const FROM = 'Loftwise <no-reply@loftwise.test>';
 const HOUR = 3_600_000;
@@ -604,6 +605,8 @@ describe('instructor told of changes (outbox.notifySessionChange)', () => {
       await trx('sessions').where({ id }).update({ cancelled: true, cancel_reason: 'Roof repairs' });
       await outbox.sessionChanged(trx, { kind: 'cancelled', sessionId: id, before: { ...before, startsAt: '2026-12-06T18:00:00.000Z', endsAt: '2026-12-06T19:00:00.000Z' } });
     });
+    // A move is told once its undo window has passed.
+    ctx.clock.advance(UNDO_WINDOW_MS);
     await worker().runOnce();
     const mail = received();
     expect(mail.map((m) => m.subject)).toEqual(['Moved: Silks Foundations is now on Sun 6 Dec at 18:00 (was Sat 5 Dec at 18:00)', 'Cancelled: Silks Foundations on Sun 6 Dec at 18:00']);
@@ -637,6 +640,45 @@ describe('instructor told of changes (outbox.notifySessionChange)', () => {
     expect(linesOf(swap.text)).toContain('B-2  cleared');
     expect(bySubject['You now teach Silks Foundations on Sat 5 Dec at 18:00'].to).toEqual([next.email]);
     expect(bySubject['You no longer teach Silks Foundations on Sat 5 Dec at 18:00'].to).toEqual([s.instructor.email]);
+  });
+});
+
+describe('a move undone within the undo window (the desk’s Undo after a drag)', () => {
+  async function movedClass() {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const desk = await as(ctx, 'reception');
+    const [ct] = [s.classTypeId];
+    const res = await desk.post('/api/sessions').send({ classTypeId: ct, instructorId: s.instructor.id, roomId: s.roomId, pointIds: [a.id], startsAt: '2026-12-05T18:00:00Z', endsAt: '2026-12-05T19:00:00Z' });
+    expect(res.status).toBe(201);
+    return { s, desk, id: res.body.id as number };
+  }
+  const moves = () => received().filter((m) => m.subject.startsWith('Moved'));
+
+  it('sends no “Moved” e-mail when the class is moved back within the window', async () => {
+    const { desk, id } = await movedClass();
+    const w = worker();
+    expect((await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-05T20:00:00Z', endsAt: '2026-12-05T21:00:00Z' })).status).toBe(200);
+    await w.runOnce();
+    ctx.clock.advance(5_000);
+    expect((await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-05T18:00:00Z', endsAt: '2026-12-05T19:00:00Z' })).status).toBe(200);
+    ctx.clock.advance(UNDO_WINDOW_MS);
+    await w.runOnce();
+    expect(moves()).toHaveLength(0);
+    expect((await rows({ kind: 'session_change' })).map((r) => r.state)).toEqual(['skipped']);
+  });
+
+  it('sends one “Moved” e-mail from the first time to the last when moved twice within the window, and only after it', async () => {
+    const { desk, id } = await movedClass();
+    const w = worker();
+    await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-05T20:00:00Z', endsAt: '2026-12-05T21:00:00Z' });
+    ctx.clock.advance(5_000);
+    await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-06T18:00:00Z', endsAt: '2026-12-06T19:00:00Z' });
+    await w.runOnce();
+    expect(moves()).toHaveLength(0);
+    ctx.clock.advance(UNDO_WINDOW_MS);
+    await w.runOnce();
+    expect(moves().map((m) => m.subject)).toEqual(['Moved: Silks Foundations is now on Sun 6 Dec at 18:00 (was Sat 5 Dec at 18:00)']);
   });
 });
 

@@ -9,6 +9,7 @@ import { mailDataRepository } from '../../mail/mail-data.repository';
 import { sessionChangeMessage, type SessionChangeKind } from '../../mail/templates/session-change';
 import type { MailPoint } from '../../mail/templates/points';
 import { faultReportedMessage } from '../../mail/templates/fault-reported';
+import { UNDO_WINDOW_MS } from '../../../shared/schedule/undo';
 import { outboxRepository, type NewOutboxRow, type OutboxKind, type OutboxState } from './outbox.repository';
 
 /** A message to send: a new outbox row without the worker's own bookkeeping (`state`, `note`). */
@@ -28,6 +29,13 @@ export interface SessionChange {
   /** `cancelled`: the reason given, when it is not yet on the session's row. */
   reason?: string | null;
 }
+
+/** The times a waiting "Moved" notice moved the class from, read from its key. */
+function movedFrom(uniqueKey: string): { startsAt: string; endsAt: string } | null {
+  const m = uniqueKey.match(/:from:([^/]+)\/(.+)$/);
+  return m ? { startsAt: m[1], endsAt: m[2] } : null;
+}
+const sameInstant = (a: string | Date, b: string | Date) => new Date(a).getTime() === new Date(b).getTime();
 
 export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string }) {
   const { db, clock, studio, appUrl } = deps;
@@ -58,6 +66,17 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     const at = change.at ?? clock.now();
     const session = await data.sessionById(change.sessionId, trx);
     if (!session) return 0;
+    if (change.kind === 'moved') {
+      // A move waits out the undo window. Another move of the class within it replaces the waiting
+      // notice (told from the first time to the latest); a move back to where it was sends nothing.
+      const waiting = await repo.waitingWithPrefix(`change:${session.id}:moved:`, at, trx);
+      const from = waiting.map((w) => movedFrom(w.uniqueKey)).find((f) => f !== null);
+      if (waiting.length) await repo.skipWaiting(waiting.map((w) => w.id), 'Not sent: the move was undone or changed again within the undo window.', trx);
+      if (from) {
+        if (sameInstant(from.startsAt, session.startsAt) && sameInstant(from.endsAt, session.endsAt)) return 0;
+        change = { ...change, before: { ...change.before, startsAt: from.startsAt, endsAt: from.endsAt } };
+      }
+    }
     const { name: studioName, policy } = await studio.get(trx);
     const startsAt = new Date(session.startsAt);
     const endsAt = new Date(session.endsAt);
@@ -102,12 +121,15 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
         reason: change.kind === 'cancelled' ? (change.reason ?? session.cancelReason) : undefined,
         assignment: r.assignment,
       });
+      const moved = change.kind === 'moved';
       const added = await enqueue(trx, {
         kind: 'session_change',
-        uniqueKey: `change:${session.id}:${change.kind}:${at.toISOString()}:${r.id}:${state}`,
+        // A move's key keeps the times it moved from, so a later move within the undo window can tell it.
+        uniqueKey: `change:${session.id}:${change.kind}:${at.toISOString()}:${r.id}:${state}${moved ? `:from:${new Date(change.before.startsAt).toISOString()}/${new Date(change.before.endsAt).toISOString()}` : ''}`,
         to: [r.email],
         ...mail,
         sessionId: session.id,
+        ...(moved ? { notBefore: new Date(at.getTime() + UNDO_WINDOW_MS) } : {}),
       });
       if (added) queued += 1;
     }

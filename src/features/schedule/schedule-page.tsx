@@ -25,6 +25,7 @@ import { SessionDrawer } from './components/session-drawer';
 import { MoveScopeDialog } from './components/move-scope-dialog';
 import { ConflictView, refusalLines, refusedCount } from './components/conflict-view';
 import { MAIL_NOTE, type Scope } from './components/scope-choice';
+import { UNDO_WINDOW_MS } from '../../../shared/schedule/undo';
 
 const DESK = new Set(['reception', 'owner']);
 
@@ -163,7 +164,9 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
       {
         onSuccess: (s) =>
           toast.success(`${s.className} now runs ${whenShort(s.startsAt, s.endsAt, timeZone)}${scope === 'following' ? ', and the following classes move with it' : ''}.`, {
-            description: MAIL_NOTE,
+            // Undo stays on offer for the whole window the instructor's e-mail waits out.
+            description: `${MAIL_NOTE} Undo within ${UNDO_WINDOW_MS / 1000} seconds and nothing is sent.`,
+            duration: UNDO_WINDOW_MS,
             action: { label: 'Undo', onClick: () => update.mutate({ id: s.id, ...before, scope }, { onError: (err) => toast.error(errorMessage(err)) }) },
           }),
         onError: (err) => {
