@@ -78,6 +78,8 @@ describe('POST /api/sessions', () => {
     const reasons = codes(res.body.error.details.points[0].reasons);
     expect(reasons).toEqual(expect.arrayContaining(['too_many_performers', 'load_check_failed', 'point_double_booked']));
     expect(codes(res.body.error.details.reasons)).toEqual(['instructor_double_booked']);
+    // The clash names the instructor and the class they already teach then.
+    expect(res.body.error.details.reasons[0].message).toBe(`${(await ctx.db("users").where({ id: s.instructorId }).first("name")).name} already teaches Silks ${s.roomId} in ${(await ctx.db('rooms').where({ id: s.roomId }).first('name')).name}, 3 Dec 2026, 18:00–19:00`);
   });
 
   it('books a point whose clearance runs out before the session ends, with inspection_due', async () => {

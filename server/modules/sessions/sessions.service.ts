@@ -10,7 +10,7 @@ import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf } from '.
 import { statusWire } from '../rig/rig.service';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { apparatusUnfitReasons, bookingReasons, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
+import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
@@ -127,7 +127,11 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const apparatus = hung ? { gearId: hung.id, kind: hung.kind, serial: hung.serial, changeover: hanging.changeover } : null;
       return { pointId, reasons, warnings: check.warnings, apparatus };
     });
-    const reasons: Reason[] = [...instructorReasons(await repo.instructorBusy(a.instructorId, a.occ.startsAt, a.occ.endsAt, a.exclude, trx))];
+    const clash = await repo.instructorClash(a.instructorId, a.occ.startsAt, a.occ.endsAt, a.exclude, trx);
+    // The rule's reason, named: which instructor, and which class they teach then.
+    const reasons: Reason[] = instructorReasons(clash !== null).map((r) =>
+      clash ? { ...r, message: `${clash.instructorName} already teaches ${clash.className} in ${clash.roomName}, ${formatStudioDateTime(new Date(clash.startsAt), a.policy.timeZone)}–${formatStudioDateTime(new Date(clash.endsAt), a.policy.timeZone).split(', ').pop()}` } : r,
+    );
     if (a.occ.endsAt.getTime() <= a.now.getTime()) reasons.push({ code: 'in_the_past', message: 'This class would already be over.' });
     return { points, reasons, ok: reasons.length === 0 && points.every((p) => p.reasons.length === 0) };
   }

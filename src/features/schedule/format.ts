@@ -26,4 +26,5 @@ export const whenShort = (from: string, to: string, timeZone: string) => `${shor
 export const zoneAbbrev = (iso: string, timeZone: string) =>
   fmt(timeZone, 'tz', { timeZoneName: 'short' }).formatToParts(new Date(iso)).find((p) => p.type === 'timeZoneName')?.value ?? timeZone;
 
-export const placesText = (places: number, capacity: number) => `places ${places}/${capacity}`;
+/** "3 of 8 places usable": usable places (booked, unblocked points) against the class's capacity, never read as "3 taken". */
+export const placesText = (places: number, capacity: number) => `${places} of ${capacity} places usable`;

@@ -135,6 +135,8 @@ export default function ScheduleCalendar({
           timeGrid: { dayHeaderFormat: { weekday: 'short', day: 'numeric', month: 'short' } },
         }}
         slotEventOverlap={false}
+        // Beyond three classes at once a "+ more" link opens the rest, rather than slivers.
+        eventMaxStack={3}
         eventDisplay="block"
         dayMaxEvents={4}
         events={events}
@@ -197,16 +199,20 @@ function renderEvent(arg: EventContentArg) {
       </div>
     );
   }
+  // Each line truncates rather than wraps: a 60-minute class keeps room and instructor in view,
+  // and classes side by side stay readable line by line; the full text is in the tooltip.
+  const full = [label, s.className, clockRange(s.startsAt, s.endsAt, timeZone), `${s.roomName} · ${s.instructorName}`, placesText(s.places, s.capacity), risk].filter(Boolean).join('\n');
+  const line = 'block truncate';
   return (
-    <div className="flex h-full flex-col gap-0.5 overflow-hidden px-1 py-0.5 text-xs leading-tight">
-      <span className="flex items-center gap-1 font-semibold">
+    <div className="flex h-full flex-col overflow-hidden px-1 py-0.5 text-xs leading-tight" title={full}>
+      <span className="flex min-w-0 items-center gap-1 font-semibold">
         <Icon className="size-3.5 shrink-0" aria-hidden />
-        {label}
+        <span className="truncate">{label} · <span className="tabular-nums">{clockRange(s.startsAt, s.endsAt, timeZone)}</span></span>
       </span>
-      <span className={`font-medium ${s.cancelled ? 'line-through' : ''}`}>{s.className}</span>
-      <span className="tabular-nums">{clockRange(s.startsAt, s.endsAt, timeZone)} · {placesText(s.places, s.capacity)}</span>
-      <span>{s.roomName} · {s.instructorName}</span>
-      {risk ? <span className="font-medium">{risk}</span> : null}
+      <span className={`${line} font-medium ${s.cancelled ? 'line-through' : ''}`}>{s.className}</span>
+      <span className={line}>{s.roomName} · {s.instructorName}</span>
+      <span className={`${line} tabular-nums`}>{placesText(s.places, s.capacity)}</span>
+      {risk ? <span className={`${line} font-medium`}>{risk}</span> : null}
     </div>
   );
 }
