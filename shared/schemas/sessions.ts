@@ -78,7 +78,20 @@ export const cancelSessionSchema = z.object({ reason: z.string().trim().min(1, '
 export type CancelSession = z.infer<typeof cancelSessionSchema>;
 
 export const availabilityQuery = when
-  .extend({ roomId: idSchema, classTypeId: idSchema, instructorId: idSchema.optional(), excludeSessionId: idSchema.optional() })
+  .extend({
+    roomId: idSchema,
+    classTypeId: idSchema,
+    instructorId: idSchema.optional(),
+    excludeSessionId: idSchema.optional(),
+    /** A series: every class of it is checked, not only the first (startsAt/endsAt are the first's). */
+    rrule: z.string().trim().min(6).max(300).optional(),
+    /** Studio days left out of the series, comma-separated YYYY-MM-DD. */
+    skipDays: z
+      .string()
+      .max(1200)
+      .regex(/^(\d{4}-\d{2}-\d{2})(,\d{4}-\d{2}-\d{2})*$/, 'Days as YYYY-MM-DD, separated by commas')
+      .optional(),
+  })
   .superRefine(ordered);
 export type AvailabilityQuery = z.infer<typeof availabilityQuery>;
 

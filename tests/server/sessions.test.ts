@@ -427,6 +427,29 @@ describe('swapping a point for “this and the following” classes', () => {
   });
 });
 
+describe('GET /api/sessions/availability for a series', () => {
+  it('checks every class of the series: a point busy on a later date is not bookable, and the reason names that day', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, pointIds: [s.points[1]], startsAt: '2026-12-17T18:00:00Z', endsAt: '2026-12-17T19:00:00Z' }))).status).toBe(201);
+    const q = `roomId=${s.roomId}&classTypeId=${s.classTypeId}&startsAt=2026-12-03T18:00:00Z&endsAt=2026-12-03T19:00:00Z`;
+    const single = await desk.get(`/api/sessions/availability?${q}`);
+    expect(single.body.points.map((p: { bookable: boolean }) => p.bookable)).toEqual([true, true]);
+    const series = await desk.get(`/api/sessions/availability?${q}&rrule=${encodeURIComponent('FREQ=WEEKLY;COUNT=4')}`);
+    expect(series.status).toBe(200);
+    expect(series.body.classes).toBe(4);
+    const [a, b] = series.body.points;
+    expect(a.bookable).toBe(true);
+    expect(b.bookable).toBe(false);
+    expect(codes(b.reasons)).toEqual(['point_double_booked']);
+    expect(b.reasons[0].message).toMatch(/\(on 17 Dec 2026\)$/);
+    // Leaving that day out of the series frees the point again.
+    const skipped = await desk.get(`/api/sessions/availability?${q}&rrule=${encodeURIComponent('FREQ=WEEKLY;COUNT=4')}&skipDays=2026-12-17`);
+    expect(skipped.body.points[1].bookable).toBe(true);
+  });
+});
+
 describe('a class whose only point is blocked', () => {
   it('moves to another time with a replacement point in one step, the blocked point left behind', async () => {
     const desk = await as(ctx, 'reception');

@@ -10,7 +10,7 @@ import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf } from '.
 import { statusWire } from '../rig/rig.service';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
+import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, formatStudioDay, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
@@ -223,27 +223,58 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       return view(s, await bundlesFor(s.pointIds), await loadRecorded(rig, [s], db), policy, now, undefined, kept);
     },
 
-    /** What the booking dialog asks: each point of the room, bookable or not for that exact time, with reasons. */
+    /**
+     * What the booking dialog asks: each point of the room, bookable or not for that exact time,
+     * with reasons. For a series (`rrule`), every class of it is checked: a point is bookable only
+     * if it can take every one, and a reason true of some dates only names them.
+     */
     async availability(q: AvailabilityQuery) {
       const { policy } = await studio.get();
       const classType = await classTypeOrThrow(q.classTypeId);
       const bundles = await bundlesFor('all');
       const roomPoints = [...bundles.values()].filter((b) => b.point.roomId === q.roomId).map((b) => b.point.id);
-      const result = await checkOccurrence(db, {
-        classType,
-        policy,
-        now: clock.now(),
-        roomId: q.roomId,
-        instructorId: q.instructorId ?? 0,
-        occ: { startsAt: new Date(q.startsAt), endsAt: new Date(q.endsAt) },
-        pointIds: roomPoints,
-        bundles,
-        exclude: q.excludeSessionId ? [q.excludeSessionId] : [],
-        eachAlone: true,
+      const first: Occurrence = { startsAt: new Date(q.startsAt), endsAt: new Date(q.endsAt) };
+      let occurrences = [first];
+      if (q.rrule) {
+        const duration = first.endsAt.getTime() - first.startsAt.getTime();
+        try {
+          occurrences = expandSeries(q.rrule, first.startsAt, policy.timeZone, { skipDays: q.skipDays?.split(',') }).map((s) => ({ startsAt: s, endsAt: new Date(s.getTime() + duration) }));
+        } catch (err) {
+          if (err instanceof RecurrenceError) throw new HttpError(400, 'invalid_request', err.message, { source: 'query', fields: { rrule: err.message } });
+          throw err;
+        }
+        if (!occurrences.length) occurrences = [first];
+      }
+      const now = clock.now();
+      const checks: Array<Awaited<ReturnType<typeof checkOccurrence>>> = [];
+      for (const occ of occurrences) {
+        checks.push((await checkOccurrence(db, { classType, policy, now, roomId: q.roomId, instructorId: q.instructorId ?? 0, occ, pointIds: roomPoints, bundles, exclude: q.excludeSessionId ? [q.excludeSessionId] : [], eachAlone: true })));
+      }
+      const day = (d: Date) => formatStudioDay(d, policy.timeZone);
+      /** Each reason once; one true of only some classes of a series names their days. */
+      const merge = (lists: Reason[][]) => {
+        const byMessage = new Map<string, { reason: Reason; on: Date[] }>();
+        lists.forEach((list, i) => {
+          for (const r of list) {
+            const e = byMessage.get(r.message) ?? { reason: r, on: [] };
+            e.on.push(occurrences[i].startsAt);
+            byMessage.set(r.message, e);
+          }
+        });
+        return [...byMessage.values()].map(({ reason, on }) =>
+          occurrences.length > 1 && on.length < occurrences.length ? { ...reason, message: `${reason.message} (${on.length === 1 ? 'on' : `${on.length} classes:`} ${on.slice(0, 4).map(day).join(', ')}${on.length > 4 ? ', …' : ''})` } : reason,
+        );
+      };
+      const points = roomPoints.map((pointId, i) => {
+        const reasons = merge(checks.map((c) => c.points[i].reasons));
+        return { pointId, label: bundles.get(pointId)!.point.label, bookable: reasons.length === 0, reasons, warnings: merge(checks.map((c) => c.points[i].warnings)), apparatus: checks[0].points[i].apparatus };
       });
+      const reasons = merge(checks.map((c) => c.reasons));
       return {
-        points: result.points.map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, bookable: p.reasons.length === 0, reasons: p.reasons, warnings: p.warnings, apparatus: p.apparatus })),
-        reasons: q.instructorId ? result.reasons : result.reasons.filter((r) => r.code !== 'instructor_double_booked'),
+        points,
+        reasons: q.instructorId ? reasons : reasons.filter((r) => r.code !== 'instructor_double_booked'),
+        /** How many classes were checked (1, or every class of the series). */
+        classes: occurrences.length,
       };
     },
 

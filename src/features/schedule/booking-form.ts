@@ -49,7 +49,6 @@ export function rruleOf(v: BookingForm, timeZone: string): string | undefined {
   return v.repeat === 'weekly' ? buildRrule({ kind: 'weekly', days: v.days, ends: v.ends, until: v.until, count: v.count }, timeZone) : undefined;
 }
 
-/** The wire body, checked with the shared schema the server uses. */
 /** A fresh key for one opening of the booking dialog (random; works outside a secure context too). */
 export function newRequestKey(): string {
   const bytes = new Uint8Array(16);
@@ -57,6 +56,7 @@ export function newRequestKey(): string {
   return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
 }
 
+/** The wire body, checked with the shared schema the server uses. */
 export function bookingBody(v: BookingForm, timeZone: string, bookAvailable = false, idempotencyKey?: string): { ok: true; body: CreateSession } | { ok: false; message: string } {
   const t = firstTimes(v, timeZone);
   if (!t) return { ok: false, message: 'Check the day and times.' };

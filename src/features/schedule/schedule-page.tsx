@@ -2,7 +2,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { useLocation, useNavigate, useSearchParams } from 'react-router-dom';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { toast } from 'sonner';
-import { CalendarPlus, X } from 'lucide-react';
+import { CalendarClock, CalendarPlus, X } from 'lucide-react';
 import type { Me } from '../../../shared/schemas/staff';
 import { studioQueries } from '../settings/api';
 import { staffQueries } from '../staff/api';
@@ -126,6 +126,7 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
   }, [booking]);
   const [pendingMove, setPendingMove] = useState<MoveRequest | null>(null);
   const [notice, setNotice] = useState<{ title: string; lines: string[] } | null>(null);
+  const [bookedNotes, setBookedNotes] = useState<{ title: string; lines: string[] } | null>(null);
   const [focus, setFocus] = useState<string | null>(null);
 
   const matches = useCallback((s: Session) => !filter.state || stateOf(s) === filter.state, [filter.state]);
@@ -197,6 +198,8 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
     const n = created.sessionIds.length;
     const warnings = [...new Set(created.warnings.map((w) => w.message))];
     const skipped = created.skipped.length ? [`${created.skipped.length} ${created.skipped.length === 1 ? 'class was' : 'classes were'} left out as they could not be booked.`] : [];
+    // Warnings stay on the page until dismissed: a toast that fades took them with it.
+    setBookedNotes(warnings.length || skipped.length ? { title: `Booked ${created.className}${n > 1 ? ` (${n} classes)` : ''}: please note`, lines: [...warnings, ...skipped] } : null);
     toast.success(`Booked ${created.className}, ${whenShort(created.startsAt, created.endsAt, timeZone)}${n > 1 ? `, and ${n - 1} more` : ''}.`, {
       description: [...warnings, ...skipped].join(' ') || undefined,
       duration: warnings.length || skipped.length ? 12_000 : 6_000,
@@ -214,6 +217,13 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
       </PageHeader>
       <ScheduleFilters value={filter} onChange={setFilter} rooms={rooms.data ?? []} instructors={instructors} />
       {visible.data ? <AtRiskSummary sessions={visible.data} timeZone={timeZone} onOpen={setOpenId} /> : null}
+      {bookedNotes ? (
+        <section aria-label="Notes on the class just booked" className="space-y-2 rounded-xl border border-warn-700/30 bg-warn-50 p-4 text-sm text-warn-700">
+          <h2 className="flex items-center gap-2 font-semibold"><CalendarClock className="size-4" aria-hidden />{bookedNotes.title}</h2>
+          <ul className="list-disc space-y-1 pl-5">{bookedNotes.lines.map((l) => <li key={l}>{l}</li>)}</ul>
+          <Button variant="secondary" onClick={() => setBookedNotes(null)}><X className="size-4" aria-hidden /> Dismiss</Button>
+        </section>
+      ) : null}
       {notice ? (
         <ConflictView title={notice.title} lines={notice.lines}>
           <Button variant="secondary" onClick={() => setNotice(null)}><X className="size-4" aria-hidden /> Dismiss</Button>

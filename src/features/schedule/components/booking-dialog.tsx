@@ -99,10 +99,17 @@ function BookingBody({ prefill, timeZone, book, onBooked, onChoosing, onDirty }:
   const rule = rruleOf(v, timeZone);
   const first = firstTimes(v, timeZone);
   const preview = useMemo(() => (rule && first ? previewSeries(rule, first.startsAt, timeZone, v.skipDays) : null), [rule, first?.startsAt.getTime(), timeZone, v.skipDays.join()]); // eslint-disable-line react-hooks/exhaustive-deps
-  // Availability is for the first class; a series' later classes are checked when booking.
+  // Availability covers every class of a series, not only the first.
   const firstStart = v.repeat === 'weekly' ? preview?.starts[0] : first?.startsAt;
   const query = classType && v.roomId && first && firstStart
-    ? { roomId: Number(v.roomId), classTypeId: classType.id, startsAt: firstStart.toISOString(), endsAt: new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(), instructorId: v.instructorId ? Number(v.instructorId) : undefined }
+    ? {
+        roomId: Number(v.roomId),
+        classTypeId: classType.id,
+        startsAt: firstStart.toISOString(),
+        endsAt: new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(),
+        instructorId: v.instructorId ? Number(v.instructorId) : undefined,
+        ...(rule && v.repeat === 'weekly' ? { rrule: rule, skipDays: v.skipDays.length ? v.skipDays.join(',') : undefined } : {}),
+      }
     : null;
 
   const onLoaded = useCallback((a: Availability) => {
@@ -244,7 +251,7 @@ function BookingBody({ prefill, timeZone, book, onBooked, onChoosing, onDirty }:
             onChange={(ids) => setValue('pointIds', ids, { shouldValidate: formState.isSubmitted })}
             onLoaded={onLoaded}
             error={e.pointIds?.message}
-            note={firstStart && first ? `For ${whenShort(firstStart.toISOString(), new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(), timeZone)}${v.repeat === 'weekly' ? ', the first class; each later class is checked when you book' : ''}.` : undefined}
+            note={firstStart && first ? `For ${whenShort(firstStart.toISOString(), new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(), timeZone)}${v.repeat === 'weekly' && preview ? ` and every class after it (${preview.starts.length} in all)` : ''}.` : undefined}
           />
           {classType && v.pointIds.length > classType.capacity ? (
             <p className="text-sm text-warn-700">More points ticked than the class has places ({classType.capacity}): places stay at {classType.capacity}.</p>
