@@ -68,6 +68,8 @@ export interface AppDeps {
   trustProxyHops?: number;
   /** Keep derived statuses per data version (default true); false works every answer out afresh. */
   cacheDerived?: boolean;
+  /** How long a "Moved" e-mail waits for the desk's Undo (default UNDO_WINDOW_MS). */
+  moveNoticeDelayMs?: number;
 }
 
 export interface LoftwiseApp extends Express {
@@ -128,7 +130,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
   // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
   // transaction; the worker sends.
-  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, undoWindowMs: deps.moveNoticeDelayMs });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock });

@@ -715,6 +715,12 @@ describe('mail worker settings (OUTBOX_LEASE_SECONDS, OUTBOX_INTERVAL_SECONDS)',
     expect(loadConfig({ ...env, OUTBOX_LEASE_SECONDS: '2', OUTBOX_INTERVAL_SECONDS: '1' })).toMatchObject({ outboxLeaseMs: 2_000, outboxIntervalMs: 1_000 });
   });
 
+  it('holds a “Moved” e-mail for the desk’s undo window by default (MOVE_NOTICE_DELAY_SECONDS), and at once when set to 0', () => {
+    expect(loadConfig(env).moveNoticeDelayMs).toBe(UNDO_WINDOW_MS);
+    expect(loadConfig({ ...env, MOVE_NOTICE_DELAY_SECONDS: '0' }).moveNoticeDelayMs).toBe(0);
+    expect(() => loadConfig({ ...env, MOVE_NOTICE_DELAY_SECONDS: '601' })).toThrow(/MOVE_NOTICE_DELAY_SECONDS/);
+  });
+
   it('refuses to start on a value that is not a whole number of seconds in range, naming each variable', () => {
     for (const [lease, interval] of [['0', '1.5'], ['soon', '3601'], ['86401', '-1']]) {
       expect(() => loadConfig({ ...env, OUTBOX_LEASE_SECONDS: lease, OUTBOX_INTERVAL_SECONDS: interval })).toThrow(

@@ -37,8 +37,9 @@ function movedFrom(uniqueKey: string): { startsAt: string; endsAt: string } | nu
 }
 const sameInstant = (a: string | Date, b: string | Date) => new Date(a).getTime() === new Date(b).getTime();
 
-export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string }) {
+export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string; undoWindowMs?: number }) {
   const { db, clock, studio, appUrl } = deps;
+  const undoWindowMs = deps.undoWindowMs ?? UNDO_WINDOW_MS;
   const repo = outboxRepository(db);
   const data = mailDataRepository(db);
   const rig = rigRepository(db);
@@ -66,7 +67,7 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     const at = change.at ?? clock.now();
     const session = await data.sessionById(change.sessionId, trx);
     if (!session) return 0;
-    if (change.kind === 'moved') {
+    if (change.kind === 'moved' && undoWindowMs > 0) {
       // A move waits out the undo window. Another move of the class within it replaces the waiting
       // notice (told from the first time to the latest); a move back to where it was sends nothing.
       const waiting = await repo.waitingWithPrefix(`change:${session.id}:moved:`, at, trx);
@@ -129,7 +130,7 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
         to: [r.email],
         ...mail,
         sessionId: session.id,
-        ...(moved ? { notBefore: new Date(at.getTime() + UNDO_WINDOW_MS) } : {}),
+        ...(moved && undoWindowMs > 0 ? { notBefore: new Date(at.getTime() + undoWindowMs) } : {}),
       });
       if (added) queued += 1;
     }
