@@ -78,7 +78,18 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
     else setParams((prev) => edit(prev, { [key]: null }), { replace: true });
   };
   const openId = Number(params.get('class')) || null;
-  const setOpenId = (id: number | null) => (id === null ? closeLayer('class') : openLayer('class', String(id)));
+  // Focus goes back to what opened the class when its drawer closes, by whatever way (Escape, Back).
+  const opener = useRef<HTMLElement | null>(null);
+  const setOpenId = (id: number | null) => {
+    if (id !== null && document.activeElement instanceof HTMLElement) opener.current = document.activeElement;
+    return id === null ? closeLayer('class') : openLayer('class', String(id));
+  };
+  useEffect(() => {
+    if (openId !== null || !opener.current) return;
+    const el = opener.current;
+    opener.current = null;
+    requestAnimationFrame(() => { if (el.isConnected) el.focus(); });
+  }, [openId]);
   const initial = useRef({ date: /^\d{4}-\d{2}-\d{2}$/.test(params.get('date') ?? '') ? params.get('date')! : undefined, view: VIEWS[params.get('view') as ViewName] as string | undefined });
   const onRange = (r: VisibleRange) => {
     setRange(r);
@@ -231,7 +242,15 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
       ) : null}
       {calendarError ? <ErrorState error={calendarError} retry={() => { setCalendarError(null); void visible.refetch(); }} /> : null}
       <div className="relative">
-        <a href="#agenda-title" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:-top-2 focus:z-10 focus:rounded focus:bg-white focus:p-2">Skip the calendar to the agenda list</a>
+        <a
+          href="#agenda-title"
+          // Focus the agenda without a #fragment history entry: Back closes drawers by history, and a
+          // fragment entry would pull focus to the heading on the way back.
+          onClick={(e) => {
+            e.preventDefault();
+            document.getElementById('agenda-title')?.focus();
+          }}
+          className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:-top-2 focus:z-10 focus:rounded focus:bg-white focus:p-2">Skip the calendar to the agenda list</a>
         <div className="mb-2 flex flex-wrap items-center justify-between gap-2 text-sm text-muted">
           <p>{canEdit ? 'Drag a class to move it, drag its lower edge to change its length, or select empty time to book. Open a class for its points.' : 'Open a class to see its points and their status.'}</p>
           <p role="status">{calendarBusy ? 'Loading classes…' : ''}</p>
