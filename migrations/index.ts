@@ -8,6 +8,7 @@ import * as m006 from './006-session-apparatus';
 import * as m007 from './007-records-that-hold';
 import * as m008 from './008-sign-in-limits-and-session-versions';
 import * as m010 from './010-inspection-status';
+import * as m012 from './012-idempotency-keys';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -23,6 +24,7 @@ const migrations: Record<string, Knex.Migration> = {
   '007-records-that-hold': m007,
   '008-sign-in-limits-and-session-versions': m008,
   '010-inspection-status': m010,
+  '012-idempotency-keys': m012,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

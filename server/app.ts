@@ -68,6 +68,8 @@ export interface AppDeps {
   trustProxyHops?: number;
   /** Keep derived statuses per data version (default true); false works every answer out afresh. */
   cacheDerived?: boolean;
+  /** How long a "Moved" e-mail waits for the desk's Undo (default UNDO_WINDOW_MS). */
+  moveNoticeDelayMs?: number;
 }
 
 export interface LoftwiseApp extends Express {
@@ -125,14 +127,15 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
-  const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock });
+  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
+  // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
+  // transaction; the worker sends.
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, undoWindowMs: deps.moveNoticeDelayMs });
+  const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   // What each class kept of its points as it started (PRODUCT.md §10); the exports read them too.
   const records = sessionRecords({ db, rig: rigRepo, studio: studioRepo });
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock, records });
-  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
-  // (sessions: outbox.notifySessionChange) write to it in their own transaction; the worker sends.
-  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
 
   const api = new ApiRouter('/api');
   staffRoutes(api, staff);

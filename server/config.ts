@@ -26,6 +26,8 @@ const envSchema = z.object({
   // and how often the mail worker runs. Tests shorten both; the defaults suit a studio.
   OUTBOX_LEASE_SECONDS: seconds('OUTBOX_LEASE_SECONDS', 1, 86_400, 300),
   OUTBOX_INTERVAL_SECONDS: seconds('OUTBOX_INTERVAL_SECONDS', 1, 3_600, 15),
+  // How long a "Moved" e-mail waits for the desk's Undo (shared/schedule/undo.ts); 0 tells at once.
+  MOVE_NOTICE_DELAY_SECONDS: seconds('MOVE_NOTICE_DELAY_SECONDS', 0, 600, 20),
 });
 
 export interface Config {
@@ -44,6 +46,7 @@ export interface Config {
   trustProxyHops: number;
   outboxLeaseMs: number;
   outboxIntervalMs: number;
+  moveNoticeDelayMs: number;
 }
 
 /** 127.0.0.0/8, ::1 and localhost: mail to them never leaves the machine. */
@@ -109,6 +112,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     trustProxyHops: e.TRUST_PROXY,
     outboxLeaseMs: e.OUTBOX_LEASE_SECONDS * 1000,
     outboxIntervalMs: e.OUTBOX_INTERVAL_SECONDS * 1000,
+    moveNoticeDelayMs: e.MOVE_NOTICE_DELAY_SECONDS * 1000,
   };
 }
 

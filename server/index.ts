@@ -55,6 +55,7 @@ async function main() {
     uploadDir: config.uploadDir,
     clientDir: resolve('dist'),
     trustProxyHops: config.trustProxyHops,
+    moveNoticeDelayMs: config.moveNoticeDelayMs,
     benchBaselineDbFile: process.env.LOFTWISE_BENCH_BASELINE === '1' ? config.dbFile : null,
   });
   // Classes that started while the server was down are recorded before any request can change the rig.

@@ -5,7 +5,7 @@ import type { OutboxMessage } from '../modules/outbox/outbox.repository';
 import type { MailSession } from './mail-data.repository';
 import type { Clock } from '../clock';
 import { reminderFor } from './reminders';
-import { atRiskFor } from './at-risk';
+import { atRiskFor, atRiskGroupFor, causeInKey } from './at-risk';
 
 /**
  * How long a claimed row stays ours by default (OUTBOX_LEASE_SECONDS); nodemailer gives up on a
@@ -78,6 +78,8 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
   let staff: Promise<string[]> | undefined;
   const alertRecipients = () => (staff ??= ctx.data.activeStaff(['reception', 'rigger']).then((list) => list.map((u) => u.email)));
 
+  const groups = new Map<string, ReturnType<typeof atRiskGroupFor>>();
+
   for (const [index, m] of claimed.entries()) {
     if (stopping()) {
       // Shutting down: hand the rest back untried rather than hold the server up.
@@ -85,7 +87,24 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
       break;
     }
     let mail = { to: m.to, subject: m.subject, text: m.text, html: m.html };
-    if (watched.includes(m)) {
+    const cause = m.kind === 'at_risk' ? causeInKey(m.uniqueKey) : null;
+    if (cause) {
+      // An alert for one cause across classes: written afresh for every class still at risk for it,
+      // so one class cancelled or fixed meanwhile does not drop the alert for the others.
+      const key = cause.join('+');
+      if (!groups.has(key)) groups.set(key, atRiskGroupFor(ctx, cause));
+      const fresh = await groups.get(key)!;
+      const to = fresh ? await alertRecipients() : [];
+      if (!fresh || !to.length) {
+        await ctx.outbox.markSkipped(m.id, fresh ? 'Not sent: there is no active reception or rigger account.' : 'Not sent: no class is at risk for this any more.');
+        summary.dropped += 1;
+        continue;
+      }
+      if (fresh.subject !== mail.subject || fresh.text !== mail.text || fresh.html !== mail.html || to.join() !== mail.to.join()) {
+        await ctx.outbox.rewrite(m.id, { to, ...fresh });
+        mail = { to, ...fresh };
+      }
+    } else if (watched.includes(m)) {
       const session = sessions.get(m.sessionId!);
       const why = staleBecause(m, session, clock.now());
       if (why) {

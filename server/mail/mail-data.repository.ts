@@ -131,6 +131,11 @@ export function mailDataRepository(db: Db) {
       return new Map(rows.map((r) => [r.id, toSession(r)]));
     },
 
+    /** Whether a live class still to end after `now` is booked on the point. */
+    async pointBookedAfter(pointId: number, now: Date, trx: Db = db): Promise<boolean> {
+      return Boolean(await trx('session_points').where({ point_id: pointId, cancelled: false }).where('ends_at', '>', now.toISOString()).first('session_id'));
+    },
+
     /** Booked point ids per session. */
     async pointIdsOf(sessionIds: number[], trx: Db = db): Promise<Map<number, number[]>> {
       const out = new Map<number, number[]>(sessionIds.map((id) => [id, []]));

@@ -1,5 +1,52 @@
 import { z } from 'zod';
 
+/**
+ * Every field message in the product's words, on both sides (this module loads with every schema):
+ * a schema's own message wins; anything it does not word reads like this, never like zod's
+ * defaults ("Too small: expected number to be >=1").
+ */
+function productMessage(iss: z.core.$ZodRawIssue): string | undefined {
+  const what = (origin: unknown) => (origin === 'array' || origin === 'set' ? 'items' : 'characters');
+  switch (iss.code) {
+    case 'invalid_type':
+      if (iss.input === undefined || iss.input === null || iss.input === '') return 'Required';
+      return iss.expected === 'number' || iss.expected === 'int' ? 'Enter a number' : iss.expected === 'boolean' ? 'Choose yes or no' : 'Check this value';
+    case 'too_small': {
+      const min = Number(iss.minimum);
+      if (iss.origin === 'number' || iss.origin === 'bigint') return iss.inclusive === false ? `Must be more than ${min}` : `Must be ${min} or more`;
+      if (iss.origin === 'date') return 'Pick a later date';
+      if (iss.origin === 'string' && min <= 1) return 'Required';
+      return `At least ${min} ${what(iss.origin)}`;
+    }
+    case 'too_big': {
+      const max = Number(iss.maximum);
+      if (iss.origin === 'number' || iss.origin === 'bigint') return iss.inclusive === false ? `Must be less than ${max}` : `Must be ${max} or less`;
+      if (iss.origin === 'date') return 'Pick an earlier date';
+      return `At most ${max} ${what(iss.origin)}`;
+    }
+    case 'invalid_format':
+      if (iss.format === 'email') return 'Enter an e-mail address, like name@example.com';
+      if (iss.format === 'date') return 'Enter a date';
+      if (iss.format === 'datetime') return 'Enter a date and time';
+      if (iss.format === 'url') return 'Enter a web address';
+      return 'Check the format';
+    case 'not_multiple_of':
+      return `Use steps of ${String(iss.divisor)}`;
+    case 'invalid_value':
+      return 'Pick one of the options';
+    case 'unrecognized_keys':
+      return `Not expected here: ${iss.keys.join(', ')}`;
+    case 'invalid_union':
+    case 'invalid_key':
+    case 'invalid_element':
+    case 'custom':
+      return 'Check this value';
+    default:
+      return undefined;
+  }
+}
+z.config({ customError: productMessage });
+
 export const idSchema = z.coerce.number({ message: 'Must be a number' }).int('Must be a whole number').positive('Must be a positive id').max(2 ** 31 - 1, 'Id is too large');
 export const idParams = z.object({ id: idSchema });
 /** An ISO 8601 instant with an offset (or Z), as the wire carries it. */

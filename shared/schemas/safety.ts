@@ -29,7 +29,8 @@ export const gearInspectionBodySchema = z.object({ kind: z.enum(['periodic', 'af
 export type GearInspectionBody = z.infer<typeof gearInspectionBodySchema>;
 
 export const preuseBodySchema = z.object({
-  items: z.array(z.object({ key: z.string().min(1).max(60), result: z.enum(['pass', 'fail']), note: note.optional() })).min(1).max(20),
+  // 'not_applicable' only for a row that offers it (the server checks); recorded as a pass noted "not applicable".
+  items: z.array(z.object({ key: z.string().min(1).max(60), result: z.enum(['pass', 'fail', 'not_applicable']), note: note.optional() })).min(1).max(20),
   sessionId: idSchema.optional(),
 });
 export type PreuseBody = z.infer<typeof preuseBodySchema>;

@@ -35,6 +35,11 @@ export const createSessionSchema = when
     skipDays: z.array(dateSchema).max(100).optional(),
     /** For a series some of whose occurrences cannot be booked: book the rest. */
     bookAvailable: z.boolean().optional(),
+    /**
+     * One per booking dialog opening: a repeat with the same key (a double click, a retry after a
+     * lost answer) answers the first booking instead of booking again.
+     */
+    idempotencyKey: z.string().trim().regex(/^[A-Za-z0-9_-]{8,100}$/, 'A request key is 8 to 100 letters, digits, - or _').optional(),
   })
   .superRefine(ordered);
 export type CreateSession = z.infer<typeof createSessionSchema>;
@@ -49,22 +54,44 @@ export type SessionListQuery = z.infer<typeof sessionListQuery>;
 
 export const scopeSchema = z.enum(['this', 'following']).default('this');
 export const updateSessionSchema = z
-  .object({ startsAt: instantSchema.optional(), endsAt: instantSchema.optional(), instructorId: idSchema.optional(), scope: scopeSchema })
+  .object({
+    startsAt: instantSchema.optional(),
+    endsAt: instantSchema.optional(),
+    instructorId: idSchema.optional(),
+    /** New points with the move, checked at the new time (a blocked point left behind in one step). */
+    pointIds: ids.optional(),
+    scope: scopeSchema,
+  })
   .superRefine(ordered)
-  .refine((v) => v.startsAt !== undefined || v.endsAt !== undefined || v.instructorId !== undefined, { message: 'Change the time or the instructor' });
+  .refine((v) => v.startsAt !== undefined || v.endsAt !== undefined || v.instructorId !== undefined || v.pointIds !== undefined, { message: 'Change the time, the points or the instructor' });
 export type UpdateSession = z.infer<typeof updateSessionSchema>;
 
 /**
  * Replace the booked points. With `roomId` (another room), the class moves to that room with
- * those points; every point must hang there. Without it the class keeps its room.
+ * those points; every point must hang there. Without it the class keeps its room. With
+ * `scope: "following"` every later class of the series takes the same points (and room).
  */
-export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional(), apparatus: apparatusChoices });
+export const swapPointsSchema = z.object({ pointIds: ids, roomId: idSchema.optional(), apparatus: apparatusChoices, scope: scopeSchema });
 export type SwapPoints = z.infer<typeof swapPointsSchema>;
+export type SwapPointsInput = z.input<typeof swapPointsSchema>;
 export const cancelSessionSchema = z.object({ reason: z.string().trim().min(1, 'Say why the class is cancelled').max(500), scope: scopeSchema });
 export type CancelSession = z.infer<typeof cancelSessionSchema>;
 
 export const availabilityQuery = when
-  .extend({ roomId: idSchema, classTypeId: idSchema, instructorId: idSchema.optional(), excludeSessionId: idSchema.optional() })
+  .extend({
+    roomId: idSchema,
+    classTypeId: idSchema,
+    instructorId: idSchema.optional(),
+    excludeSessionId: idSchema.optional(),
+    /** A series: every class of it is checked, not only the first (startsAt/endsAt are the first's). */
+    rrule: z.string().trim().min(6).max(300).optional(),
+    /** Studio days left out of the series, comma-separated YYYY-MM-DD. */
+    skipDays: z
+      .string()
+      .max(1200)
+      .regex(/^(\d{4}-\d{2}-\d{2})(,\d{4}-\d{2}-\d{2})*$/, 'Days as YYYY-MM-DD, separated by commas')
+      .optional(),
+  })
   .superRefine(ordered);
 export type AvailabilityQuery = z.infer<typeof availabilityQuery>;
 

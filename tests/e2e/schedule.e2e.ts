@@ -163,6 +163,8 @@ describe('reception books and fixes classes on the schedule', () => {
     await expect(dialog.getByText(/3 of 4 can take this class/).count()).resolves.toBe(1);
     await shotScreen(desk, 'schedule-2-lapsed-greyed');
     await dialog.getByRole('button', { name: 'Close' }).first().click();
+    // What was typed is thrown away only when the desk says so.
+    await desk.getByRole('dialog', { name: 'Discard this booking?' }).getByRole('button', { name: 'Discard what I typed' }).click();
     await dialog.waitFor({ state: 'hidden' });
 
     // The rigger inspects SE-3 on the Inspections page and signs it off.

@@ -85,6 +85,9 @@ async function start(port: number): Promise<ChildProcess> {
       SMTP_URL: sink.url,
       OUTBOX_LEASE_SECONDS: String(LEASE_SECONDS),
       OUTBOX_INTERVAL_SECONDS: String(INTERVAL_SECONDS),
+      // Moves tell at once here: within the undo window moves of a class are told as one (or not
+      // at all when undone), and this test counts one committed notice per acknowledged move.
+      MOVE_NOTICE_DELAY_SECONDS: '0',
     },
     stdio: ['ignore', 'ignore', 'pipe'],
   });

@@ -10,6 +10,7 @@ import { outboxRepository, retryDelayMs, MAX_ATTEMPTS } from '../../server/modul
 import { outboxService } from '../../server/modules/outbox/outbox.service';
 import { studioRepository } from '../../server/modules/studio/studio.repository';
 import { sessionChangeMessage } from '../../server/mail/templates/session-change';
+import { UNDO_WINDOW_MS } from '../../shared/schedule/undo';
 
 const FROM = 'Loftwise <no-reply@loftwise.test>';
 const HOUR = 3_600_000;
@@ -420,7 +421,114 @@ describe('at-risk alerts', () => {
     await w.runOnce();
     expect(received()).toHaveLength(2);
     expect(received()[1].text).toContain('Clamp bolt loose');
-    expect((await rows({ kind: 'at_risk' })).map((r) => String(r.unique_key).split(':').pop())).toEqual(['1', '2']);
+    // The count of alerts for this class and start, then the points the alert is about.
+    expect((await rows({ kind: 'at_risk' })).map((r) => String(r.unique_key).split(':cause:'))).toEqual([[expect.stringMatching(/:1$/), String(a.id)], [expect.stringMatching(/:2$/), String(a.id)]]);
+  });
+});
+
+describe('at-risk alerts, one per cause', () => {
+  const weekly = async (s: Studio, first: string, pointIds: number[], weeks: number) => {
+    const ids = [];
+    for (let w = 0; w < weeks; w++) ids.push(await book(s, new Date(new Date(first).getTime() + w * 7 * 24 * HOUR).toISOString(), pointIds));
+    return ids;
+  };
+
+  it('sends one alert per recipient for one fault under a weekly class, listing every date', async () => {
+    const s = await studio();
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const ids = await weekly(s, '2026-12-03T18:00:00Z', [a.id], 5);
+    const w = worker();
+    await w.runOnce();
+    await openFault({ gearId: a.gear[3], description: 'Bearing grinds' });
+    const summary = await w.runOnce();
+    expect(summary.atRiskAlerts).toBe(1);
+    // (The rigger's morning digest goes out in the same cycle; it is not an alert.)
+    const alerts = () => received().filter((m) => m.subject.startsWith('At risk'));
+    const mail = alerts();
+    expect(mail).toHaveLength(1);
+    expect(mail[0].to.sort()).toEqual([desk.email, rigger.email].sort());
+    expect(mail[0].subject).toBe('At risk: Silks Foundations in Main Hall, 5 classes from Thu 3 Dec');
+    for (const day of ['Thu 3 Dec', 'Thu 10 Dec', 'Thu 17 Dec', 'Thu 24 Dec', 'Thu 31 Dec']) expect(linesOf(mail[0].text)).toContain(`${day} 18:00–19:00  Silks Foundations, Main Hall, Ada Instructor`);
+    expect(mail[0].text.match(/Bearing grinds/g)).toHaveLength(1);
+    // Every date is flagged, so the next cycle says nothing more.
+    expect((await ctx.db('sessions').whereIn('id', ids).select('at_risk')).every((r) => Boolean(r.at_risk))).toBe(true);
+    await w.runOnce();
+    expect(alerts()).toHaveLength(1);
+  });
+
+  it('sends one alert per cause: a fault under one weekly class and a failed check under another make two, not one per date', async () => {
+    const s = await studio();
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const b = await point(s, 'B-1', '2026-11-29T10:00:00Z');
+    await weekly(s, '2026-12-03T18:00:00Z', [a.id], 4);
+    await weekly(s, '2026-12-04T18:00:00Z', [b.id], 4);
+    const w = worker();
+    await w.runOnce();
+    await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
+    await openFault({ pointId: b.id, description: 'Pre-use check failed: sling sheath cut' });
+    await w.runOnce();
+    const mail = received();
+    expect(mail).toHaveLength(2);
+    expect(mail.every((m) => m.to.join() === desk.email)).toBe(true);
+    expect(mail.map((m) => m.subject).sort()).toEqual(['At risk: Silks Foundations in Main Hall, 4 classes from Fri 4 Dec', 'At risk: Silks Foundations in Main Hall, 4 classes from Thu 3 Dec']);
+  });
+
+  it('still sends a waiting grouped alert when its first class is cancelled meanwhile, listing the classes still at risk', async () => {
+    const s = await studio();
+    await makeUser(ctx.db, { role: 'reception' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const [first] = await weekly(s, '2026-12-03T18:00:00Z', [a.id], 3);
+    const smtp = await smtpDown();
+    const w = worker();
+    await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
+    await w.runOnce();
+    await ctx.db('sessions').where({ id: first }).update({ cancelled: true });
+    const back = await smtp.back();
+    ctx.clock.advance(retryDelayMs(1));
+    expect((await w.runOnce()).sent).toBe(1);
+    const [mail] = received(back);
+    expect(mail.subject).toBe('At risk: Silks Foundations in Main Hall, 2 classes from Thu 10 Dec');
+    expect(mail.text).not.toContain('Thu 3 Dec');
+  });
+});
+
+describe('a fault reported through the API reaches the riggers', () => {
+  it('tells the riggers of a fault on a point with no booked class, which raises no at-risk alert', async () => {
+    const s = await studio();
+    const rigger = await makeUser(ctx.db, { role: 'rigger', name: 'Rory Rigger' });
+    await makeUser(ctx.db, { role: 'rigger', active: false });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const instructor = await as(ctx, 'instructor', { name: 'Ivy Instructor' });
+    expect((await instructor.post('/api/faults').send({ pointId: a.id, severity: 'medium', description: 'Sling sheath cut' })).status).toBe(201);
+    const summary = await worker().runOnce();
+    expect(summary.atRiskAlerts).toBe(0);
+    const notices = received().filter((m) => m.subject.startsWith('Fault'));
+    expect(notices).toHaveLength(1);
+    expect(notices[0].to).toEqual([rigger.email]);
+    expect(notices[0].subject).toBe('Fault on point A-1 (Main Hall): Sling sheath cut');
+    expect(linesOf(notices[0].text)).toContain('Reported by: Ivy Instructor');
+    expect(notices[0].text).toContain('No booked class uses this point');
+  });
+
+  it('tells the riggers of a high-severity fault even when booked classes raise an at-risk alert too; a medium one is left to the alert', async () => {
+    const s = await studio();
+    const rigger = await makeUser(ctx.db, { role: 'rigger' });
+    const desk = await makeUser(ctx.db, { role: 'reception' });
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const b = await point(s, 'B-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-03T18:00:00Z', [a.id]);
+    await book(s, '2026-12-04T18:00:00Z', [b.id]);
+    const instructor = await as(ctx, 'instructor');
+    await instructor.post('/api/faults').send({ gearId: a.gear[3], severity: 'high', description: 'Swivel seized' });
+    await instructor.post('/api/faults').send({ pointId: b.id, severity: 'medium', description: 'Paint flaking on beam' });
+    await worker().runOnce();
+    const subjects = received().map((m) => `${m.to.sort().join(',')} ${m.subject}`);
+    expect(subjects.filter((x) => x.includes('Fault'))).toEqual([expect.stringMatching(new RegExp(`^${rigger.email} Fault \\(high severity\\) on point A-1 \\(Main Hall\\): Swivel seized$`))]);
+    expect(subjects.filter((x) => x.includes('At risk'))).toHaveLength(2);
+    expect(subjects.filter((x) => x.includes('At risk')).every((x) => x.startsWith([desk.email, rigger.email].sort().join(',')))).toBe(true);
   });
 });
 
@@ -497,6 +605,8 @@ describe('instructor told of changes (outbox.notifySessionChange)', () => {
       await trx('sessions').where({ id }).update({ cancelled: true, cancel_reason: 'Roof repairs' });
       await outbox.sessionChanged(trx, { kind: 'cancelled', sessionId: id, before: { ...before, startsAt: '2026-12-06T18:00:00.000Z', endsAt: '2026-12-06T19:00:00.000Z' } });
     });
+    // A move is told once its undo window has passed.
+    ctx.clock.advance(UNDO_WINDOW_MS);
     await worker().runOnce();
     const mail = received();
     expect(mail.map((m) => m.subject)).toEqual(['Moved: Silks Foundations is now on Sun 6 Dec at 18:00 (was Sat 5 Dec at 18:00)', 'Cancelled: Silks Foundations on Sun 6 Dec at 18:00']);
@@ -533,6 +643,45 @@ describe('instructor told of changes (outbox.notifySessionChange)', () => {
   });
 });
 
+describe('a move undone within the undo window (the desk’s Undo after a drag)', () => {
+  async function movedClass() {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const desk = await as(ctx, 'reception');
+    const [ct] = [s.classTypeId];
+    const res = await desk.post('/api/sessions').send({ classTypeId: ct, instructorId: s.instructor.id, roomId: s.roomId, pointIds: [a.id], startsAt: '2026-12-05T18:00:00Z', endsAt: '2026-12-05T19:00:00Z' });
+    expect(res.status).toBe(201);
+    return { s, desk, id: res.body.id as number };
+  }
+  const moves = () => received().filter((m) => m.subject.startsWith('Moved'));
+
+  it('sends no “Moved” e-mail when the class is moved back within the window', async () => {
+    const { desk, id } = await movedClass();
+    const w = worker();
+    expect((await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-05T20:00:00Z', endsAt: '2026-12-05T21:00:00Z' })).status).toBe(200);
+    await w.runOnce();
+    ctx.clock.advance(5_000);
+    expect((await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-05T18:00:00Z', endsAt: '2026-12-05T19:00:00Z' })).status).toBe(200);
+    ctx.clock.advance(UNDO_WINDOW_MS);
+    await w.runOnce();
+    expect(moves()).toHaveLength(0);
+    expect((await rows({ kind: 'session_change' })).map((r) => r.state)).toEqual(['skipped']);
+  });
+
+  it('sends one “Moved” e-mail from the first time to the last when moved twice within the window, and only after it', async () => {
+    const { desk, id } = await movedClass();
+    const w = worker();
+    await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-05T20:00:00Z', endsAt: '2026-12-05T21:00:00Z' });
+    ctx.clock.advance(5_000);
+    await desk.patch(`/api/sessions/${id}`).send({ startsAt: '2026-12-06T18:00:00Z', endsAt: '2026-12-06T19:00:00Z' });
+    await w.runOnce();
+    expect(moves()).toHaveLength(0);
+    ctx.clock.advance(UNDO_WINDOW_MS);
+    await w.runOnce();
+    expect(moves().map((m) => m.subject)).toEqual(['Moved: Silks Foundations is now on Sun 6 Dec at 18:00 (was Sat 5 Dec at 18:00)']);
+  });
+});
+
 describe('mail templates', () => {
   it('escapes every value in the HTML and loads nothing remote', async () => {
     const mail = sessionChangeMessage({
@@ -564,6 +713,12 @@ describe('mail worker settings (OUTBOX_LEASE_SECONDS, OUTBOX_INTERVAL_SECONDS)',
   it('defaults to a 5-minute lease and a cycle every 15 seconds, and reads both in seconds', () => {
     expect(loadConfig(env)).toMatchObject({ outboxLeaseMs: LEASE_MS, outboxIntervalMs: 15_000 });
     expect(loadConfig({ ...env, OUTBOX_LEASE_SECONDS: '2', OUTBOX_INTERVAL_SECONDS: '1' })).toMatchObject({ outboxLeaseMs: 2_000, outboxIntervalMs: 1_000 });
+  });
+
+  it('holds a “Moved” e-mail for the desk’s undo window by default (MOVE_NOTICE_DELAY_SECONDS), and at once when set to 0', () => {
+    expect(loadConfig(env).moveNoticeDelayMs).toBe(UNDO_WINDOW_MS);
+    expect(loadConfig({ ...env, MOVE_NOTICE_DELAY_SECONDS: '0' }).moveNoticeDelayMs).toBe(0);
+    expect(() => loadConfig({ ...env, MOVE_NOTICE_DELAY_SECONDS: '601' })).toThrow(/MOVE_NOTICE_DELAY_SECONDS/);
   });
 
   it('refuses to start on a value that is not a whole number of seconds in range, naming each variable', () => {

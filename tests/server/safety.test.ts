@@ -193,6 +193,22 @@ describe('pre-use checks', () => {
     expect(failed.body.faultIds).toHaveLength(1);
     expect(codes(failed.body.status.reasons)).toContain('fault_open');
   });
+
+  it('takes “not applicable” on a row that offers it, recorded as such, and refuses it on any other row', async () => {
+    const instructor = await as(ctx, 'instructor');
+    const p = await makePoint(ctx.db);
+    await makeStandardPath(ctx.db, p.id);
+    const list = (await instructor.get(`/api/points/${p.id}/preuse`)).body.items as Array<{ key: string; notApplicable?: boolean }>;
+    expect(list.filter((i) => i.notApplicable).map((i) => i.key)).toEqual(['basket_clear']);
+    const answer = (naKey: string) => list.map((i) => ({ key: i.key, result: i.key === naKey ? 'not_applicable' : 'pass' }));
+    const refused = await instructor.post(`/api/points/${p.id}/preuse`).send({ items: answer('connectors_locked') });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.details.fields.items).toMatch(/^Not applicable is not offered for: Gate closed and locked on /);
+    const ok = await instructor.post(`/api/points/${p.id}/preuse`).send({ items: answer('basket_clear') });
+    expect(ok.status).toBe(201);
+    expect(ok.body.passed).toBe(true);
+    expect(await ctx.db('inspection_items').where({ inspection_id: ok.body.inspectionId, key: 'basket_clear' }).first('result', 'note')).toEqual({ result: 'pass', note: 'Not applicable' });
+  });
 });
 
 describe('audit trail', () => {

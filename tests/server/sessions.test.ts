@@ -78,6 +78,8 @@ describe('POST /api/sessions', () => {
     const reasons = codes(res.body.error.details.points[0].reasons);
     expect(reasons).toEqual(expect.arrayContaining(['too_many_performers', 'load_check_failed', 'point_double_booked']));
     expect(codes(res.body.error.details.reasons)).toEqual(['instructor_double_booked']);
+    // The clash names the instructor and the class they already teach then.
+    expect(res.body.error.details.reasons[0].message).toBe(`${(await ctx.db("users").where({ id: s.instructorId }).first("name")).name} already teaches Silks ${s.roomId} in ${(await ctx.db('rooms').where({ id: s.roomId }).first('name')).name}, 3 Dec 2026, 18:00–19:00`);
   });
 
   it('books a point whose clearance runs out before the session ends, with inspection_due', async () => {
@@ -106,6 +108,62 @@ describe('POST /api/sessions', () => {
     const instructor = await as(ctx, 'instructor');
     const s = await studioWithPoints(1);
     expect((await instructor.post('/api/sessions').send(body(s))).status).toBe(403);
+  });
+});
+
+describe('POST /api/sessions with an idempotency key', () => {
+  it('books once when the same booking is sent twice at once (a double click): both answer the one class, the repeat says so', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const key = 'dialog-0001-abcdef';
+    const [a, b] = await Promise.all([desk.post('/api/sessions').send(body(s, { idempotencyKey: key })), desk.post('/api/sessions').send(body(s, { idempotencyKey: key }))]);
+    expect([a.status, b.status]).toEqual([201, 201]);
+    expect(a.body.id).toBe(b.body.id);
+    expect([a.body.replayed, b.body.replayed].sort()).toEqual([false, true]);
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 1 }]);
+    expect(await ctx.db('audit_entries').where({ action: 'session.booked' }).count({ n: '*' })).toEqual([{ n: 1 }]);
+  });
+
+  it('answers a retry of a weekly series with the same classes, not "cannot be booked"', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const series = body(s, { rrule: 'FREQ=WEEKLY;COUNT=4', idempotencyKey: 'series-retry-0001' });
+    const first = await desk.post('/api/sessions').send(series);
+    const retry = await desk.post('/api/sessions').send(series);
+    expect(retry.status).toBe(201);
+    expect(retry.body.sessionIds).toEqual(first.body.sessionIds);
+    expect(retry.body.sessionIds).toHaveLength(4);
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 4 }]);
+  });
+
+  it('refuses the same key with a different booking, booking nothing more', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    expect((await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]], idempotencyKey: 'reused-key-0001' }))).status).toBe(201);
+    const other = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[1]], idempotencyKey: 'reused-key-0001' }));
+    expect(other.status).toBe(409);
+    expect(other.body.error.code).toBe('idempotency_key_reused');
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 1 }]);
+  });
+
+  it('keeps nothing for a refused booking: the same key books once the points are changed', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    await ctx.db('points').where({ id: s.points[0] }).update({ apparatus_json: JSON.stringify(['hoop']) });
+    expect((await desk.post('/api/sessions').send(body(s, { idempotencyKey: 'fix-and-retry-01' }))).status).toBe(409);
+    const fixed = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[1]], idempotencyKey: 'fix-and-retry-01' }));
+    expect(fixed.status).toBe(201);
+    expect(fixed.body.replayed).toBe(false);
+  });
+
+  it('does not answer one person’s key to another', async () => {
+    const desk = await as(ctx, 'reception');
+    const owner = await as(ctx, 'owner');
+    const s = await studioWithPoints(1);
+    expect((await desk.post('/api/sessions').send(body(s, { idempotencyKey: 'shared-key-00001' }))).status).toBe(201);
+    const res = await owner.post('/api/sessions').send(body(s, { idempotencyKey: 'shared-key-00001' }));
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('idempotency_key_reused');
   });
 });
 
@@ -323,6 +381,102 @@ describe('PUT /api/sessions/:id/points with roomId: moving a class to another ro
     expect(res.body).toMatchObject({ roomId: s.roomId, pointIds: [s.points[1]] });
     expect((await ctx.db('audit_entries').orderBy('id', 'desc').first('action')).action).toBe('session.points_swapped');
     expect((await ctx.db('outbox_messages').where({ session_id: booked.body.id }).first('subject')).subject).toMatch(/^Points changed:/);
+  });
+});
+
+describe('swapping a point for “this and the following” classes', () => {
+  const pointsOf = async (ids: number[]) => Promise.all(ids.map(async (id) => ((await ctx.db('session_points').where({ session_id: id }).select('point_id')) as Array<{ point_id: number }>).map((r) => r.point_id)));
+
+  it('gives this class and every later one of the series the new point; earlier classes keep theirs', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=4', pointIds: [s.points[0]] }));
+    const [first, second, third, fourth] = series.body.sessionIds;
+    const res = await desk.put(`/api/sessions/${second}/points`).send({ pointIds: [s.points[1]], scope: 'following' });
+    expect(res.status).toBe(200);
+    expect(await pointsOf([first, second, third, fourth])).toEqual([[s.points[0]], [s.points[1]], [s.points[1]], [s.points[1]]]);
+    const audit = await ctx.db('audit_entries').orderBy('id', 'desc').first('action', 'after_json');
+    expect(audit.action).toBe('session.points_swapped');
+    expect(JSON.parse(audit.after_json)).toMatchObject({ pointIds: [s.points[1]], sessionIds: [second, third, fourth] });
+  });
+
+  it('swaps this class only when asked for this class', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=3', pointIds: [s.points[0]] }));
+    const [first, second, third] = series.body.sessionIds;
+    expect((await desk.put(`/api/sessions/${first}/points`).send({ pointIds: [s.points[1]] })).status).toBe(200);
+    expect(await pointsOf([first, second, third])).toEqual([[s.points[1]], [s.points[0]], [s.points[0]]]);
+  });
+
+  it('swaps none when a later class cannot take the point, listing each refused class as a move does', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const series = await desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=WEEKLY;COUNT=3', pointIds: [s.points[0]] }));
+    const [first, second, third] = series.body.sessionIds;
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    // Someone else has the new point at the time of the third class.
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, pointIds: [s.points[1]], startsAt: '2026-12-17T18:00:00Z', endsAt: '2026-12-17T19:00:00Z' }))).status).toBe(201);
+    const refused = await desk.put(`/api/sessions/${first}/points`).send({ pointIds: [s.points[1]], scope: 'following' });
+    expect(refused.status).toBe(409);
+    const d = refused.body.error.details;
+    expect(d).toMatchObject({ bookable: 2, total: 3, sessionId: third, startsAt: '2026-12-17T18:00:00.000Z' });
+    expect(d.occurrences).toEqual([{ sessionId: third, startsAt: '2026-12-17T18:00:00.000Z', endsAt: '2026-12-17T19:00:00.000Z', points: [expect.objectContaining({ pointId: s.points[1] })], reasons: [] }]);
+    expect(codes(d.occurrences[0].points[0].reasons)).toEqual(['point_double_booked']);
+    expect(await pointsOf([first, second, third])).toEqual([[s.points[0]], [s.points[0]], [s.points[0]]]);
+  });
+});
+
+describe('GET /api/sessions/availability for a series', () => {
+  it('checks every class of the series: a point busy on a later date is not bookable, and the reason names that day', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    expect((await desk.post('/api/sessions').send(body(s, { instructorId: other.id, pointIds: [s.points[1]], startsAt: '2026-12-17T18:00:00Z', endsAt: '2026-12-17T19:00:00Z' }))).status).toBe(201);
+    const q = `roomId=${s.roomId}&classTypeId=${s.classTypeId}&startsAt=2026-12-03T18:00:00Z&endsAt=2026-12-03T19:00:00Z`;
+    const single = await desk.get(`/api/sessions/availability?${q}`);
+    expect(single.body.points.map((p: { bookable: boolean }) => p.bookable)).toEqual([true, true]);
+    const series = await desk.get(`/api/sessions/availability?${q}&rrule=${encodeURIComponent('FREQ=WEEKLY;COUNT=4')}`);
+    expect(series.status).toBe(200);
+    expect(series.body.classes).toBe(4);
+    const [a, b] = series.body.points;
+    expect(a.bookable).toBe(true);
+    expect(b.bookable).toBe(false);
+    expect(codes(b.reasons)).toEqual(['point_double_booked']);
+    expect(b.reasons[0].message).toMatch(/\(on 17 Dec 2026\)$/);
+    // Leaving that day out of the series frees the point again.
+    const skipped = await desk.get(`/api/sessions/availability?${q}&rrule=${encodeURIComponent('FREQ=WEEKLY;COUNT=4')}&skipDays=2026-12-17`);
+    expect(skipped.body.points[1].bookable).toBe(true);
+  });
+});
+
+describe('a class whose only point is blocked', () => {
+  it('moves to another time with a replacement point in one step, the blocked point left behind', async () => {
+    const desk = await as(ctx, 'reception');
+    const instructor = await as(ctx, 'instructor');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]] }));
+    expect((await instructor.post('/api/faults').send({ pointId: s.points[0], severity: 'high', description: 'Swivel grinds' })).status).toBe(201);
+    // Moving alone keeps the blocked point, so it is refused.
+    const alone = await desk.patch(`/api/sessions/${booked.body.id}`).send({ startsAt: '2026-12-04T18:00:00Z', endsAt: '2026-12-04T19:00:00Z' });
+    expect(alone.status).toBe(409);
+    const res = await desk.patch(`/api/sessions/${booked.body.id}`).send({ startsAt: '2026-12-04T18:00:00Z', endsAt: '2026-12-04T19:00:00Z', pointIds: [s.points[1]] });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ startsAt: '2026-12-04T18:00:00.000Z', pointIds: [s.points[1]], atRisk: false });
+    const sp = await ctx.db('session_points').where({ session_id: booked.body.id }).select('point_id', 'starts_at');
+    expect(sp).toEqual([{ point_id: s.points[1], starts_at: '2026-12-04T18:00:00.000Z' }]);
+  });
+
+  it('frees the blocked point of a class with others: the class keeps the rest and is calm again', async () => {
+    const desk = await as(ctx, 'reception');
+    const instructor = await as(ctx, 'instructor');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s));
+    await instructor.post('/api/faults').send({ pointId: s.points[0], severity: 'high', description: 'Swivel grinds' });
+    expect((await desk.get(`/api/sessions/${booked.body.id}`)).body.atRisk).toBe(true);
+    const res = await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [s.points[1]] });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ pointIds: [s.points[1]], atRisk: false, places: 1 });
   });
 });
 

@@ -1,20 +1,28 @@
 import { button, clockTime, esc, facts, heading, itemList, oneLine, page, paragraph, shortDay, textFooter, when, type RenderedMail } from './layout';
 
-export interface AtRiskInput {
-  studioName: string;
-  timeZone: string;
-  appUrl: string;
+export interface AtRiskClass {
   className: string;
   roomName: string;
   instructorName: string;
   startsAt: Date;
   endsAt: Date;
-  /** Each affected point with the reasons it puts the session at risk. */
+}
+
+export interface AtRiskInput {
+  studioName: string;
+  timeZone: string;
+  appUrl: string;
+  /** The classes at risk for this one cause, earliest first (one, or every date of a series …). */
+  classes: AtRiskClass[];
+  /** Each affected point with the reasons it puts the classes at risk. */
   points: Array<{ label: string; reasons: string[] }>;
 }
 
-/** PRODUCT.md §5: reception and riggers are told when a booked session turns at risk. */
-export function atRiskMessage(i: AtRiskInput): RenderedMail {
+/** PRODUCT.md §5: reception and riggers are told when a booked session turns at risk; one message per cause. */
+export function atRiskMessage(input: AtRiskInput): RenderedMail {
+  if (input.classes.length > 1) return manyAtRisk(input);
+  const [c] = input.classes;
+  const i = { ...input, ...c };
   const tz = i.timeZone;
   const link = `${i.appUrl}/schedule`;
   const whenShort = `on ${shortDay(i.startsAt, tz)} at ${clockTime(i.startsAt, tz)}`;
@@ -49,6 +57,47 @@ export function atRiskMessage(i: AtRiskInput): RenderedMail {
       paragraph(`A booked class is at risk: one or more of its points will not be usable as things stand.`),
       facts(rows),
       heading('What puts it at risk'),
+      itemList(i.points.map((p) => ({ title: p.label, details: p.reasons }))),
+      paragraph(advice),
+      button(link, 'Open the schedule'),
+      `<p style="margin:0;font-size:13px;color:#56666a;word-break:break-all;">${esc(link)}</p>`,
+    ].join(''),
+  });
+  return { subject, text, html };
+}
+
+/** Several classes at risk for one cause: the dates listed, the cause once. */
+function manyAtRisk(i: AtRiskInput): RenderedMail {
+  const tz = i.timeZone;
+  const link = `${i.appUrl}/schedule`;
+  const [first] = i.classes;
+  const n = i.classes.length;
+  const sameClass = i.classes.every((c) => c.className === first.className && c.roomName === first.roomName);
+  const subject = oneLine(sameClass ? `At risk: ${first.className} in ${first.roomName}, ${n} classes from ${shortDay(first.startsAt, tz)}` : `At risk: ${n} classes from ${shortDay(first.startsAt, tz)}`);
+  const line = (c: AtRiskClass) => `${shortDay(c.startsAt, tz)} ${clockTime(c.startsAt, tz)}–${clockTime(c.endsAt, tz)}  ${c.className}, ${c.roomName}, ${c.instructorName}`;
+  const advice = 'A rigger can resolve the problem or clear the point; reception can move the classes to another point (the schedule suggests replacements, for this and the following classes).';
+  const text = [
+    `${n} booked classes are at risk for the same reason.`,
+    '',
+    'Classes:',
+    ...i.classes.map(line),
+    '',
+    'What puts them at risk:',
+    ...i.points.flatMap((p) => p.reasons.map((r) => `${p.label}  ${r}`)),
+    '',
+    advice,
+    link,
+    ...textFooter(i.studioName, true),
+  ].join('\n');
+  const html = page({
+    title: subject,
+    studioName: i.studioName,
+    caution: true,
+    body: [
+      paragraph(`${n} booked classes are at risk for the same reason: one or more of their points will not be usable as things stand.`),
+      heading('Classes'),
+      itemList(i.classes.map((c) => ({ title: `${shortDay(c.startsAt, tz)} ${clockTime(c.startsAt, tz)}–${clockTime(c.endsAt, tz)}`, details: [`${c.className}, ${c.roomName}, ${c.instructorName}`] }))),
+      heading('What puts them at risk'),
       itemList(i.points.map((p) => ({ title: p.label, details: p.reasons }))),
       paragraph(advice),
       button(link, 'Open the schedule'),

@@ -8,12 +8,17 @@ import { voidClearance } from '../rig/clearance-voids';
 import type { CreateFault, FaultListQuery, ResolveFault } from '../../../shared/schemas/safety';
 import type { FaultsRepository } from './faults.repository';
 
+/** Told inside the transaction that opens a fault, so its notice is queued with it or not at all. */
+export interface FaultNotifier {
+  faultOpened(trx: Db, f: { faultId: number; pointId: number | null; gearId: number | null; severity: string; description: string; reportedBy: number }): Promise<unknown>;
+}
+
 export interface FaultEvents {
   /** Told after a fault is opened, outside the transaction (at-risk alerts follow from it). */
   faultOpened?(faultId: number): Promise<void> | void;
 }
 
-export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: RigRepository; audit: AuditRepository; docs: DocumentsService; clock: Clock; events?: FaultEvents }) {
+export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: RigRepository; audit: AuditRepository; docs: DocumentsService; clock: Clock; events?: FaultEvents; notifier?: FaultNotifier }) {
   const { db, faults, rig, audit, docs, clock } = deps;
 
   /** Opens a fault inside `trx`: it blocks at once and voids the clearance of the point it concerns. */
@@ -35,6 +40,7 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
     }
     for (const p of affected) await voidClearance(trx, { rig, audit }, { pointId: p, at: now, actorId: f.reportedBy, why: { reason: 'fault_opened', source: `fault #${id}` } });
     await audit.record(trx, { actorId: f.reportedBy, action: 'fault.opened', entity: 'fault', entityId: id, after: { pointId, gearId: f.gearId ?? null, severity: f.severity, description: f.description } }, now);
+    await deps.notifier?.faultOpened(trx, { faultId: id, pointId, gearId: f.gearId ?? null, severity: f.severity, description: f.description, reportedBy: f.reportedBy });
     return id;
   }
 

@@ -174,6 +174,8 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
         const list = preuseChecklist(b.snapshot.links);
         matchItems(list, body.items);
         const labels = new Map<string, string>(list.map((i) => [i.key, i.label]));
+        const notApplicable = body.items.filter((i) => i.result === 'not_applicable' && !list.find((l) => l.key === i.key)?.notApplicable);
+        if (notApplicable.length) throw new HttpError(400, 'invalid_request', 'Only the rows that offer it can be answered “not applicable”.', { source: 'body', fields: { items: `Not applicable is not offered for: ${notApplicable.map((i) => labels.get(i.key)).join('; ')}` } });
         const failed = body.items.filter((i) => i.result === 'fail');
         const atSigning = statusWhenSigned(pointStatusAt(b.snapshot, policy, now), failed.map((f) => labels.get(f.key)!));
         const inspectionId = await repo.insert(
@@ -188,7 +190,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
             cleared: false,
             clearedUntil: null,
             pointStatus: atSigning,
-            items: body.items.map((i) => ({ key: i.key, label: labels.get(i.key)!, result: i.result, note: i.note ?? '' })),
+            items: body.items.map((i) => (i.result === 'not_applicable' ? { key: i.key, label: labels.get(i.key)!, result: 'pass' as const, note: 'Not applicable' } : { key: i.key, label: labels.get(i.key)!, result: i.result, note: i.note ?? '' })),
           },
           now,
           trx,

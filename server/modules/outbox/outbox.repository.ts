@@ -4,7 +4,7 @@ import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 import { outboxStates } from '../../../shared/schemas/outbox';
 export { outboxStates };
 export type OutboxState = (typeof outboxStates)[number];
-export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest';
+export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest' | 'fault';
 
 export interface OutboxRow {
   id: number;
@@ -175,6 +175,20 @@ export function outboxRepository(db: Db) {
     /** What a row will be sent as, when it is written afresh at sending time. */
     async rewrite(id: number, mail: { to: string[]; subject: string; text: string; html: string }): Promise<void> {
       await db('outbox_messages').where({ id, state: 'sending' }).update({ recipients_json: JSON.stringify(mail.to), subject: mail.subject, text_body: mail.text, html_body: mail.html });
+    },
+    /** Queued rows whose key starts with `prefix` and that are not due before `after` (still waiting). */
+    async waitingWithPrefix(prefix: string, after: Date, trx: Db = db): Promise<Array<{ id: number; uniqueKey: string }>> {
+      const escaped = prefix.replace(/[\\%_]/g, (c) => `\\${c}`);
+      const rows = (await trx('outbox_messages')
+        .whereRaw("unique_key LIKE ? ESCAPE '\\'", [`${escaped}%`])
+        .where('state', 'queued')
+        .where('next_attempt_at', '>', after.toISOString())
+        .orderBy('id')
+        .select('id', 'unique_key')) as Array<{ id: number; unique_key: string }>;
+      return rows.map((r) => ({ id: r.id, uniqueKey: r.unique_key }));
+    },
+    async skipWaiting(ids: number[], why: string, trx: Db = db): Promise<void> {
+      if (ids.length) await trx('outbox_messages').whereIn('id', ids).where('state', 'queued').update({ state: 'skipped', last_error: why });
     },
     async markSkipped(id: number, why: string): Promise<void> {
       await db('outbox_messages').where({ id }).update({ state: 'skipped', lease_until: null, last_error: why });

@@ -8,6 +8,8 @@ import { pointStatusAt } from '../../../shared/clearance';
 import { mailDataRepository } from '../../mail/mail-data.repository';
 import { sessionChangeMessage, type SessionChangeKind } from '../../mail/templates/session-change';
 import type { MailPoint } from '../../mail/templates/points';
+import { faultReportedMessage } from '../../mail/templates/fault-reported';
+import { UNDO_WINDOW_MS } from '../../../shared/schedule/undo';
 import { outboxRepository, type NewOutboxRow, type OutboxKind, type OutboxState } from './outbox.repository';
 
 /** A message to send: a new outbox row without the worker's own bookkeeping (`state`, `note`). */
@@ -28,8 +30,16 @@ export interface SessionChange {
   reason?: string | null;
 }
 
-export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string }) {
+/** The times a waiting "Moved" notice moved the class from, read from its key. */
+function movedFrom(uniqueKey: string): { startsAt: string; endsAt: string } | null {
+  const m = uniqueKey.match(/:from:([^/]+)\/(.+)$/);
+  return m ? { startsAt: m[1], endsAt: m[2] } : null;
+}
+const sameInstant = (a: string | Date, b: string | Date) => new Date(a).getTime() === new Date(b).getTime();
+
+export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string; undoWindowMs?: number }) {
   const { db, clock, studio, appUrl } = deps;
+  const undoWindowMs = deps.undoWindowMs ?? UNDO_WINDOW_MS;
   const repo = outboxRepository(db);
   const data = mailDataRepository(db);
   const rig = rigRepository(db);
@@ -57,6 +67,17 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     const at = change.at ?? clock.now();
     const session = await data.sessionById(change.sessionId, trx);
     if (!session) return 0;
+    if (change.kind === 'moved' && undoWindowMs > 0) {
+      // A move waits out the undo window. Another move of the class within it replaces the waiting
+      // notice (told from the first time to the latest); a move back to where it was sends nothing.
+      const waiting = await repo.waitingWithPrefix(`change:${session.id}:moved:`, at, trx);
+      const from = waiting.map((w) => movedFrom(w.uniqueKey)).find((f) => f !== null);
+      if (waiting.length) await repo.skipWaiting(waiting.map((w) => w.id), 'Not sent: the move was undone or changed again within the undo window.', trx);
+      if (from) {
+        if (sameInstant(from.startsAt, session.startsAt) && sameInstant(from.endsAt, session.endsAt)) return 0;
+        change = { ...change, before: { ...change.before, startsAt: from.startsAt, endsAt: from.endsAt } };
+      }
+    }
     const { name: studioName, policy } = await studio.get(trx);
     const startsAt = new Date(session.startsAt);
     const endsAt = new Date(session.endsAt);
@@ -101,21 +122,64 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
         reason: change.kind === 'cancelled' ? (change.reason ?? session.cancelReason) : undefined,
         assignment: r.assignment,
       });
+      const moved = change.kind === 'moved';
       const added = await enqueue(trx, {
         kind: 'session_change',
-        uniqueKey: `change:${session.id}:${change.kind}:${at.toISOString()}:${r.id}:${state}`,
+        // A move's key keeps the times it moved from, so a later move within the undo window can tell it.
+        uniqueKey: `change:${session.id}:${change.kind}:${at.toISOString()}:${r.id}:${state}${moved ? `:from:${new Date(change.before.startsAt).toISOString()}/${new Date(change.before.endsAt).toISOString()}` : ''}`,
         to: [r.email],
         ...mail,
         sessionId: session.id,
+        ...(moved && undoWindowMs > 0 ? { notBefore: new Date(at.getTime() + undoWindowMs) } : {}),
       });
       if (added) queued += 1;
     }
     return queued;
   }
 
+  /**
+   * A fault just opened, told to the active riggers when nothing else would tell them: the point
+   * has no booked class ahead (so no at-risk alert follows), or the fault is of high severity
+   * (always). In the caller's transaction, so the notice exists exactly when the fault does.
+   */
+  async function faultOpened(trx: Db, f: { faultId: number; pointId: number | null; gearId: number | null; severity: string; description: string; reportedBy: number }): Promise<boolean> {
+    const at = clock.now();
+    const gear = f.gearId !== null ? await rig.gearById(f.gearId, trx) : null;
+    const pointId = f.pointId ?? gear?.pointId ?? null;
+    const point = pointId !== null ? await rig.pointById(pointId, trx) : null;
+    const booked = pointId !== null && (await data.pointBookedAfter(pointId, at, trx));
+    const why = !booked ? 'no_booked_class' : f.severity === 'high' ? 'high_severity' : null;
+    if (!why) return false;
+    const { name: studioName, policy } = await studio.get(trx);
+    const reporter = await data.userById(f.reportedBy, trx);
+    const to = (await data.activeStaff(['rigger'], trx)).map((u) => u.email);
+    const mail = faultReportedMessage({
+      studioName,
+      timeZone: policy.timeZone,
+      appUrl,
+      faultId: f.faultId,
+      pointLabel: point?.label ?? null,
+      roomName: point?.roomName || null,
+      gearSerial: gear?.serial ?? null,
+      severity: f.severity,
+      description: f.description,
+      reportedBy: reporter?.name ?? 'someone',
+      reportedAt: at,
+      why,
+    });
+    return enqueue(trx, {
+      kind: 'fault',
+      uniqueKey: `fault:${f.faultId}`,
+      to,
+      ...mail,
+      ...(to.length ? {} : { state: 'skipped' as const, note: 'Nobody to tell: there is no active rigger account.' }),
+    } as EnqueueInput);
+  }
+
   return {
     enqueue,
     notifySessionChange,
+    faultOpened,
     /** The same, under the name the sessions service's SessionNotifier expects: pass `notifier: outbox`. */
     async sessionChanged(trx: Db, change: SessionChange): Promise<void> {
       await notifySessionChange(trx, change);

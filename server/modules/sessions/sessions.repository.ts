@@ -137,14 +137,17 @@ export function sessionsRepository(db: Db) {
       if (excludeSessionIds.length) q.whereNotIn('session_id', excludeSessionIds);
       return new Set(((await q) as Array<{ point_id: number }>).map((r) => r.point_id));
     },
-    async instructorBusy(instructorId: number, start: Date, end: Date, excludeSessionIds: number[], trx: Db): Promise<boolean> {
-      const q = trx('sessions')
-        .where({ instructor_id: instructorId, cancelled: false })
-        .where('starts_at', '<', end.toISOString())
-        .where('starts_at', '>', new Date(start.getTime() - MAX_SESSION_MS).toISOString())
-        .where('ends_at', '>', start.toISOString());
-      if (excludeSessionIds.length) q.whereNotIn('id', excludeSessionIds);
-      return Boolean(await q.first('id'));
+    /** The instructor's first live session overlapping [start, end), if any: the clash named in words. */
+    async instructorClash(instructorId: number, start: Date, end: Date, excludeSessionIds: number[], trx: Db): Promise<{ className: string; instructorName: string; roomName: string; startsAt: string; endsAt: string } | null> {
+      const q = base(trx)
+        .where({ 'sessions.instructor_id': instructorId, 'sessions.cancelled': false })
+        .where('sessions.starts_at', '<', end.toISOString())
+        .where('sessions.starts_at', '>', new Date(start.getTime() - MAX_SESSION_MS).toISOString())
+        .where('sessions.ends_at', '>', start.toISOString())
+        .orderBy('sessions.starts_at');
+      if (excludeSessionIds.length) q.whereNotIn('sessions.id', excludeSessionIds);
+      const row = (await q.first()) as Row | undefined;
+      return row ? { className: row.class_name, instructorName: row.instructor_name, roomName: row.room_name, startsAt: row.starts_at, endsAt: row.ends_at } : null;
     },
     async insertSeries(rrule: string, at: Date, trx: Db) {
       const [row] = await trx('series').insert({ rrule, created_at: at.toISOString() }).returning('id');
@@ -185,6 +188,14 @@ export function sessionsRepository(db: Db) {
         await trx('session_points').where({ session_id: id }).update(sp);
         await trx('session_apparatus').where({ session_id: id }).update(sp);
       }
+    },
+    /** The kept result of an earlier request with this key, if any. */
+    async idempotentResult(route: string, key: string, trx: Db) {
+      const row = (await trx('idempotency_keys').where({ route, key }).first('actor_id', 'request_hash', 'result_json')) as { actor_id: number; request_hash: string; result_json: string } | undefined;
+      return row ? { actorId: row.actor_id, requestHash: row.request_hash, result: JSON.parse(row.result_json) as unknown } : null;
+    },
+    async keepIdempotentResult(r: { route: string; key: string; actorId: number; requestHash: string; result: unknown }, at: Date, trx: Db) {
+      await trx('idempotency_keys').insert({ route: r.route, key: r.key, actor_id: r.actorId, request_hash: r.requestHash, result_json: JSON.stringify(r.result), created_at: at.toISOString() });
     },
     async replacePoints(id: number, pointIds: number[], apparatus: ApparatusChoice[], startsAt: string, endsAt: string, trx: Db) {
       await trx('session_points').where({ session_id: id }).delete();

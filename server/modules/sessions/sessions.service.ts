@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { HttpError, conflict, notFound } from '../../http/errors';
@@ -9,7 +10,7 @@ import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf } from '.
 import { statusWire } from '../rig/rig.service';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { apparatusUnfitReasons, bookingReasons, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
+import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, formatStudioDay, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
@@ -18,7 +19,6 @@ import type { ApparatusChoice, SessionRecord, SessionsRepository } from './sessi
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 import { sessionRecords, type SessionPointRecord, type SessionRecords } from './session-records';
 import type { Writable } from 'node:stream';
-import { formatStudioDateTime } from '../../../shared/clearance';
 import type { InspectionLogFilters } from '../../../shared/schemas/safety';
 import { streamHeldCsv } from './classes-held-export';
 
@@ -34,6 +34,8 @@ interface Occurrence {
 }
 
 const MAX_RANGE_DAYS = 100;
+
+const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
 
 export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
@@ -128,7 +130,11 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const apparatus = hung ? { gearId: hung.id, kind: hung.kind, serial: hung.serial, changeover: hanging.changeover } : null;
       return { pointId, reasons, warnings: check.warnings, apparatus };
     });
-    const reasons: Reason[] = [...instructorReasons(await repo.instructorBusy(a.instructorId, a.occ.startsAt, a.occ.endsAt, a.exclude, trx))];
+    const clash = await repo.instructorClash(a.instructorId, a.occ.startsAt, a.occ.endsAt, a.exclude, trx);
+    // The rule's reason, named: which instructor, and which class they teach then.
+    const reasons: Reason[] = instructorReasons(clash !== null).map((r) =>
+      clash ? { ...r, message: `${clash.instructorName} already teaches ${clash.className} in ${clash.roomName}, ${formatStudioDateTime(new Date(clash.startsAt), a.policy.timeZone)}–${formatStudioDateTime(new Date(clash.endsAt), a.policy.timeZone).split(', ').pop()}` } : r,
+    );
     if (a.occ.endsAt.getTime() <= a.now.getTime()) reasons.push({ code: 'in_the_past', message: 'This class would already be over.' });
     return { points, reasons, ok: reasons.length === 0 && points.every((p) => p.reasons.length === 0) };
   }
@@ -242,31 +248,64 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       return view(s, await bundlesFor(s.pointIds), await loadRecorded(rig, [s], db), policy, now, undefined, kept);
     },
 
-    /** What the booking dialog asks: each point of the room, bookable or not for that exact time, with reasons. */
+    /**
+     * What the booking dialog asks: each point of the room, bookable or not for that exact time,
+     * with reasons. For a series (`rrule`), every class of it is checked: a point is bookable only
+     * if it can take every one, and a reason true of some dates only names them.
+     */
     async availability(q: AvailabilityQuery) {
       const { policy } = await studio.get();
       const classType = await classTypeOrThrow(q.classTypeId);
       const bundles = await bundlesFor('all');
       const roomPoints = [...bundles.values()].filter((b) => b.point.roomId === q.roomId).map((b) => b.point.id);
-      const result = await checkOccurrence(db, {
-        classType,
-        policy,
-        now: clock.now(),
-        roomId: q.roomId,
-        instructorId: q.instructorId ?? 0,
-        occ: { startsAt: new Date(q.startsAt), endsAt: new Date(q.endsAt) },
-        pointIds: roomPoints,
-        bundles,
-        exclude: q.excludeSessionId ? [q.excludeSessionId] : [],
-        eachAlone: true,
+      const first: Occurrence = { startsAt: new Date(q.startsAt), endsAt: new Date(q.endsAt) };
+      let occurrences = [first];
+      if (q.rrule) {
+        const duration = first.endsAt.getTime() - first.startsAt.getTime();
+        try {
+          occurrences = expandSeries(q.rrule, first.startsAt, policy.timeZone, { skipDays: q.skipDays?.split(',') }).map((s) => ({ startsAt: s, endsAt: new Date(s.getTime() + duration) }));
+        } catch (err) {
+          if (err instanceof RecurrenceError) throw new HttpError(400, 'invalid_request', err.message, { source: 'query', fields: { rrule: err.message } });
+          throw err;
+        }
+        if (!occurrences.length) occurrences = [first];
+      }
+      const now = clock.now();
+      const checks: Array<Awaited<ReturnType<typeof checkOccurrence>>> = [];
+      for (const occ of occurrences) {
+        checks.push((await checkOccurrence(db, { classType, policy, now, roomId: q.roomId, instructorId: q.instructorId ?? 0, occ, pointIds: roomPoints, bundles, exclude: q.excludeSessionId ? [q.excludeSessionId] : [], eachAlone: true })));
+      }
+      const day = (d: Date) => formatStudioDay(d, policy.timeZone);
+      /** Each reason once; one true of only some classes of a series names their days. */
+      const merge = (lists: Reason[][]) => {
+        const byMessage = new Map<string, { reason: Reason; on: Date[] }>();
+        lists.forEach((list, i) => {
+          for (const r of list) {
+            const e = byMessage.get(r.message) ?? { reason: r, on: [] };
+            e.on.push(occurrences[i].startsAt);
+            byMessage.set(r.message, e);
+          }
+        });
+        return [...byMessage.values()].map(({ reason, on }) =>
+          occurrences.length > 1 && on.length < occurrences.length ? { ...reason, message: `${reason.message} (${on.length === 1 ? 'on' : `${on.length} classes:`} ${on.slice(0, 4).map(day).join(', ')}${on.length > 4 ? ', …' : ''})` } : reason,
+        );
+      };
+      const points = roomPoints.map((pointId, i) => {
+        const reasons = merge(checks.map((c) => c.points[i].reasons));
+        return { pointId, label: bundles.get(pointId)!.point.label, bookable: reasons.length === 0, reasons, warnings: merge(checks.map((c) => c.points[i].warnings)), apparatus: checks[0].points[i].apparatus };
       });
+      const reasons = merge(checks.map((c) => c.reasons));
       return {
-        points: result.points.map((p) => ({ pointId: p.pointId, label: bundles.get(p.pointId)!.point.label, bookable: p.reasons.length === 0, reasons: p.reasons, warnings: p.warnings, apparatus: p.apparatus })),
-        reasons: q.instructorId ? result.reasons : result.reasons.filter((r) => r.code !== 'instructor_double_booked'),
+        points,
+        reasons: q.instructorId ? reasons : reasons.filter((r) => r.code !== 'instructor_double_booked'),
+        /** How many classes were checked (1, or every class of the series). */
+        classes: occurrences.length,
       };
     },
 
-    async create(body: CreateSession, actorId: number) {
+    async create(request: CreateSession, actorId: number) {
+      const { idempotencyKey, ...body } = request;
+      const requestHash = createHash('sha256').update(JSON.stringify(body)).digest('hex');
       const { policy } = await studio.get();
       const first: Occurrence = { startsAt: new Date(body.startsAt), endsAt: new Date(body.endsAt) };
       const duration = first.endsAt.getTime() - first.startsAt.getTime();
@@ -280,8 +319,18 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         }
         if (!occurrences.length) throw new HttpError(400, 'invalid_request', 'The repeat rule gives no classes.', { source: 'body', fields: { rrule: 'No occurrences' } });
       }
-      const created = await writeTransaction(db, async (trx) => {
+      type Created = { ids: number[]; seriesId: number | null; warnings: Array<Reason & { pointId: number; startsAt: string }>; skipped: unknown[]; replayed?: boolean };
+      const created = await writeTransaction(db, async (trx): Promise<Created> => {
         const now = clock.now();
+        // Looked up inside the write transaction: a second request with the key waits for the
+        // first to commit, then finds its result (one connection serialises the two).
+        if (idempotencyKey) {
+          const prior = await repo.idempotentResult('sessions.create', idempotencyKey, trx);
+          if (prior) {
+            if (prior.actorId !== actorId || prior.requestHash !== requestHash) throw conflict('idempotency_key_reused', 'This booking form already booked a different class. Close it and open a new one.');
+            return { ...(prior.result as Created), replayed: true };
+          }
+        }
         const classType = await classTypeOrThrow(body.classTypeId, trx);
         await checkInstructor(body.instructorId, trx);
         if (!(await rig.roomById(body.roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
@@ -308,10 +357,13 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const apparatus = checks.filter((x) => x.ok).map((x) => choicesOf(x.points));
         await audit.record(trx, { actorId, action: 'session.booked', entity: 'session', entityId: ids[0], after: { ...body, sessionIds: ids, apparatus } }, now);
         const warnings = checks.filter((c) => c.ok).flatMap((c) => c.points.flatMap((p) => p.warnings.map((w) => ({ ...w, pointId: p.pointId, startsAt: c.occ.startsAt.toISOString() }))));
-        return { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length).map(refusedPoint), reasons: c.reasons })) };
+        const result: Created = { ids, seriesId, warnings, skipped: refused.map((c) => ({ startsAt: c.occ.startsAt.toISOString(), points: c.points.filter((p) => p.reasons.length).map(refusedPoint), reasons: c.reasons })) };
+        if (idempotencyKey) await repo.keepIdempotentResult({ route: 'sessions.create', key: idempotencyKey, actorId, requestHash, result }, now, trx);
+        return result;
       });
       const firstSession = await this.get(created.ids[0]);
-      return { ...firstSession, warnings: created.warnings, seriesId: created.seriesId, sessionIds: created.ids, skipped: created.skipped };
+      // A repeat says so, so the desk can tell "booked by your first click" from a second booking.
+      return { ...firstSession, warnings: created.warnings, seriesId: created.seriesId, sessionIds: created.ids, skipped: created.skipped, replayed: created.replayed ?? false };
     },
 
     /** Move, stretch or change instructor, re-checked; `following` applies the same change to the rest of the series. */
@@ -326,14 +378,15 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const dEnd = patch.endsAt ? new Date(patch.endsAt).getTime() - new Date(s.endsAt).getTime() : dStart;
         if (patch.instructorId !== undefined) await checkInstructor(patch.instructorId, trx);
         const classType = await classTypeOrThrow(s.classTypeId, trx);
-        const bundles = await bundlesFor([...new Set(targets.flatMap((t) => t.pointIds))], trx);
+        const pointsOf = (t: SessionRecord) => patch.pointIds ?? t.pointIds;
+        const bundles = await bundlesFor([...new Set([...targets.flatMap((t) => t.pointIds), ...(patch.pointIds ?? [])])], trx);
         const exclude = targets.map((t) => t.id);
         // Every class is checked before any is written: a refusal names each one that cannot take the change.
         const checks = [];
         for (const t of targets) {
           const occ = { startsAt: new Date(new Date(t.startsAt).getTime() + dStart), endsAt: new Date(new Date(t.endsAt).getTime() + dEnd) };
           if (occ.endsAt <= occ.startsAt) throw new HttpError(400, 'invalid_request', 'The class must end after it starts.', { source: 'body', fields: { endsAt: 'Must be after the start' } });
-          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: t.pointIds, bundles, exclude, named: namedOf(t.recordedApparatus, true) })) });
+          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: pointsOf(t), bundles, exclude, named: namedOf(t.recordedApparatus, true) })) });
         }
         const refused = checks.filter((c) => !c.ok);
         if (refused.length) {
@@ -343,18 +396,25 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         }
         for (const { t, occ, points } of checks) {
           await repo.update(t.id, { startsAt: occ.startsAt, endsAt: occ.endsAt, instructorId: patch.instructorId }, now, trx);
-          // A move may need another item where the one recorded is taken at the new time.
-          await repo.replacePoints(t.id, t.pointIds, choicesOf(points), occ.startsAt.toISOString(), occ.endsAt.toISOString(), trx);
+          const newPoints = patch.pointIds && !samePoints(patch.pointIds, t.pointIds) ? patch.pointIds : null;
+          // A move may need another item where the one recorded is taken at the new time; new points go with it.
+          await repo.replacePoints(t.id, pointsOf(t), choicesOf(points), occ.startsAt.toISOString(), occ.endsAt.toISOString(), trx);
           const after = (await repo.byId(t.id, trx))!;
+          // One notice per class: a move that also changes points is told as the move (it names the points).
           if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
+          else if (newPoints) await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: t.id, before: t, after, at: now });
           if (patch.instructorId !== undefined && patch.instructorId !== t.instructorId) await deps.notifier?.sessionChanged(trx, { kind: 'instructor_changed', sessionId: t.id, before: t, after, at: now });
         }
-        await audit.record(trx, { actorId, action: dStart || dEnd ? 'session.moved' : 'session.instructor_changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId }, after: patch }, now);
+        await audit.record(trx, { actorId, action: dStart || dEnd ? 'session.moved' : patch.instructorId === undefined && patch.pointIds ? 'session.points_swapped' : 'session.instructor_changed', entity: 'session', entityId: id, before: { startsAt: s.startsAt, endsAt: s.endsAt, instructorId: s.instructorId, ...(patch.pointIds ? { pointIds: s.pointIds } : {}) }, after: patch }, now);
       });
       return this.get(id);
     },
 
-    /** Replace the points; with another `roomId` the class moves to that room on them. Same §4.4 checks either way. */
+    /**
+     * Replace the points; with another `roomId` the class moves to that room on them. Same §4.4
+     * checks either way. `following` gives every later class of the series the same points (and
+     * room), all or nothing, refused with the same shape as a move of the following classes.
+     */
     async swapPoints(id: number, body: SwapPoints, actorId: number) {
       const { pointIds } = body;
       const { policy } = await studio.get();
@@ -363,22 +423,38 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
         const roomId = body.roomId ?? s.roomId;
-        const changesRoom = roomId !== s.roomId;
-        if (changesRoom && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
+        if (roomId !== s.roomId && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
+        const following = body.scope === 'following' && s.seriesId !== null;
+        const targets = following ? await repo.bySeriesFrom(s.seriesId!, s.startsAt, trx) : [s];
         const classType = await classTypeOrThrow(s.classTypeId, trx);
         const bundles = await bundlesFor(pointIds, trx);
-        const named = new Map([...namedOf(s.recordedApparatus, true), ...namedOf(body.apparatus)]);
-        const c = await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: s.instructorId, occ: { startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) }, pointIds, bundles, exclude: [id], named });
-        if (!c.ok) refuse(c.points, c.reasons);
-        await repo.replacePoints(id, pointIds, choicesOf(c.points), s.startsAt, s.endsAt, trx);
-        await repo.update(id, changesRoom ? { roomId } : {}, now, trx);
-        const after = (await repo.byId(id, trx))!;
-        if (changesRoom) {
-          await deps.notifier?.sessionChanged(trx, { kind: 'room_changed', sessionId: id, before: s, after, at: now });
-          await audit.record(trx, { actorId, action: 'session.room_changed', entity: 'session', entityId: id, before: { roomId: s.roomId, pointIds: s.pointIds }, after: { roomId, pointIds } }, now);
+        const exclude = targets.map((t) => t.id);
+        const checks = [];
+        for (const t of targets) {
+          const occ = { startsAt: new Date(t.startsAt), endsAt: new Date(t.endsAt) };
+          const named = new Map([...namedOf(t.recordedApparatus, true), ...namedOf(body.apparatus)]);
+          checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId, instructorId: t.instructorId, occ, pointIds, bundles, exclude, named })) });
+        }
+        const refused = checks.filter((c) => !c.ok);
+        if (refused.length) {
+          const [first] = refused;
+          const series = following ? { occurrences: refused.map((c) => ({ sessionId: c.t.id, ...occurrenceOf(c) })), bookable: checks.length - refused.length, total: checks.length } : {};
+          refuse(first.points, first.reasons, { sessionId: first.t.id, startsAt: first.occ.startsAt.toISOString(), ...series });
+        }
+        for (const { t, points } of checks) {
+          const changesRoom = roomId !== t.roomId;
+          if (!changesRoom && samePoints(pointIds, t.pointIds) && !body.apparatus?.length) continue;
+          await repo.replacePoints(t.id, pointIds, choicesOf(points), t.startsAt, t.endsAt, trx);
+          await repo.update(t.id, changesRoom ? { roomId } : {}, now, trx);
+          const after = (await repo.byId(t.id, trx))!;
+          await deps.notifier?.sessionChanged(trx, { kind: changesRoom ? 'room_changed' : 'points_swapped', sessionId: t.id, before: t, after, at: now });
+        }
+        const sessionIds = following ? { sessionIds: targets.map((t) => t.id) } : {};
+        const chosen = choicesOf(checks[0].points);
+        if (roomId !== s.roomId) {
+          await audit.record(trx, { actorId, action: 'session.room_changed', entity: 'session', entityId: id, before: { roomId: s.roomId, pointIds: s.pointIds }, after: { roomId, pointIds, ...sessionIds } }, now);
         } else {
-          await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: id, before: s, after, at: now });
-          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: { pointIds: s.pointIds, apparatus: s.recordedApparatus }, after: { pointIds, apparatus: choicesOf(c.points) } }, now);
+          await audit.record(trx, { actorId, action: 'session.points_swapped', entity: 'session', entityId: id, before: { pointIds: s.pointIds, apparatus: s.recordedApparatus }, after: { pointIds, apparatus: chosen, ...sessionIds } }, now);
         }
       });
       return this.get(id);

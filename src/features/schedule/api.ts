@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api, ApiError } from '../../lib/api-client';
-import { classRecordPageSchema, pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession, type SwapPoints } from '../../../shared/schemas/sessions';
+import { classRecordPageSchema, pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession, type SwapPointsInput } from '../../../shared/schemas/sessions';
 import { classTypeSchema, type CreateClassType } from '../../../shared/schemas/class-types';
 import { reasonSchema, roomSchema } from '../../../shared/schemas/rig';
 
@@ -91,7 +91,7 @@ export function useScheduleMutations() {
     }),
     swapPoints: useMutation({
       // With `roomId` the class moves to that room on those points.
-      mutationFn: ({ id, ...body }: SwapPoints & { id: number }) => api(`/sessions/${id}/points`, { method: 'PUT', body, schema: sessionSchema }),
+      mutationFn: ({ id, ...body }: SwapPointsInput & { id: number }) => api(`/sessions/${id}/points`, { method: 'PUT', body, schema: sessionSchema }),
       onSettled: invalidate,
     }),
     cancel: useMutation({

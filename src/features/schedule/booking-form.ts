@@ -49,8 +49,15 @@ export function rruleOf(v: BookingForm, timeZone: string): string | undefined {
   return v.repeat === 'weekly' ? buildRrule({ kind: 'weekly', days: v.days, ends: v.ends, until: v.until, count: v.count }, timeZone) : undefined;
 }
 
+/** A fresh key for one opening of the booking dialog (random; works outside a secure context too). */
+export function newRequestKey(): string {
+  const bytes = new Uint8Array(16);
+  crypto.getRandomValues(bytes);
+  return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
+}
+
 /** The wire body, checked with the shared schema the server uses. */
-export function bookingBody(v: BookingForm, timeZone: string, bookAvailable = false): { ok: true; body: CreateSession } | { ok: false; message: string } {
+export function bookingBody(v: BookingForm, timeZone: string, bookAvailable = false, idempotencyKey?: string): { ok: true; body: CreateSession } | { ok: false; message: string } {
   const t = firstTimes(v, timeZone);
   if (!t) return { ok: false, message: 'Check the day and times.' };
   const rrule = rruleOf(v, timeZone);
@@ -62,6 +69,7 @@ export function bookingBody(v: BookingForm, timeZone: string, bookAvailable = fa
     endsAt: t.endsAt.toISOString(),
     pointIds: v.pointIds,
     ...(rrule ? { rrule, skipDays: v.skipDays.length ? v.skipDays : undefined, bookAvailable: bookAvailable || undefined } : {}),
+    idempotencyKey,
   });
   return parsed.success ? { ok: true, body: parsed.data } : { ok: false, message: parsed.error.issues[0]?.message ?? 'Check the form.' };
 }

@@ -14,6 +14,8 @@ function fmt(timeZone: string, key: string, o: Intl.DateTimeFormatOptions) {
 
 /** "Thu 3 Dec" in the studio's zone. */
 export const shortDay = (iso: string, timeZone: string) => fmt(timeZone, 'sd', { weekday: 'short', day: 'numeric', month: 'short' }).format(new Date(iso));
+/** "Thu 3 Dec 2026": a day with its year, for lists that may run past New Year. */
+export const dayWithYear = (iso: string, timeZone: string) => fmt(timeZone, 'sdy', { weekday: 'short', day: 'numeric', month: 'short', year: 'numeric' }).format(new Date(iso));
 /** "Thursday 3 December 2026" in the studio's zone. */
 export const longDay = (iso: string, timeZone: string) => fmt(timeZone, 'ld', { weekday: 'long', day: 'numeric', month: 'long', year: 'numeric' }).format(new Date(iso));
 /** "18:00" in the studio's zone. */
@@ -26,4 +28,5 @@ export const whenShort = (from: string, to: string, timeZone: string) => `${shor
 export const zoneAbbrev = (iso: string, timeZone: string) =>
   fmt(timeZone, 'tz', { timeZoneName: 'short' }).formatToParts(new Date(iso)).find((p) => p.type === 'timeZoneName')?.value ?? timeZone;
 
-export const placesText = (places: number, capacity: number) => `places ${places}/${capacity}`;
+/** "3 of 8 places usable": usable places (booked, unblocked points) against the class's capacity, never read as "3 taken". */
+export const placesText = (places: number, capacity: number) => `${places} of ${capacity} places usable`;

@@ -35,7 +35,8 @@ export function buildRrule(r: RepeatChoice, timeZone: string): string | undefine
   if (r.kind === 'none' || r.days.length === 0) return undefined;
   const order = weekdays.map((w) => w.code);
   const days = [...r.days].sort((a, b) => order.indexOf(a) - order.indexOf(b)).join(',');
-  if (r.ends === 'count') return `FREQ=WEEKLY;BYDAY=${days};COUNT=${r.count}`;
+  // No rule for a count the form refuses anyway: the preview then says so in words, not "COUNT=0".
+  if (r.ends === 'count') return Number.isInteger(r.count) && r.count >= 1 ? `FREQ=WEEKLY;BYDAY=${days};COUNT=${r.count}` : undefined;
   const endOfDay = instantFromWall(r.until, '23:59', timeZone);
   if (!endOfDay) return undefined;
   return `FREQ=WEEKLY;BYDAY=${days};UNTIL=${stamp(new Date(endOfDay.getTime() + 59_000))}`;

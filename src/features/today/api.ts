@@ -46,7 +46,7 @@ export const todaySchema = z.object({
 });
 export type Today = z.infer<typeof todaySchema>;
 
-export const preuseListSchema = z.object({ items: z.array(z.object({ key: z.string(), label: z.string() })) });
+export const preuseListSchema = z.object({ items: z.array(z.object({ key: z.string(), label: z.string(), notApplicable: z.boolean().optional() })) });
 export const preuseResultSchema = z.object({
   inspectionId: z.number(),
   passed: z.boolean(),

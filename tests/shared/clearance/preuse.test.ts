@@ -21,24 +21,37 @@ function link(id: number, kind: GearKind): LinkInput {
 
 const London = 'Europe/London';
 
-describe('preuseChecklist', () => {
+describe('preuseChecklist: built from the point’s load path', () => {
   it('asks about the swivel only where the path has one', () => {
     const withSwivel = [link(1, 'beam_clamp'), link(2, 'round_sling'), link(3, 'carabiner'), link(4, 'swivel'), link(5, 'fabric')];
-    expect(preuseChecklist(withSwivel).map((i) => i.key)).toEqual([
-      'connectors_locked',
-      'textile_unworn',
-      'swivel_turning',
-      'basket_clear',
-    ]);
+    expect(preuseChecklist(withSwivel).map((i) => i.key)).toEqual(['connectors_locked', 'textile_unworn', 'swivel_turning', 'basket_clear']);
     const withoutSwivel = [link(1, 'beam_clamp'), link(2, 'round_sling'), link(3, 'carabiner'), link(5, 'hoop')];
-    expect(preuseChecklist(withoutSwivel).map((i) => i.key)).toEqual(['connectors_locked', 'textile_unworn', 'basket_clear']);
+    expect(preuseChecklist(withoutSwivel).map((i) => i.key)).toEqual(['connectors_locked', 'textile_unworn', 'apparatus_sound', 'basket_clear']);
   });
 
-  it('gives every item a label in words, and connectors locked and gate down first', () => {
-    const items = preuseChecklist([link(1, 'carabiner'), link(2, 'swivel')]);
-    expect(items[0]).toEqual({ key: 'connectors_locked', label: 'Connectors locked and gate down' });
-    for (const item of items) expect(item.label.length).toBeGreaterThan(5);
+  it('names what each row is about: the gated connector, the textiles, the swivel, a hardware apparatus', () => {
+    const items = preuseChecklist([link(1, 'beam_clamp'), link(2, 'round_sling'), link(3, 'carabiner'), link(4, 'swivel'), link(5, 'fabric')]);
+    const label = (key: string) => items.find((i) => i.key === key)!.label;
+    expect(label('connectors_locked')).toMatch(/^Gate closed and locked on \S+ S-3$/);
+    expect(label('textile_unworn')).toMatch(/^No cuts, burns, snags or pulled threads on .+ S-2 and .+ S-5$/);
+    expect(label('swivel_turning')).toMatch(/S-4 turns freely/);
     expect(new Set(items.map((i) => i.key)).size).toBe(items.length);
+  });
+
+  it('has no gate row for a swivel or a beam clamp, nor for a connector without a gate', () => {
+    const clampAndSwivel = [link(1, 'beam_clamp'), link(4, 'swivel'), link(5, 'hoop')];
+    expect(preuseChecklist(clampAndSwivel).map((i) => i.key)).toEqual(['swivel_turning', 'apparatus_sound']);
+    const gateless = { ...link(3, 'carabiner'), gear: { ...link(3, 'carabiner').gear, gate: 'none' as const } };
+    expect(preuseChecklist([gateless]).map((i) => i.key)).toEqual(['basket_clear']);
+  });
+
+  it('offers “not applicable” on the basket row only', () => {
+    const items = preuseChecklist([link(1, 'beam_clamp'), link(2, 'round_sling'), link(3, 'carabiner'), link(5, 'fabric')]);
+    expect(items.filter((i) => i.notApplicable).map((i) => i.key)).toEqual(['basket_clear']);
+  });
+
+  it('still gives an empty path one row to look at', () => {
+    expect(preuseChecklist([]).map((i) => i.key)).toEqual(['apparatus_sound']);
   });
 });
 

@@ -47,8 +47,9 @@ export function PhotoPicker({ files, onChange, error }: { files: File[]; onChang
               <li key={`${f.name}-${i}`} className={`relative w-24 rounded-lg border bg-white p-1 text-xs ${problem ? 'border-stop-700' : 'border-line'}`}>
                 {previews[i] ? <img src={previews[i]!} alt="" className="h-20 w-full rounded object-cover" /> : <FileText className="mx-auto h-20 w-10 text-muted" aria-hidden />}
                 <p className="truncate" title={f.name}>{f.name}</p>
-                <button type="button" onClick={() => onChange(files.filter((_, j) => j !== i))} className="absolute -right-3 -top-3 flex size-11 items-center justify-center rounded-full border border-line bg-white text-ink shadow" aria-label={`Remove ${f.name}`}>
-                  <X className="size-4" aria-hidden />
+                {/* Below the preview, not over it: the photo stays fully visible while deciding. */}
+                <button type="button" onClick={() => onChange(files.filter((_, j) => j !== i))} className="mt-1 flex min-h-11 w-full items-center justify-center gap-1 rounded border border-line bg-white text-ink hover:bg-pine-50" aria-label={`Remove ${f.name}`}>
+                  <X className="size-4" aria-hidden /> Remove
                 </button>
               </li>
             );

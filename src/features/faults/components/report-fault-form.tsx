@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { useForm, type UseFormRegisterReturn } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -25,7 +25,7 @@ type FormValues = z.input<typeof formSchema>;
  * Report a fault on a point or a gear item (PRODUCT.md §3): anyone signed in may. With neither
  * given, the reporter picks the point. Every open fault blocks, whatever its severity.
  */
-export function ReportFaultForm({ pointId, gearId, onDone, onCancel }: { pointId?: number; gearId?: number; onDone?: (f: Fault) => void; onCancel?: () => void }) {
+export function ReportFaultForm({ pointId, gearId, onDone, onCancel, onDirty }: { pointId?: number; gearId?: number; onDone?: (f: Fault) => void; onCancel?: () => void; onDirty?: (dirty: boolean) => void }) {
   const fixed = pointId !== undefined || gearId !== undefined;
   const report = useReportFault();
   const [photos, setPhotos] = useState<File[]>([]);
@@ -38,6 +38,10 @@ export function ReportFaultForm({ pointId, gearId, onDone, onCancel }: { pointId
   );
   const form = useForm<FormValues>({ resolver: zodResolver(schema), defaultValues: { pointId: '', severity: undefined, description: '' } });
   const e = form.formState.errors;
+  // Whether closing would lose something typed or picked (told to a dialog that asks first); not after it is sent.
+  const description = form.watch('description');
+  const dirty = done === null && ((description ?? '').trim().length > 0 || photos.length > 0);
+  useEffect(() => onDirty?.(dirty), [dirty, onDirty]);
 
   const submit = form.handleSubmit((v) => {
     const bad = photos.map(photoProblem).find(Boolean);

@@ -25,7 +25,7 @@ export function AgendaList({
 }) {
   return (
     <section aria-labelledby="agenda-title" className="space-y-3">
-      <h2 id="agenda-title" className="text-lg font-semibold">
+      <h2 id="agenda-title" tabIndex={-1} className="text-lg font-semibold focus:outline-none">
         Agenda <span className="text-sm font-normal text-muted">· {rangeLabel}</span>
       </h2>
       {error ? <ErrorState error={error} retry={retry} /> : isPending || !sessions ? <Loading label="Loading classes…" /> : sessions.length === 0 ? (

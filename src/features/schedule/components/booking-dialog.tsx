@@ -10,7 +10,7 @@ import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError, errorMessage } from '../../../lib/api-client';
 import { conflictOf, useScheduleMutations, type Availability, type Conflict, type CreatedSessions } from '../api';
-import { bookingBody, bookingFormSchema, firstTimes, rruleOf, type BookingForm } from '../booking-form';
+import { bookingBody, bookingFormSchema, firstTimes, newRequestKey, rruleOf, type BookingForm } from '../booking-form';
 import { previewSeries, weekdays } from '../recurrence';
 import { apparatusLabel, whenShort, zoneAbbrev } from '../format';
 import { addMinutes, minutesOf, weekdayIndex } from '../zone';
@@ -31,28 +31,37 @@ export interface BookingPrefill {
 /** Server field names → the dialog's fields. */
 const fieldFor: Record<string, keyof BookingForm> = { classTypeId: 'classTypeId', instructorId: 'instructorId', roomId: 'roomId', startsAt: 'start', endsAt: 'end', pointIds: 'pointIds', rrule: 'days', skipDays: 'skipDays' };
 
-export function BookingDialog({ prefill, timeZone, onClose, onBooked }: { prefill: BookingPrefill | null; timeZone: string; onClose: () => void; onBooked: (s: CreatedSessions) => void }) {
+/**
+ * `onClose` is a request: the page asks before discarding what was typed (`onDirty` tells it
+ * whether anything was).
+ */
+export function BookingDialog({ prefill, timeZone, onClose, onBooked, onDirty }: { prefill: BookingPrefill | null; timeZone: string; onClose: () => void; onBooked: (s: CreatedSessions) => void; onDirty: (dirty: boolean) => void }) {
   // While a series' refusal is shown, its own two choices replace the Book button.
   const [choosing, setChoosing] = useState(false);
+  const { book } = useScheduleMutations();
   return (
     <Sheet open={prefill !== null} wide closeOnBackdrop={false} onClose={onClose} title="Book a class" description={`Day and times in the studio’s zone: ${timeZone} (${zoneAbbrev(new Date().toISOString(), timeZone)}).`}
       footer={
         <>
           <Button type="button" variant="secondary" onClick={onClose}>Close</Button>
-          {choosing ? null : <Button type="submit" form="booking-form">Book</Button>}
+          {choosing ? null : <Button type="submit" form="booking-form" busy={book.isPending}>{book.isPending ? 'Booking…' : 'Book'}</Button>}
         </>
       }
     >
-      {prefill ? <BookingBody prefill={prefill} timeZone={timeZone} onBooked={onBooked} onChoosing={setChoosing} /> : null}
+      {prefill ? <BookingBody prefill={prefill} timeZone={timeZone} book={book} onBooked={onBooked} onChoosing={setChoosing} onDirty={onDirty} /> : null}
     </Sheet>
   );
 }
 
-function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: BookingPrefill; timeZone: string; onBooked: (s: CreatedSessions) => void; onChoosing: (on: boolean) => void }) {
+function BookingBody({ prefill, timeZone, book, onBooked, onChoosing, onDirty }: { prefill: BookingPrefill; timeZone: string; book: ReturnType<typeof useScheduleMutations>['book']; onBooked: (s: CreatedSessions) => void; onChoosing: (on: boolean) => void; onDirty: (dirty: boolean) => void }) {
   const classTypes = useClassTypes();
   const rooms = useRooms();
   const instructors = useQuery(staffQueries.instructors());
-  const { book } = useScheduleMutations();
+  // One key per opening of the dialog: a repeat of this booking (a double click, a retry after a
+  // lost answer) is answered with the first one by the server instead of booking twice.
+  const [requestKey] = useState(newRequestKey);
+  // Set before the first await, so a second click in the same instant sends nothing.
+  const inFlight = useRef(false);
   const [addingType, setAddingType] = useState(false);
   const [series, setSeriesState] = useState<Conflict | null>(null);
   const setSeries = (c: Conflict | null) => {
@@ -72,6 +81,9 @@ function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: Boo
   const { register, watch, setValue, getValues, formState } = form;
   const e = formState.errors;
   const v = watch();
+  const dirty = formState.isDirty || v.pointIds.length > 0;
+  useEffect(() => onDirty(dirty), [dirty, onDirty]);
+  useEffect(() => () => onDirty(false), [onDirty]);
   const duration = useRef((minutesOf(v.end) ?? 0) - (minutesOf(v.start) ?? 0) || 60);
 
   // A class type added here is selected once its option is in the list (a select cannot pick a missing option).
@@ -87,10 +99,17 @@ function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: Boo
   const rule = rruleOf(v, timeZone);
   const first = firstTimes(v, timeZone);
   const preview = useMemo(() => (rule && first ? previewSeries(rule, first.startsAt, timeZone, v.skipDays) : null), [rule, first?.startsAt.getTime(), timeZone, v.skipDays.join()]); // eslint-disable-line react-hooks/exhaustive-deps
-  // Availability is for the first class; a series' later classes are checked when booking.
+  // Availability covers every class of a series, not only the first.
   const firstStart = v.repeat === 'weekly' ? preview?.starts[0] : first?.startsAt;
   const query = classType && v.roomId && first && firstStart
-    ? { roomId: Number(v.roomId), classTypeId: classType.id, startsAt: firstStart.toISOString(), endsAt: new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(), instructorId: v.instructorId ? Number(v.instructorId) : undefined }
+    ? {
+        roomId: Number(v.roomId),
+        classTypeId: classType.id,
+        startsAt: firstStart.toISOString(),
+        endsAt: new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(),
+        instructorId: v.instructorId ? Number(v.instructorId) : undefined,
+        ...(rule && v.repeat === 'weekly' ? { rrule: rule, skipDays: v.skipDays.length ? v.skipDays.join(',') : undefined } : {}),
+      }
     : null;
 
   const onLoaded = useCallback((a: Availability) => {
@@ -101,10 +120,17 @@ function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: Boo
   }, [getValues, setValue]);
 
   const send = (values: BookingForm, bookAvailable = false) => {
-    const built = bookingBody(values, timeZone, bookAvailable);
-    if (!built.ok) return toast.error(built.message);
+    const built = bookingBody(values, timeZone, bookAvailable, requestKey);
+    if (!built.ok) {
+      inFlight.current = false;
+      return toast.error(built.message);
+    }
+    inFlight.current = true;
     setRefusal(null);
     book.mutate(built.body, {
+      onSettled: () => {
+        inFlight.current = false;
+      },
       onSuccess: (created) => {
         setSeries(null);
         onBooked(created);
@@ -123,9 +149,18 @@ function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: Boo
   return (
     <>
       {series ? (
-        <SeriesConflict conflict={series} labelOf={(id) => labels.current.get(id)} timeZone={timeZone} busy={book.isPending} onBookOthers={() => send(getValues(), true)} onBack={() => setSeries(null)} />
+        <SeriesConflict conflict={series} labelOf={(id) => labels.current.get(id)} timeZone={timeZone} busy={book.isPending} onBookOthers={() => { if (!inFlight.current) send(getValues(), true); }} onBack={() => setSeries(null)} />
       ) : null}
-      <form id="booking-form" hidden={series !== null} noValidate onSubmit={form.handleSubmit((values) => send(values))} className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
+      <form
+        id="booking-form"
+        hidden={series !== null}
+        noValidate
+        onSubmit={(ev) => {
+          if (inFlight.current) return ev.preventDefault();
+          inFlight.current = true;
+          void form.handleSubmit((values) => send(values), () => { inFlight.current = false; })(ev);
+        }}
+        className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <div className="space-y-4">
           {refusal ? <ConflictView title="Not booked: some points cannot take this class at that time." lines={refusal} /> : null}
           <div className="flex items-end gap-2">
@@ -216,7 +251,7 @@ function BookingBody({ prefill, timeZone, onBooked, onChoosing }: { prefill: Boo
             onChange={(ids) => setValue('pointIds', ids, { shouldValidate: formState.isSubmitted })}
             onLoaded={onLoaded}
             error={e.pointIds?.message}
-            note={firstStart && first ? `For ${whenShort(firstStart.toISOString(), new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(), timeZone)}${v.repeat === 'weekly' ? ', the first class; each later class is checked when you book' : ''}.` : undefined}
+            note={firstStart && first ? `For ${whenShort(firstStart.toISOString(), new Date(firstStart.getTime() + first.endsAt.getTime() - first.startsAt.getTime()).toISOString(), timeZone)}${v.repeat === 'weekly' && preview ? ` and every class after it (${preview.starts.length} in all)` : ''}.` : undefined}
           />
           {classType && v.pointIds.length > classType.capacity ? (
             <p className="text-sm text-warn-700">More points ticked than the class has places ({classType.capacity}): places stay at {classType.capacity}.</p>

@@ -11,6 +11,7 @@ import { firstTimes } from '../booking-form';
 import { whenShort } from '../format';
 import { minutesOf, wallParts } from '../zone';
 import { RefusalView } from './conflict-view';
+import { PointPicker } from './point-picker';
 import { MAIL_NOTE, ScopeChoice, type Scope } from './scope-choice';
 
 const moveSchema = z
@@ -26,13 +27,22 @@ export function MoveSessionForm({ session, timeZone, onDone }: { session: Sessio
   const start = wallParts(session.startsAt, timeZone);
   const form = useForm<MoveForm>({ resolver: zodResolver(moveSchema), defaultValues: { date: start.date, start: start.time, end: wallParts(session.endsAt, timeZone).time } });
   const e = form.formState.errors;
-  const labelOf = (id: number) => session.points.find((p) => p.pointId === id)?.label;
+  const [labels] = useState(() => new Map(session.points.map((p) => [p.pointId, p.label])));
+  const labelOf = (id: number) => labels.get(id);
+  // A blocked point would refuse every move: the class moves with points picked for the new time.
+  const blocked = session.points.filter((p) => p.status === 'blocked').map((p) => p.pointId);
+  const [pointIds, setPointIds] = useState(() => session.pointIds.filter((id) => !blocked.includes(id)));
+  const [pointsError, setPointsError] = useState<string | undefined>();
+  const w = form.watch();
+  const when = w.date && w.start && w.end ? firstTimes(w, timeZone) : null;
+  const query = blocked.length && when ? { roomId: session.roomId, classTypeId: session.classTypeId, startsAt: when.startsAt.toISOString(), endsAt: when.endsAt.toISOString(), instructorId: session.instructorId, excludeSessionId: session.id } : null;
   const submit = form.handleSubmit((v) => {
+    if (blocked.length && pointIds.length === 0) return setPointsError('Tick at least one point for the new time');
     const t = firstTimes(v, timeZone);
     if (!t) return form.setError('date', { message: 'Check the day and times' });
     setRefusal(null);
     update.mutate(
-      { id: session.id, startsAt: t.startsAt.toISOString(), endsAt: t.endsAt.toISOString(), scope },
+      { id: session.id, startsAt: t.startsAt.toISOString(), endsAt: t.endsAt.toISOString(), scope, ...(blocked.length ? { pointIds } : {}) },
       {
         onSuccess: (s) => {
           const text = `Moved to ${whenShort(s.startsAt, s.endsAt, timeZone)}${scope === 'following' ? ', with the following classes' : ''}. ${MAIL_NOTE}`;
@@ -62,6 +72,16 @@ export function MoveSessionForm({ session, timeZone, onDone }: { session: Sessio
         <TextField label="Starts" type="time" step={300} error={e.start?.message} {...form.register('start')} />
         <TextField label="Ends" type="time" step={300} error={e.end?.message} {...form.register('end')} />
       </div>
+      {blocked.length ? (
+        <PointPicker
+          query={query}
+          value={pointIds}
+          onChange={(ids) => { setPointIds(ids); setPointsError(undefined); }}
+          onLoaded={(a) => a.points.forEach((p) => labels.set(p.pointId, p.label))}
+          error={pointsError}
+          note={`Points for the new time: ${blocked.map((id) => labelOf(id)).join(', ')} ${blocked.length === 1 ? 'is' : 'are'} blocked, so the class moves without ${blocked.length === 1 ? 'it' : 'them'}. Tick a replacement if one is free then.`}
+        />
+      ) : null}
       <ScopeChoice seriesId={session.seriesId} value={scope} onChange={setScope} />
       {session.seriesId && scope === 'following' ? <p className="text-xs text-muted">Each following class moves by the same amount.</p> : null}
       <p className="text-sm text-muted">{MAIL_NOTE}</p>

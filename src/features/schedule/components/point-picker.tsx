@@ -78,7 +78,7 @@ function PointRow({ verdict: p, checked, onToggle }: { verdict: PointVerdict; ch
   const disabled = !p.bookable && !checked;
   return (
     <li className={p.bookable ? '' : 'bg-canvas'}>
-      <label htmlFor={id} className={`flex min-h-11 items-start gap-3 px-3 py-2.5 ${disabled ? 'cursor-not-allowed' : 'cursor-pointer hover:bg-pine-50'}`}>
+      <label htmlFor={id} className={`flex min-h-11 items-start gap-3 px-3 pt-2.5 ${p.reasons.length || p.warnings.length ? 'pb-1' : 'pb-2.5'} ${disabled ? 'cursor-not-allowed' : 'cursor-pointer hover:bg-pine-50'}`}>
         <input
           id={id}
           type="checkbox"
@@ -88,26 +88,46 @@ function PointRow({ verdict: p, checked, onToggle }: { verdict: PointVerdict; ch
           aria-describedby={`${id}-why`}
           onChange={(e) => onToggle(p.pointId, e.target.checked)}
         />
-        <span className="min-w-0 flex-1">
-          <span className={`flex flex-wrap items-center gap-x-3 gap-y-1 ${p.bookable ? 'font-medium' : 'text-muted'}`}>
-            <span className="font-medium">{p.label}</span>
-            {p.bookable ? (
-              <span className="inline-flex items-center gap-1 text-sm text-ok-700"><CircleCheck className="size-4" aria-hidden />Can take this class</span>
-            ) : (
-              <span className="inline-flex items-center gap-1 text-sm text-stop-700"><OctagonX className="size-4" aria-hidden />Cannot take this class</span>
-            )}
-          </span>
-          <span id={`${id}-why`} className="block">
-            {p.reasons.map((r) => <span key={r.code + r.message} className="block text-sm text-stop-700">{r.message}</span>)}
-            {p.bookable && p.apparatus?.changeover ? (
-              <span className="flex items-center gap-1 text-sm text-warn-700"><Repeat2 className="size-4 shrink-0" aria-hidden />Changeover needed: {p.apparatus.kind} {p.apparatus.serial} is mounted on {p.label} before the class</span>
-            ) : null}
-            {p.warnings.map((w) => (
-              <span key={w.code + w.message} className="flex items-center gap-1 text-sm text-warn-700"><CalendarClock className="size-4 shrink-0" aria-hidden />{w.message}</span>
-            ))}
-          </span>
+        <span className={`flex min-w-0 flex-1 flex-wrap items-center gap-x-3 gap-y-1 ${p.bookable ? 'font-medium' : 'text-muted'}`}>
+          <span className="font-medium">{p.label}</span>
+          {p.bookable ? (
+            <span className="inline-flex items-center gap-1 text-sm text-ok-700"><CircleCheck className="size-4" aria-hidden />Can take this class</span>
+          ) : (
+            <span className="inline-flex items-center gap-1 text-sm text-stop-700"><OctagonX className="size-4" aria-hidden />Cannot take this class</span>
+          )}
         </span>
       </label>
+      {/* Outside the label: opening "more reasons" must not tick or untick the point. */}
+      <div id={`${id}-why`} className="pb-2.5 pl-11 pr-3">
+        <Reasons reasons={p.reasons} />
+        {p.bookable && p.apparatus?.changeover ? (
+          <span className="flex items-center gap-1 text-sm text-warn-700"><Repeat2 className="size-4 shrink-0" aria-hidden />Changeover needed: {p.apparatus.kind} {p.apparatus.serial} is mounted on {p.label} before the class</span>
+        ) : null}
+        {p.warnings.map((w) => (
+          <span key={w.code + w.message} className="flex items-center gap-1 text-sm text-warn-700"><CalendarClock className="size-4 shrink-0" aria-hidden />{w.message}</span>
+        ))}
+      </div>
     </li>
+  );
+}
+
+/**
+ * Why a point cannot take the class: the first reason in words, the rest on demand. The load
+ * check's arithmetic comes last, so a point that does not allow the apparatus says that first.
+ */
+function Reasons({ reasons }: { reasons: PointVerdict['reasons'] }) {
+  if (!reasons.length) return null;
+  const ordered = [...reasons].sort((a, b) => Number(a.code === 'load_check_failed') - Number(b.code === 'load_check_failed'));
+  const [first, ...rest] = ordered;
+  return (
+    <>
+      <span className="block text-sm text-stop-700">{first.message}</span>
+      {rest.length ? (
+        <details className="text-sm text-stop-700">
+          <summary className="cursor-pointer text-muted underline decoration-dotted">{rest.length} more {rest.length === 1 ? 'reason' : 'reasons'}</summary>
+          {rest.map((r) => <span key={r.code + r.message} className="block">{r.message}</span>)}
+        </details>
+      ) : null}
+    </>
   );
 }

@@ -6,7 +6,7 @@ import { TextField } from '../../../components/ui/field';
 import { Button } from '../../../components/ui/button';
 import type { BookingForm } from '../booking-form';
 import { weekdays, type WeekdayCode } from '../recurrence';
-import { longDay, shortDay } from '../format';
+import { dayWithYear, longDay } from '../format';
 import { instantFromWall, weekdayIndex } from '../zone';
 
 /** Repeat: none, or weekly on chosen days until a date or for a number of classes, with days left out. */
@@ -105,7 +105,11 @@ export function RepeatFields({ form, timeZone, preview }: { form: UseFormReturn<
               </ul>
             ) : null}
           </div>
-          <SeriesPreview preview={preview} timeZone={timeZone} />
+          {form.watch('ends') === 'count' && !(Number(form.watch('count')) >= 1) ? (
+            <p role="alert" className="text-sm text-stop-700">Enter how many classes: at least one.</p>
+          ) : (
+            <SeriesPreview preview={preview} timeZone={timeZone} />
+          )}
         </div>
       ) : null}
     </div>
@@ -122,12 +126,12 @@ function SeriesPreview({ preview, timeZone }: { preview: { starts: Date[]; error
   return (
     <div className="text-sm" aria-live="polite">
       <p>
-        <span className="font-medium">{n} {n === 1 ? 'class' : 'classes'}</span>, from {shortDay(first, timeZone)} to {shortDay(last, timeZone)}.
+        <span className="font-medium">{n} {n === 1 ? 'class' : 'classes'}</span>, from {dayWithYear(first, timeZone)} to {dayWithYear(last, timeZone)}.
       </p>
       <details className="mt-1">
         <summary className="flex min-h-11 cursor-pointer items-center text-pine-700">Show every date</summary>
         <ol className="mt-1 columns-2 text-muted sm:columns-3">
-          {preview.starts.map((d) => <li key={d.toISOString()}>{shortDay(d.toISOString(), timeZone)}</li>)}
+          {preview.starts.map((d) => <li key={d.toISOString()}>{dayWithYear(d.toISOString(), timeZone)}</li>)}
         </ol>
       </details>
     </div>

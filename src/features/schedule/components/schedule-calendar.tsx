@@ -1,4 +1,6 @@
 // The only module that imports FullCalendar; it is reached only through the lazily loaded /schedule route.
+// First, before FullCalendar's own modules run: see the file.
+import './fullcalendar-without-icon-font';
 import { useCallback, useEffect, useRef } from 'react';
 import FullCalendar from '@fullcalendar/react';
 import dayGridPlugin from '@fullcalendar/daygrid';
@@ -18,6 +20,8 @@ export interface VisibleRange {
   to: string;
   title: string;
   view: string;
+  /** The studio day the view is on (its first day: the week's Monday, the month's 1st). */
+  day: string;
 }
 export interface MoveRequest {
   session: Session;
@@ -43,6 +47,8 @@ export default function ScheduleCalendar({
   refreshKey,
   hours,
   focus,
+  initialDate,
+  initialView,
   onRange,
   onLoading,
   onError,
@@ -59,6 +65,9 @@ export default function ScheduleCalendar({
   hours: { min: number; max: number };
   /** An instant to bring into view (after booking a class elsewhere in time). */
   focus: string | null;
+  /** From the address: the day and view to open on (a reload keeps the week). */
+  initialDate?: string;
+  initialView?: string;
   onRange: (r: VisibleRange) => void;
   onLoading: (loading: boolean) => void;
   onError: (err: unknown) => void;
@@ -106,7 +115,8 @@ export default function ScheduleCalendar({
         timeZone="UTC"
         now={() => floatingNow(timeZone)}
         // Seven columns do not fit a phone: it opens on the day, and the agenda lists it in full.
-        initialView={narrowScreen() ? 'timeGridDay' : 'timeGridWeek'}
+        initialView={initialView ?? (narrowScreen() ? 'timeGridDay' : 'timeGridWeek')}
+        initialDate={initialDate}
         headerToolbar={{ left: 'prev,next today', center: 'title', right: 'dayGridMonth,timeGridWeek,timeGridDay' }}
         // Text, not FullCalendar's icon font: the app's content security policy serves fonts from 'self' only.
         buttonIcons={false}
@@ -125,6 +135,8 @@ export default function ScheduleCalendar({
           timeGrid: { dayHeaderFormat: { weekday: 'short', day: 'numeric', month: 'short' } },
         }}
         slotEventOverlap={false}
+        // Beyond three classes at once a "+ more" link opens the rest, rather than slivers.
+        eventMaxStack={3}
         eventDisplay="block"
         dayMaxEvents={4}
         events={events}
@@ -135,7 +147,7 @@ export default function ScheduleCalendar({
         }}
         loading={onLoading}
         eventSourceFailure={onError}
-        datesSet={(arg: DatesSetArg) => onRange({ from: instant(arg.start), to: instant(arg.end), title: arg.view.title, view: arg.view.type })}
+        datesSet={(arg: DatesSetArg) => onRange({ from: instant(arg.start), to: instant(arg.end), title: arg.view.title, view: arg.view.type, day: arg.view.currentStart.toISOString().slice(0, 10) })}
         editable={editable}
         eventAllow={(span) => span.start.getTime() > floatingNow(timeZone).getTime()}
         eventDrop={moved}
@@ -187,16 +199,20 @@ function renderEvent(arg: EventContentArg) {
       </div>
     );
   }
+  // Each line truncates rather than wraps: a 60-minute class keeps room and instructor in view,
+  // and classes side by side stay readable line by line; the full text is in the tooltip.
+  const full = [label, s.className, clockRange(s.startsAt, s.endsAt, timeZone), `${s.roomName} · ${s.instructorName}`, placesText(s.places, s.capacity), risk].filter(Boolean).join('\n');
+  const line = 'block truncate';
   return (
-    <div className="flex h-full flex-col gap-0.5 overflow-hidden px-1 py-0.5 text-xs leading-tight">
-      <span className="flex items-center gap-1 font-semibold">
+    <div className="flex h-full flex-col overflow-hidden px-1 py-0.5 text-xs leading-tight" title={full}>
+      <span className="flex min-w-0 items-center gap-1 font-semibold">
         <Icon className="size-3.5 shrink-0" aria-hidden />
-        {label}
+        <span className="truncate">{label} · <span className="tabular-nums">{clockRange(s.startsAt, s.endsAt, timeZone)}</span></span>
       </span>
-      <span className={`font-medium ${s.cancelled ? 'line-through' : ''}`}>{s.className}</span>
-      <span className="tabular-nums">{clockRange(s.startsAt, s.endsAt, timeZone)} · {placesText(s.places, s.capacity)}</span>
-      <span>{s.roomName} · {s.instructorName}</span>
-      {risk ? <span className="font-medium">{risk}</span> : null}
+      <span className={`${line} font-medium ${s.cancelled ? 'line-through' : ''}`}>{s.className}</span>
+      <span className={line}>{s.roomName} · {s.instructorName}</span>
+      <span className={`${line} tabular-nums`}>{placesText(s.places, s.capacity)}</span>
+      {risk ? <span className={`${line} font-medium`}>{risk}</span> : null}
     </div>
   );
 }

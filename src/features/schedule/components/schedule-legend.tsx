@@ -21,7 +21,7 @@ export function ScheduleLegend() {
           );
         })}
       </ul>
-      <p className="mt-2 text-xs text-muted">“places n/capacity”: one place per booked point that is not blocked at the class’s time, up to the class’s capacity.</p>
+      <p className="mt-2 text-xs text-muted">“3 of 8 places usable”: one usable place per booked point that is not blocked at the class’s time, up to the class’s capacity (8). It does not count students booked.</p>
     </section>
   );
 }

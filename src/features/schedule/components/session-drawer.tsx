@@ -83,7 +83,7 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
       </div>
       <RiskReasons session={s} />
       <SessionChangeovers session={s} />
-      {canEdit && !s.cancelled && !started && s.atRisk ? <SuggestedReplacements session={s} onSwapped={setFlash} /> : null}
+      {canEdit && !s.cancelled && !started && s.atRisk ? <SuggestedReplacements session={s} onSwapped={setFlash} onMove={() => { setFlash(null); setAction('move'); }} /> : null}
       <SessionPoints session={s} timeZone={timeZone} />
       {canEdit ? (
         s.cancelled ? (
@@ -103,7 +103,7 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
             </div>
             {started ? <p className="text-sm text-muted">The class has started: changes are checked against the time now.</p> : null}
             <div className="rounded-xl border border-line bg-white p-4" hidden={action === null}>
-              {action === 'points' ? <ChangePointsForm session={s} onDone={done} /> : null}
+              {action === 'points' ? <ChangePointsForm session={s} timeZone={timeZone} onDone={done} /> : null}
               {action === 'move' ? <MoveSessionForm session={s} timeZone={timeZone} onDone={done} /> : null}
               {action === 'instructor' ? <ChangeInstructorForm session={s} timeZone={timeZone} onDone={done} /> : null}
               {action === 'cancel' ? <CancelSessionForm session={s} timeZone={timeZone} onDone={done} /> : null}

@@ -1,14 +1,14 @@
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { toast } from 'sonner';
-import { ArrowLeftRight, CalendarClock, DoorOpen } from 'lucide-react';
+import { ArrowLeftRight, CalendarClock, DoorOpen, Unlink } from 'lucide-react';
 import { Button } from '../../../components/ui/button';
 import { ConfirmDialog } from '../../../components/ui/confirm';
 import { ErrorState, Loading } from '../../../components/ui/states';
 import { errorMessage } from '../../../lib/api-client';
 import { conflictOf, scheduleQueries, useScheduleMutations, type Alternative, type Session } from '../api';
 import { conflictLines, ConflictView } from './conflict-view';
-import { MAIL_NOTE } from './scope-choice';
+import { MAIL_NOTE, ScopeChoice, type Scope } from './scope-choice';
 
 /** A move of the whole class to another room, on free points there. */
 interface RoomMove {
@@ -52,14 +52,35 @@ const pointsText = (points: Alternative[]) => `${points.length === 1 ? 'point' :
  * One click swaps a point of the same room in for the first at-risk point; a point in another room
  * moves the class to that room, after a confirmation. The server re-checks either.
  */
-export function SuggestedReplacements({ session, onSwapped }: { session: Session; onSwapped: (message: string) => void }) {
+export function SuggestedReplacements({ session, onSwapped, onMove }: { session: Session; onSwapped: (message: string) => void; onMove: () => void }) {
   const alts = useQuery(scheduleQueries.alternatives(session.id));
   const { swapPoints } = useScheduleMutations();
   const [refusal, setRefusal] = useState<{ title: string; lines: string[] } | null>(null);
   const [confirming, setConfirming] = useState<RoomMove | null>(null);
+  const [scope, setScope] = useState<Scope>('this');
+  const following = session.seriesId !== null && scope === 'following' ? ', for this and the following classes' : '';
   const risky = [...new Set(session.riskReasons.map((r) => r.pointId))].filter((id) => session.pointIds.includes(id));
   const labelOf = (id: number) => session.points.find((p) => p.pointId === id)?.label ?? alts.data?.find((a) => a.pointId === id)?.label;
   if (risky.length === 0) return null;
+
+  /** Cancel just the blocked points' part of the class: it keeps its other points (and fewer places). */
+  const free = () => {
+    const keep = session.pointIds.filter((id) => !risky.includes(id));
+    setRefusal(null);
+    swapPoints.mutateAsync({ id: session.id, pointIds: keep, scope }).then(
+      (s) => {
+        const text = `Freed ${risky.map((id) => `point ${labelOf(id)}`).join(' and ')}${following}: the class keeps ${s.points.map((p) => p.label).join(', ')} (${s.places} of ${s.capacity} places usable). ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
+        toast.success(text);
+        onSwapped(text);
+      },
+      (err: unknown) => {
+        const c = conflictOf(err);
+        if (c) setRefusal({ title: 'Not freed: the class cannot keep its other points now.', lines: conflictLines(c, labelOf) });
+        else toast.error(errorMessage(err));
+      },
+    );
+  };
+  const others = session.pointIds.filter((id) => !risky.includes(id));
 
   const swap = (replacements: Alternative[]) => {
     const map = new Map(risky.slice(0, replacements.length).map((id, i) => [id, replacements[i].pointId]));
@@ -67,16 +88,16 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
     setRefusal(null);
     // mutateAsync, not mutate's callbacks: a swap that makes the class calm unmounts this panel when the
     // schedule is re-read, and React Query skips mutate's callbacks once their component is gone.
-    swapPoints.mutateAsync({ id: session.id, pointIds }).then(
+    swapPoints.mutateAsync({ id: session.id, pointIds, scope }).then(
       (s) => {
         const what = [...map.entries()].map(([from, to]) => `${labelOf(from)} → ${labelOf(to)}`).join(', ');
-        const text = `Swapped ${what}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
+        const text = `Swapped ${what}${following}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
         toast.success(text);
         onSwapped(text);
       },
       (err: unknown) => {
         const c = conflictOf(err);
-        if (c) setRefusal({ title: 'Not swapped: the point cannot take this class now.', lines: conflictLines(c, labelOf) });
+        if (c) setRefusal({ title: c.occurrences?.length ? `Not swapped: ${c.occurrences.length} of the following classes cannot take the point. Nothing was changed.` : 'Not swapped: the point cannot take this class now.', lines: conflictLines(c, labelOf) });
         else toast.error(errorMessage(err));
       },
     );
@@ -85,10 +106,10 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
   const moveRoom = (m: RoomMove) => {
     setRefusal(null);
     // mutateAsync, as for a swap: a move that makes the class calm unmounts this panel.
-    swapPoints.mutateAsync({ id: session.id, pointIds: m.points.map((a) => a.pointId), roomId: m.roomId }).then(
+    swapPoints.mutateAsync({ id: session.id, pointIds: m.points.map((a) => a.pointId), roomId: m.roomId, scope }).then(
       (s) => {
         setConfirming(null);
-        const text = `Moved to ${s.roomName} on ${pointsText(m.points)}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
+        const text = `Moved to ${s.roomName} on ${pointsText(m.points)}${following}. ${s.atRisk ? 'The class is still at risk.' : 'The class is all clear.'} ${MAIL_NOTE}`;
         toast.success(text);
         onSwapped(text);
       },
@@ -111,9 +132,23 @@ export function SuggestedReplacements({ session, onSwapped }: { session: Session
       <p className="text-sm text-muted">
         For {risky.map((id) => `point ${labelOf(id)}`).join(' and ')}. Free at this time, allowed for the apparatus and passing the load check; same room first. {MAIL_NOTE}
       </p>
+      <ScopeChoice seriesId={session.seriesId} value={scope} onChange={setScope} legend="Swap for" />
       {refusal ? <ConflictView title={refusal.title} lines={refusal.lines} /> : null}
       {alts.isPending ? <Loading label="Finding free points…" /> : alts.isError ? <ErrorState error={alts.error} retry={() => alts.refetch()} /> : alts.data.length === 0 ? (
-        <p className="rounded-lg bg-white p-3 text-sm">No point is free for this class at this time. Move the class to another time, or cancel it.</p>
+        <div className="space-y-3 rounded-lg bg-white p-3 text-sm">
+          <p>No point is free for this class at this time. What works:</p>
+          <div className="flex flex-wrap gap-2">
+            {others.length ? (
+              <Button type="button" variant="secondary" busy={swapPoints.isPending} onClick={free}>
+                <Unlink className="size-4" aria-hidden /> Free {risky.map((id) => `point ${labelOf(id)}`).join(' and ')}, keep {others.map((id) => labelOf(id)).join(', ')}
+              </Button>
+            ) : null}
+            <Button type="button" variant="secondary" onClick={onMove}>
+              <CalendarClock className="size-4" aria-hidden /> Move to another time with a free point
+            </Button>
+          </div>
+          <p className="text-muted">{others.length ? 'Freeing cancels only that point’s part of the class; it runs on the others, with fewer places.' : 'Its only point is blocked: moving picks a point free at the new time.'} Or cancel the class below.</p>
+        </div>
       ) : (
         <>
           {risky.length > 1 && sameRoom.length >= risky.length ? (

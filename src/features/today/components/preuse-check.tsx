@@ -7,7 +7,7 @@ import { ErrorState, Loading } from '../../../components/ui/states';
 import { ApiError, errorMessage } from '../../../lib/api-client';
 import { todayQueries, usePreuseCheck, type PreuseResult } from '../api';
 
-type Mark = 'unticked' | 'ok' | 'fail';
+type Mark = 'unticked' | 'ok' | 'fail' | 'na';
 
 /**
  * PRODUCT.md §4.5: the short pre-use list for one point, ticked with a thumb. Every item starts
@@ -36,7 +36,7 @@ export function PreuseCheck({ pointId, label, sessionId, onClose, onDone }: { po
     const errs: Record<string, string> = {};
     for (const i of items) {
       const m = marks[i.key] ?? 'unticked';
-      if (m === 'unticked') errs[i.key] = 'Check this item, then tap Good or Problem.';
+      if (m === 'unticked') errs[i.key] = `Check this item, then tap Good${i.notApplicable ? ', Not applicable' : ''} or Problem.`;
       if (m === 'fail' && (notes[i.key] ?? '').trim().length < 3) errs[i.key] = 'Say in a few words what is wrong.';
     }
     setProblems(errs);
@@ -45,7 +45,7 @@ export function PreuseCheck({ pointId, label, sessionId, onClose, onDone }: { po
       return;
     }
     save.mutate(
-      { sessionId, items: items.map((i) => ({ key: i.key, result: marks[i.key] === 'fail' ? 'fail' : 'pass', note: marks[i.key] === 'fail' ? notes[i.key].trim() : undefined })) },
+      { sessionId, items: items.map((i) => ({ key: i.key, result: marks[i.key] === 'fail' ? 'fail' : marks[i.key] === 'na' ? 'not_applicable' : 'pass', note: marks[i.key] === 'fail' ? notes[i.key].trim() : undefined })) },
       {
         onSuccess: (r) => {
           if (r.passed) toast.success(`Pre-use check recorded for ${label}.`);
@@ -67,15 +67,15 @@ export function PreuseCheck({ pointId, label, sessionId, onClose, onDone }: { po
       </div>
       {list.isPending ? <Loading label="Loading the checklist…" /> : list.isError ? <ErrorState error={list.error} retry={() => list.refetch()} /> : (
         <>
-          <p className="text-sm text-muted">Look at each item on the point itself, then tap Good or Problem.</p>
+          <p className="text-sm text-muted">Look at each item on the point itself, then tap Good or Problem{items.some((i) => i.notApplicable) ? ' (or Not applicable where offered)' : ''}.</p>
           <ol className="space-y-3">
             {items.map((item) => {
               const mark = marks[item.key] ?? 'unticked';
               const problem = problems[item.key];
               return (
-                <li key={item.key} className={`rounded-lg border bg-white p-3 ${mark === 'fail' ? 'border-stop-700' : mark === 'ok' ? 'border-ok-700' : 'border-line'}`}>
+                <li key={item.key} className={`rounded-lg border bg-white p-3 ${mark === 'fail' ? 'border-stop-700' : mark === 'ok' || mark === 'na' ? 'border-ok-700' : 'border-line'}`}>
                   <p id={`${hid}-${item.key}`} className="font-medium">{item.label}</p>
-                  <div role="group" aria-labelledby={`${hid}-${item.key}`} className="mt-2 grid grid-cols-2 gap-2">
+                  <div role="group" aria-labelledby={`${hid}-${item.key}`} className={`mt-2 grid gap-2 ${item.notApplicable ? 'grid-cols-3' : 'grid-cols-2'}`}>
                     <button
                       type="button"
                       aria-pressed={mark === 'ok'}
@@ -84,6 +84,16 @@ export function PreuseCheck({ pointId, label, sessionId, onClose, onDone }: { po
                     >
                       <Check className="size-5" aria-hidden /> Good
                     </button>
+                    {item.notApplicable ? (
+                      <button
+                        type="button"
+                        aria-pressed={mark === 'na'}
+                        onClick={() => set(item.key, 'na')}
+                        className={`flex min-h-12 items-center justify-center gap-1 rounded-lg border-2 px-2 text-sm font-medium leading-tight ${mark === 'na' ? 'border-pine-700 bg-pine-700 text-white' : 'border-line bg-white text-ink'}`}
+                      >
+                        Not applicable
+                      </button>
+                    ) : null}
                     <button
                       type="button"
                       aria-pressed={mark === 'fail'}
