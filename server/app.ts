@@ -47,6 +47,7 @@ import { sessionRecords } from './modules/sessions/session-records';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
+import { DEFAULT_PERSON_LIMITS, personLimiters, type PersonLimits } from './http/person-limits';
 
 export interface AppDeps {
   db: Db;
@@ -68,6 +69,8 @@ export interface AppDeps {
   trustProxyHops?: number;
   /** Keep derived statuses per data version (default true); false works every answer out afresh. */
   cacheDerived?: boolean;
+  /** Per-person limits on fault reports and uploads (server/http/person-limits.ts). */
+  personLimits?: Partial<PersonLimits>;
 }
 
 export interface LoftwiseApp extends Express {
@@ -132,17 +135,18 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock, records });
   // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
   // (sessions: outbox.notifySessionChange) write to it in their own transaction; the worker sends.
-  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl });
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, audit });
 
+  const limits = personLimiters({ ...DEFAULT_PERSON_LIMITS, ...deps.personLimits } satisfies PersonLimits);
   const api = new ApiRouter('/api');
   staffRoutes(api, staff);
   studioRoutes(api, studioService(studioRepo, clock, { db, audit }), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
-  rigRoutes(api, rig, docs, db, records);
+  rigRoutes(api, rig, docs, db, records, limits);
   documentsRoutes(api, docs);
   classTypesRoutes(api, classTypes);
-  faultsRoutes(api, faults);
+  faultsRoutes(api, faults, docs, limits);
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit, auditService({ db, audit, rig: rigRepo }));
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
