@@ -464,14 +464,14 @@ describe('moving “this and the following” across a clock change (Europe/Lond
     const desk = await as(ctx, 'reception');
     const roomId = await makeRoom(ctx.db);
     const p = await makePoint(ctx.db, { roomId, clearedAt: '2027-10-19T10:00:00Z', structuralRatingKn: 30 });
-    for (const g of await makeStandardPath(ctx.db, p.id)) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2028-06-30T00:00:00Z' });
+    for (const g of await makeStandardPath(ctx.db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: '2028-06-30T00:00:00Z' } })) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2028-06-30T00:00:00Z' });
     const [ct] = await ctx.db('class_types').insert({ name: 'Silks evening', apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');
     const instructor = await makeUser(ctx.db, { role: 'instructor' });
     const other = await makeUser(ctx.db, { role: 'instructor' });
     const base = { classTypeId: (ct as { id: number }).id, instructorId: instructor.id, roomId, pointIds: [p.id] };
     // Saturdays at 18:00 local: 30 Oct is still summer time (17:00Z), 6 and 13 Nov are not (18:00Z).
     const series = await desk.post('/api/sessions').send({ ...base, startsAt: '2027-10-30T17:00:00Z', endsAt: '2027-10-30T18:00:00Z', rrule: 'FREQ=WEEKLY;COUNT=3' });
-    expect(series.status).toBe(201);
+    expect(series.status, JSON.stringify(series.body)).toBe(201);
     // Another class holds the point on Sunday 7 Nov at 19:00 local (19:00Z), right after where the moved class belongs.
     expect((await desk.post('/api/sessions').send({ ...base, instructorId: other.id, startsAt: '2027-11-07T19:00:00Z', endsAt: '2027-11-07T20:00:00Z' })).status).toBe(201);
 
@@ -495,7 +495,7 @@ describe('a daily class at 01:30 across the night the clocks go back (Europe/Lon
     const desk = await as(ctx, 'reception');
     const roomId = await makeRoom(ctx.db);
     const p = await makePoint(ctx.db, { roomId, clearedAt: '2027-10-19T10:00:00Z', structuralRatingKn: 30 });
-    for (const g of await makeStandardPath(ctx.db, p.id)) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2028-06-30T00:00:00Z' });
+    for (const g of await makeStandardPath(ctx.db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: '2028-06-30T00:00:00Z' } })) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2028-06-30T00:00:00Z' });
     const [ct] = await ctx.db('class_types').insert({ name: 'Night silks', apparatus: 'fabric', duration_minutes: 45, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');
     const instructor = await makeUser(ctx.db, { role: 'instructor' });
     // 30 Oct 01:30 BST = 00:30Z.
