@@ -47,6 +47,7 @@ import { sessionRecords } from './modules/sessions/session-records';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
+import { DEFAULT_PERSON_LIMITS, personLimiters, type PersonLimits } from './http/person-limits';
 
 export interface AppDeps {
   db: Db;
@@ -70,6 +71,8 @@ export interface AppDeps {
   cacheDerived?: boolean;
   /** How long a "Moved" e-mail waits for the desk's Undo (default UNDO_WINDOW_MS). */
   moveNoticeDelayMs?: number;
+  /** Per-person limits on fault reports and uploads (server/http/person-limits.ts). */
+  personLimits?: Partial<PersonLimits>;
 }
 
 export interface LoftwiseApp extends Express {
@@ -130,22 +133,23 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
   // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
   // transaction; the worker sends.
-  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, undoWindowMs: deps.moveNoticeDelayMs });
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, undoWindowMs: deps.moveNoticeDelayMs, audit });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   // What each class kept of its points as it started (PRODUCT.md §10); the exports read them too.
   const records = sessionRecords({ db, rig: rigRepo, studio: studioRepo });
   const inspections = inspectionsService({ db, repo: inspectionsRepo, rig: rigRepo, studio: studioRepo, audit, faults, clock, records });
 
+  const limits = personLimiters({ ...DEFAULT_PERSON_LIMITS, ...deps.personLimits } satisfies PersonLimits);
   const api = new ApiRouter('/api');
   staffRoutes(api, staff);
   studioRoutes(api, studioService(studioRepo, clock, { db, audit }), policyPreviewService({ db, studio: studioRepo, rig: rigRepo, sessions: sessionsRepository(db), classTypes: classTypesRepo, clock }));
   mailboxRoutes(api, deps.fakeSmtp ?? null);
   outboxRoutes(api, outbox);
-  rigRoutes(api, rig, docs, db, records);
+  rigRoutes(api, rig, docs, db, records, limits);
   documentsRoutes(api, docs);
   classTypesRoutes(api, classTypes);
-  faultsRoutes(api, faults);
+  faultsRoutes(api, faults, docs, limits);
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit, auditService({ db, audit, rig: rigRepo }));
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));

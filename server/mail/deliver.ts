@@ -137,7 +137,7 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
       summary.sent += 1;
       continue;
     }
-    if ((await ctx.outbox.markFailed(m.id, m.attempts + 1, error.message, clock.now())) === 'failed') summary.failed += 1;
+    if ((await ctx.outbox.markFailed(m, m.attempts + 1, error.message, clock.now())) === 'failed') summary.failed += 1;
     else summary.retrying += 1;
     if (error.serverDown) {
       // The server cannot be reached: the rest wait for the next cycle untried, costing no attempt.

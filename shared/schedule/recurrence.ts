@@ -6,6 +6,7 @@ import type { Options } from 'rrule';
 const { RRule } = ((Reflect.get(rruleModule, 'default') as typeof rruleModule | undefined) ?? rruleModule) as typeof rruleModule;
 import { TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
+import { floatingOf, instantOfFloating } from './wall-clock';
 
 /** Longest series we expand, whatever the rule says (about two years of a weekly class). */
 export const MAX_OCCURRENCES = 110;
@@ -50,33 +51,60 @@ export function parseRule(rule: string): Partial<Options> {
   return options;
 }
 
+/** No series reaches further than this after its first class, whatever its COUNT or UNTIL. */
+export const HORIZON_YEARS = 2;
+
+/** Thrown from inside rrule's loop once it has walked more periods than the horizon holds. */
+class PastHorizon extends Error {}
+
 /**
  * Expands a series in the studio's zone: each occurrence keeps the first class's wall-clock time
- * (18:00 stays 18:00 across a clock change), as RFC 5545 does for a DTSTART with a TZID.
+ * (18:00 stays 18:00 across a clock change), as RFC 5545 does for a DTSTART with a TZID; a time the
+ * clocks pass twice is the first of the two (see `instantOfFloating`).
  * rrule works in UTC, so the wall clock is carried as "UTC-shaped local time" and converted back.
+ *
+ * Bounded two ways, so no rule can hold the server: occurrences end at the horizon (HORIZON_YEARS
+ * after the first start), and the number of periods rrule may walk is capped. The cap matters for a
+ * rule that never matches (`BYMONTH=2;BYMONTHDAY=30`): rrule's UNTIL and its callbacks only act on
+ * matching days, so such a rule would otherwise be walked day by day to the year 9999 (seconds of
+ * blocked event loop). rrule reads `interval` about twice per period; the cap allows four times
+ * the periods the horizon holds, plus slack, so it only ever stops a walk already past the horizon.
  */
 export function expandSeries(rule: string, firstStart: Date, timeZone: string, opts: { skipDays?: string[]; max?: number } = {}): Date[] {
   const options = parseRule(rule);
-  const local = new TZDate(firstStart.getTime(), timeZone);
-  const floating = new Date(Date.UTC(local.getFullYear(), local.getMonth(), local.getDate(), local.getHours(), local.getMinutes(), local.getSeconds()));
+  const floating = new Date(floatingOf(firstStart, timeZone));
+  const horizon = new Date(Date.UTC(floating.getUTCFullYear() + HORIZON_YEARS, floating.getUTCMonth(), floating.getUTCDate(), floating.getUTCHours(), floating.getUTCMinutes(), floating.getUTCSeconds()));
   const max = opts.max ?? MAX_OCCURRENCES;
-  const until = options.until ? toFloating(options.until, timeZone) : null;
-  const rrule = new RRule({ ...options, dtstart: floating, until, tzid: null });
+  const ruleUntil = options.until ? new Date(floatingOf(options.until, timeZone)) : null;
+  const until = ruleUntil && ruleUntil < horizon ? ruleUntil : horizon;
+  const rrule = new RRule({ ...options, dtstart: floating, until, tzid: null }, true);
+  const periodDays = [365, 28, 7, 1][rrule.options.freq] ?? 1;
+  const budget = 4 * (Math.ceil((HORIZON_YEARS * 366) / (periodDays * Math.max(1, rrule.options.interval))) + 2) + 64;
+  let reads = 0;
+  (rrule as unknown as { options: object }).options = new Proxy(rrule.options, {
+    get(target, key, receiver) {
+      if (key === 'interval' && ++reads > budget) throw new PastHorizon();
+      return Reflect.get(target, key, receiver);
+    },
+  });
   const skip = new Set(opts.skipDays ?? []);
   const out: Date[] = [];
-  rrule.all((d, i) => {
-    if (i >= max) return false;
-    const instant = new TZDate(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate(), d.getUTCHours(), d.getUTCMinutes(), d.getUTCSeconds(), timeZone);
-    if (!skip.has(format(instant, 'yyyy-MM-dd'))) out.push(new Date(instant.getTime()));
-    return true;
-  });
+  let found = 0;
+  try {
+    rrule.all((d, i) => {
+      if (i >= max) return false;
+      found += 1;
+      const instant = instantOfFloating(d.getTime(), timeZone);
+      if (!skip.has(format(new TZDate(instant.getTime(), timeZone), 'yyyy-MM-dd'))) out.push(instant);
+      return true;
+    });
+  } catch (err) {
+    if (!(err instanceof PastHorizon)) throw err;
+  }
+  if (!found) {
+    throw new RecurrenceError(`The repeat rule gives no class in the ${HORIZON_YEARS} years after the first one: check that such a day exists (there is no 30 February).`);
+  }
   return out;
-}
-
-/** An UNTIL given in UTC, as wall-clock time in the zone (the form the floating expansion uses). */
-function toFloating(until: Date, timeZone: string): Date {
-  const l = new TZDate(until.getTime(), timeZone);
-  return new Date(Date.UTC(l.getFullYear(), l.getMonth(), l.getDate(), l.getHours(), l.getMinutes(), l.getSeconds()));
 }
 
 export function isOpenEnded(rule: string): boolean {

@@ -1,8 +1,9 @@
 import { z } from 'zod';
+import { labelText } from './common';
 import { apparatusKindSchema } from './vocabulary';
 
 export const createClassTypeSchema = z.object({
-  name: z.string().trim().min(1, 'Enter a class name').max(80),
+  name: labelText(80, 'Enter a class name'),
   apparatus: apparatusKindSchema,
   durationMinutes: z.number().int('Whole minutes').min(15, 'At least 15 minutes').max(480, 'At most 8 hours'),
   capacity: z.number().int().min(1, 'At least one place').max(100),

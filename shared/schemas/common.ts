@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelProblem, normaliseLabel } from '../text/labels';
 
 /**
  * Every field message in the product's words, on both sides (this module loads with every schema):
@@ -57,3 +58,19 @@ export const errorSchema = z.object({
   error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }),
 });
 export type ApiErrorBody = z.infer<typeof errorSchema>;
+
+/**
+ * A label, name or serial (shared/text/labels.ts): invisible and text-direction characters refused
+ * with a field message, then stored in NFKC with single spaces. `required` is the message for an
+ * empty value; without it the text may be empty.
+ */
+export function labelText(max: number, required?: string) {
+  return z
+    .string()
+    .superRefine((v, ctx) => {
+      const problem = labelProblem(v);
+      if (problem) ctx.addIssue({ code: 'custom', message: problem });
+    })
+    .transform(normaliseLabel)
+    .pipe(required ? z.string().min(1, required).max(max, `Keep it under ${max} characters`) : z.string().max(max, `Keep it under ${max} characters`));
+}

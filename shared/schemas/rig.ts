@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { dateSchema, idSchema } from './common';
+import { dateSchema, idSchema, labelText } from './common';
 import {
   apparatusKindSchema,
   bridleLegSchema,
@@ -16,7 +16,7 @@ const kn = (what: string) => z.number({ message: `${what} must be a number in kN
 const text = (max: number) => z.string().trim().max(max, `Keep it under ${max} characters`);
 
 // ---- rooms
-export const createRoomSchema = z.object({ name: text(80).min(1, 'Enter a room name') });
+export const createRoomSchema = z.object({ name: labelText(80, 'Enter a room name') });
 export type CreateRoom = z.infer<typeof createRoomSchema>;
 export const roomSchema = z.object({ id: z.number(), name: z.string(), pointCount: z.number().optional() });
 export type Room = z.infer<typeof roomSchema>;
@@ -24,7 +24,7 @@ export type Room = z.infer<typeof roomSchema>;
 // ---- points
 const pointFields = {
   roomId: idSchema,
-  label: text(40).min(1, 'Enter a label such as B-2'),
+  label: labelText(40, 'Enter a label such as B-2'),
   structure: structureSchema,
   structuralRatingKn: kn('The structural rating'),
   apparatus: z.array(apparatusKindSchema).max(6).refine((a) => new Set(a).size === a.length, 'List each apparatus once'),
@@ -57,9 +57,9 @@ const gearFields = {
   gateOpenKn: optionalKn('The gate-open rating'),
   wllKn: optionalKn('The working load limit'),
   multiDirectional: z.boolean(),
-  serial: text(60).min(1, 'Enter the serial or lot number'),
-  maker: text(80).nullable().optional(),
-  model: text(80).nullable().optional(),
+  serial: labelText(60, 'Enter the serial or lot number'),
+  maker: labelText(80).nullable().optional(),
+  model: labelText(80).nullable().optional(),
   manufacturedOn: dateSchema.nullable().optional(),
   inServiceOn: dateSchema.nullable().optional(),
   serviceLifeYears: z.number().min(0.5, 'At least half a year').max(100).nullable().optional(),

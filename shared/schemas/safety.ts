@@ -83,6 +83,9 @@ export const faultSchema = z.object({
   resolvedBy: z.string().nullable(),
   resolvedAt: z.string().nullable(),
   photos: z.array(z.object({ id: z.number(), url: z.string(), originalName: z.string() })),
+  /** On the answer to a report only: photos that could not be stored (the fault is recorded all the same). */
+  photosNotStored: z.array(z.object({ name: z.string(), reason: z.string() })).optional(),
+  warnings: z.array(reasonSchema).optional(),
 });
 export type Fault = z.infer<typeof faultSchema>;
 

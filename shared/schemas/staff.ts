@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText } from './common';
 import { roleSchema } from './vocabulary';
 
 /**
@@ -8,7 +9,7 @@ import { roleSchema } from './vocabulary';
 export const normaliseEmail = (raw: string): string => raw.trim().toLowerCase();
 
 const email = z.string().transform(normaliseEmail).pipe(z.email({ message: 'Enter an e-mail address such as name@studio.test' })).pipe(z.string().max(254));
-const name = z.string().trim().min(1, 'Enter a name').max(120, 'Keep the name under 120 characters');
+const name = labelText(120, 'Enter a name');
 export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Keep the password under 200 characters');
 
 export const userSchema = z.object({

@@ -6,7 +6,7 @@ import { smtpMailer, type Mailer } from '../../server/mail/transport';
 import { startMailWorker, type MailWorker } from '../../server/mail/worker';
 import { LEASE_MS, outboxMessageId } from '../../server/mail/deliver';
 import { loadConfig } from '../../server/config';
-import { outboxRepository, retryDelayMs, MAX_ATTEMPTS } from '../../server/modules/outbox/outbox.repository';
+import { outboxRepository, retryDelayMs, MAX_ATTEMPTS, MAX_DELAY_MS } from '../../server/modules/outbox/outbox.repository';
 import { outboxService } from '../../server/modules/outbox/outbox.service';
 import { studioRepository } from '../../server/modules/studio/studio.repository';
 import { sessionChangeMessage } from '../../server/mail/templates/session-change';
@@ -273,29 +273,94 @@ describe('instructor reminders', () => {
     expect(received(back)).toHaveLength(1);
   });
 
-  it('gives up after the last attempt, and the owner sees it failed with its error on GET /api/outbox', async () => {
+  it('keeps trying a reminder through a 2-hour SMTP outage and delivers it once SMTP is back, before its class', async () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
-    await book(s, '2026-12-01T11:50:00Z', [a.id]);
+    const classStart = new Date('2026-12-01T12:30:00Z');
+    await book(s, classStart.toISOString(), [a.id]);
+    const smtp = await smtpDown();
+    const w = worker();
+    // Two hours without a mail server, the worker running every minute.
+    const end = new Date('2026-12-01T12:00:00Z').getTime();
+    while (ctx.clock.now().getTime() < end) {
+      await w.runOnce();
+      ctx.clock.advance(MINUTE);
+    }
+    expect(await rows({ kind: 'reminder', state: 'failed' })).toEqual([]);
+    const waiting = await rows({ kind: 'reminder', state: 'queued' });
+    expect(waiting.length).toBeGreaterThan(0);
+    expect(waiting.every((r) => r.attempts > 8)).toBe(true);
+
+    const back = await smtp.back();
+    while ((await rows({ kind: 'reminder', state: 'queued' })).length && ctx.clock.now() < classStart) {
+      await w.runOnce();
+      ctx.clock.advance(MINUTE);
+    }
+    // Every reminder that waited is delivered within the capped back-off of the server's return, before the class.
+    const reminders = await rows({ kind: 'reminder' });
+    expect(reminders.filter((r) => r.state !== 'skipped').map((r) => r.state)).toEqual(waiting.map(() => 'sent'));
+    expect(received(back)).toHaveLength(waiting.length);
+    expect(received(back).every((m) => m.subject.includes('Reminder: Silks Foundations'))).toBe(true);
+    expect(reminders.every((r) => r.state === 'skipped' || new Date(r.sent_at).getTime() <= end + MAX_DELAY_MS)).toBe(true);
+    expect(ctx.clock.now().getTime()).toBeLessThan(classStart.getTime());
+  });
+
+  it('gives a reminder up only when its class begins before the next try; the owner sees it failed on GET /api/outbox', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    const classStart = '2026-12-01T11:50:00Z';
+    await book(s, classStart, [a.id]);
+    await fake.close();
+    const w = worker();
+    for (let attempt = 1; attempt <= 100; attempt++) {
+      await w.runOnce();
+      if ((await rows({ kind: 'reminder', state: 'failed' })).length) break;
+      ctx.clock.advance(retryDelayMs(attempt));
+    }
+    const [row] = await rows({ kind: 'reminder', state: 'failed' });
+    expect(row.attempts).toBeGreaterThan(8);
+    expect(row.next_attempt_at >= new Date(classStart).toISOString()).toBe(true);
+    await w.runOnce();
+    expect((await rows({ id: row.id }))[0].attempts).toBe(row.attempts);
+
+    const owner = await as(ctx, 'owner');
+    const res = await owner.get('/api/outbox?state=failed');
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual({ items: [expect.objectContaining({ id: row.id, kind: 'reminder', state: 'failed', attempts: row.attempts, to: [s.instructor.email], lastError: expect.any(String) })], nextCursor: null });
+    expect(res.body.items[0]).not.toHaveProperty('html');
+    expect((await owner.get('/api/outbox?state=nonsense')).status).toBe(400);
+    const desk = await as(ctx, 'reception');
+    expect((await desk.get('/api/outbox')).status).toBe(403);
+  });
+
+  it('gives a message with no class of its own MAX_ATTEMPTS tries, then the owner sends it again from the mailbox (audited)', async () => {
+    const s = await studio();
+    const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');
+    await book(s, '2026-12-03T18:00:00Z', [a.id]);
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    await ctx.db.transaction((trx) => outbox.enqueue(trx, { kind: 'digest', uniqueKey: 'digest:test', to: ['rigger@mail.test'], subject: 'Rigging digest', text: 'Nothing due', html: '<p>Nothing due</p>' }));
+    const [digest] = await rows({ kind: 'digest' });
     await fake.close();
     const w = worker();
     for (let attempt = 1; attempt <= MAX_ATTEMPTS; attempt++) {
       await w.runOnce();
       ctx.clock.advance(retryDelayMs(attempt));
     }
-    const [row] = await rows({ kind: 'reminder', state: 'failed' });
-    expect(row).toMatchObject({ state: 'failed', attempts: MAX_ATTEMPTS });
-    await w.runOnce();
-    expect((await rows({ id: row.id }))[0].attempts).toBe(MAX_ATTEMPTS);
+    expect((await rows({ id: digest.id }))[0]).toMatchObject({ state: 'failed', attempts: MAX_ATTEMPTS });
 
     const owner = await as(ctx, 'owner');
-    const res = await owner.get('/api/outbox?state=failed');
-    expect(res.status).toBe(200);
-    expect(res.body).toEqual({ items: [expect.objectContaining({ id: row.id, kind: 'reminder', state: 'failed', attempts: MAX_ATTEMPTS, to: [s.instructor.email], lastError: expect.any(String) })], nextCursor: null });
-    expect(res.body.items[0]).not.toHaveProperty('html');
-    expect((await owner.get('/api/outbox?state=nonsense')).status).toBe(400);
     const desk = await as(ctx, 'reception');
-    expect((await desk.get('/api/outbox')).status).toBe(403);
+    expect((await desk.post(`/api/outbox/${digest.id}/resend`)).status).toBe(403);
+    const again = await owner.post(`/api/outbox/${digest.id}/resend`);
+    expect(again.status).toBe(200);
+    expect(again.body).toMatchObject({ id: digest.id, state: 'queued', attempts: 0 });
+    expect((await owner.post(`/api/outbox/${digest.id}/resend`)).body.error.code).toBe('not_failed');
+    expect(await ctx.db('audit_entries').where({ action: 'outbox.resent', entity_id: digest.id }).count({ n: '*' })).toEqual([{ n: 1 }]);
+
+    const back = await newFake(fake.port);
+    await w.runOnce();
+    expect(received(back).map((m) => m.subject)).toContain('Rigging digest');
+    expect((await rows({ id: digest.id }))[0].state).toBe('sent');
   });
 
   it('writes a waiting reminder afresh as it goes out: a fault reported meanwhile and a new instructor', async () => {

@@ -6,6 +6,9 @@ import { as, createTestApp, type TestContext } from '../helpers/app';
 import { makeGear, makePoint, makeRoom, makeStandardPath } from '../helpers/factories';
 
 let ctx: TestContext;
+
+/** Every file in the upload folder, its folder for uploads in progress included. */
+const filesOnDisk = () => readdirSync(join(ctx.dir, 'uploads'), { recursive: true, withFileTypes: true }).filter((e) => e.isFile()).map((e) => e.name);
 beforeEach(async () => {
   ctx = await createTestApp({ now: '2026-12-01T10:00:00Z' });
 });
@@ -226,11 +229,25 @@ describe('documents', () => {
     expect(doubled.status).toBe(201);
     expect(doubled.body.mime).toBe('application/pdf');
     // Stored under a random name with the extension of its real type, never the one it came with.
-    const stored = readdirSync(join(ctx.dir, 'uploads'));
+    const stored = filesOnDisk();
     expect(stored).toHaveLength(1);
     expect(stored[0]).toMatch(/^[0-9a-f-]{36}\.pdf$/);
     const served = await rigger.get(doubled.body.url);
     expect(served.headers['content-type']).toMatch(/application\/pdf/);
+  });
+
+  it('keeps and serves `x.pdf.html` under the extension of its checked type, as a PDF named x.pdf', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const g = await makeGear(ctx.db);
+    const up = await rigger.post(`/api/gear/${g}/documents`).attach('file', PDF, 'x.pdf.html');
+    expect(up.status).toBe(201);
+    expect(up.body).toMatchObject({ mime: 'application/pdf', originalName: 'x.pdf' });
+    expect(filesOnDisk()).toEqual([expect.stringMatching(/^[0-9a-f-]{36}\.pdf$/)]);
+    const served = await rigger.get(up.body.url);
+    expect(served.headers['content-type']).toMatch(/^application\/pdf/);
+    expect(served.headers['content-disposition']).toBe('inline; filename=x.pdf');
+    const png = await rigger.post(`/api/gear/${g}/documents`).attach('file', PNG, 'photo.html');
+    expect(png.body).toMatchObject({ mime: 'image/png', originalName: 'photo.png' });
   });
 
   it('serves documents to signed-in staff only', async () => {
@@ -250,7 +267,47 @@ describe('documents', () => {
     expect(empty.status).toBe(400);
     const big = await rigger.post(`/api/gear/${g}/documents`).attach('file', Buffer.concat([PNG, Buffer.alloc(11 * 1024 * 1024)]), 'huge.png');
     expect(big.status).toBe(413);
-    expect(readdirSync(join(ctx.dir, 'uploads'))).toEqual([]);
+    await new Promise((r) => setTimeout(r, 50)); // temporary files go once the answer is sent
+    expect(filesOnDisk()).toEqual([]);
     expect(await ctx.db('documents').count({ n: '*' })).toEqual([{ n: 0 }]);
+  });
+});
+
+describe('look-alike labels, names and serials', () => {
+  it('refuses a point label that looks like an existing one (409 naming it) or hides invisible or direction characters (400 on the field)', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const roomId = await makeRoom(ctx.db);
+    const point = (label: string) => rigger.post('/api/points').send({ roomId, label, structure: 'beam', structuralRatingKn: 30, apparatus: ['fabric'], maxPerformers: 1 });
+    expect((await point('MH-1')).status).toBe(201);
+
+    for (const lookAlike of ['\u041cH-1', 'MH\u20111', 'mh-1']) {
+      const res = await point(lookAlike);
+      expect(res.status, lookAlike).toBe(409);
+      expect(res.body.error).toMatchObject({ code: 'label_taken', details: { existing: 'MH-1' } });
+    }
+    expect((await point('\u041cH-1')).body.error.message).toBe('“МH-1” looks the same as the existing point “MH-1”; choose one that reads differently.');
+
+    const hidden = await point('MH\u200b-1');
+    expect(hidden.status).toBe(400);
+    expect(hidden.body.error.details.fields.label).toMatch(/invisible character/);
+    const reversed = await point('\u202e1-HM');
+    expect(reversed.status).toBe(400);
+    expect(reversed.body.error.details.fields.label).toMatch(/text-direction/);
+    expect(await ctx.db('points').pluck('label')).toEqual(['MH-1']);
+  });
+
+  it('does the same for rooms, gear serials and class types', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const desk = await as(ctx, 'reception');
+    expect((await rigger.post('/api/rooms').send({ name: 'Main Hall' })).status).toBe(201);
+    expect((await rigger.post('/api/rooms').send({ name: 'Ma\u0456n Hall' })).body.error).toMatchObject({ code: 'room_exists', details: { existing: 'Main Hall' } }); // Cyrillic і
+    const g = await makeGear(ctx.db, { serial: 'HP-0102' });
+    expect(g).toBeGreaterThan(0);
+    const gear = await rigger.post('/api/gear').send({ kind: 'carabiner', material: 'steel', gate: 'screw', majorKn: 30, multiDirectional: false, serial: 'HP\u20130102' }); // en dash
+    expect(gear.status).toBe(409);
+    expect(gear.body.error).toMatchObject({ code: 'serial_taken', details: { existing: 'HP-0102' } });
+    const ct = { apparatus: 'fabric', durationMinutes: 60, capacity: 8, performersPerPoint: 1 };
+    expect((await desk.post('/api/class-types').send({ ...ct, name: 'Aerial Hoop' })).status).toBe(201);
+    expect((await desk.post('/api/class-types').send({ ...ct, name: 'Аerial Ηoop' })).body.error).toMatchObject({ code: 'name_taken', details: { existing: 'Aerial Hoop' } }); // Cyrillic А, Greek Η
   });
 });

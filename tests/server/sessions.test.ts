@@ -552,6 +552,11 @@ describe('GET /api/sessions', () => {
     const none = await reader.get('/api/sessions?from=2026-12-04T00:00:00Z&to=2026-12-05T00:00:00Z');
     expect(none.body).toHaveLength(0);
     expect((await reader.get('/api/sessions?from=2026-12-05T00:00:00Z&to=2026-12-04T00:00:00Z')).status).toBe(400);
+    // A month view (six weeks) and a day at a time: a longer range is one long burst of work.
+    expect((await reader.get('/api/sessions?from=2026-11-30T00:00:00Z&to=2027-01-12T00:00:00Z')).status).toBe(200);
+    const tooLong = await reader.get('/api/sessions?from=2026-11-30T00:00:00Z&to=2027-01-12T00:00:01Z');
+    expect(tooLong.status).toBe(400);
+    expect(tooLong.body.error).toMatchObject({ message: 'Ask for at most 43 days at a time.', details: { fields: { to: 'Range too long' } } });
   });
 
   it('lists each point of the room as bookable or not for an exact time', async () => {
@@ -584,5 +589,101 @@ describe('GET /api/today', () => {
     expect(mine.body.sessions[0].points).toEqual([expect.objectContaining({ pointId: s.points[0], status: 'cleared', preuse_due: true })]);
     const all = await desk.get('/api/today');
     expect(all.body.sessions).toHaveLength(2);
+  });
+});
+
+describe('a repeat rule that never gives a class', () => {
+  it('answers 400 with a clear message within 1 s, while /api/health answers within 200 ms', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(1);
+    const t0 = performance.now();
+    // The health check is sent while the booking is being worked out, as a monitor's would be.
+    const booking = desk.post('/api/sessions').send(body(s, { rrule: 'FREQ=DAILY;BYMONTH=2;BYMONTHDAY=30;COUNT=5' })).then((r) => ({ r, ms: performance.now() - t0 }));
+    await new Promise((r) => setTimeout(r, 5));
+    const h0 = performance.now();
+    const health = desk.get('/api/health').then((r) => ({ r, ms: performance.now() - h0 }));
+    const [b, h] = await Promise.all([booking, health]);
+    expect(b.r.status).toBe(400);
+    expect(b.r.body.error.details.fields.rrule).toMatch(/no class in the 2 years/);
+    expect(b.ms).toBeLessThan(1000);
+    expect(h.r.status).toBe(200);
+    expect(h.ms).toBeLessThan(200);
+    expect(await ctx.db('sessions').count({ n: '*' })).toEqual([{ n: 0 }]);
+  });
+});
+
+describe('moving “this and the following” across a clock change (Europe/London leaves BST on 31 Oct 2027)', () => {
+  it('keeps each class’s local wall-clock time and checks overlaps at the times it lands on', async () => {
+    ctx.clock.set('2027-10-20T10:00:00Z');
+    const desk = await as(ctx, 'reception');
+    const roomId = await makeRoom(ctx.db);
+    const p = await makePoint(ctx.db, { roomId, clearedAt: '2027-10-19T10:00:00Z', structuralRatingKn: 30 });
+    for (const g of await makeStandardPath(ctx.db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: '2028-06-30T00:00:00Z' } })) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2028-06-30T00:00:00Z' });
+    const [ct] = await ctx.db('class_types').insert({ name: 'Silks evening', apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');
+    const instructor = await makeUser(ctx.db, { role: 'instructor' });
+    const other = await makeUser(ctx.db, { role: 'instructor' });
+    const base = { classTypeId: (ct as { id: number }).id, instructorId: instructor.id, roomId, pointIds: [p.id] };
+    // Saturdays at 18:00 local: 30 Oct is still summer time (17:00Z), 6 and 13 Nov are not (18:00Z).
+    const series = await desk.post('/api/sessions').send({ ...base, startsAt: '2027-10-30T17:00:00Z', endsAt: '2027-10-30T18:00:00Z', rrule: 'FREQ=WEEKLY;COUNT=3' });
+    expect(series.status, JSON.stringify(series.body)).toBe(201);
+    // Another class holds the point on Sunday 7 Nov at 19:00 local (19:00Z), right after where the moved class belongs.
+    expect((await desk.post('/api/sessions').send({ ...base, instructorId: other.id, startsAt: '2027-11-07T19:00:00Z', endsAt: '2027-11-07T20:00:00Z' })).status).toBe(201);
+
+    // Move the first to Sunday 31 Oct 18:00 local (GMT by then, 18:00Z): 25 hours later, one wall-clock day.
+    const moved = await desk.patch(`/api/sessions/${series.body.sessionIds[0]}`).send({ startsAt: '2027-10-31T18:00:00Z', endsAt: '2027-10-31T19:00:00Z', scope: 'following' });
+    expect(moved.status).toBe(200);
+    const starts = await ctx.db('sessions').whereIn('id', series.body.sessionIds).orderBy('starts_at').pluck('starts_at');
+    // Each lands on Sunday 18:00 local; a fixed 25 h offset would put 7 and 14 Nov at 19:00 and clash with the other class.
+    expect(starts).toEqual(['2027-10-31T18:00:00.000Z', '2027-11-07T18:00:00.000Z', '2027-11-14T18:00:00.000Z']);
+
+    // Overlaps are checked on those times: moving the rest to 18:30 local now clashes on 7 Nov, named by its own time.
+    const clash = await desk.patch(`/api/sessions/${series.body.sessionIds[0]}`).send({ startsAt: '2027-10-31T18:30:00Z', endsAt: '2027-10-31T19:30:00Z', scope: 'following' });
+    expect(clash.status).toBe(409);
+    expect(clash.body.error.details.occurrences.map((o: { startsAt: string }) => o.startsAt)).toEqual(['2027-11-07T18:30:00.000Z']);
+  });
+});
+
+describe('a daily class at 01:30 across the night the clocks go back (Europe/London, 31 Oct 2027)', () => {
+  it('is booked at the first 01:30 that night, and at 01:30 local every other night [published: RFC 5545 §3.3.5]', async () => {
+    ctx.clock.set('2027-10-20T10:00:00Z');
+    const desk = await as(ctx, 'reception');
+    const roomId = await makeRoom(ctx.db);
+    const p = await makePoint(ctx.db, { roomId, clearedAt: '2027-10-19T10:00:00Z', structuralRatingKn: 30 });
+    for (const g of await makeStandardPath(ctx.db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: '2028-06-30T00:00:00Z' } })) await ctx.db('gear_items').where({ id: g }).update({ inspected_until: '2028-06-30T00:00:00Z' });
+    const [ct] = await ctx.db('class_types').insert({ name: 'Night silks', apparatus: 'fabric', duration_minutes: 45, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');
+    const instructor = await makeUser(ctx.db, { role: 'instructor' });
+    // 30 Oct 01:30 BST = 00:30Z.
+    const res = await desk.post('/api/sessions').send({ classTypeId: (ct as { id: number }).id, instructorId: instructor.id, roomId, pointIds: [p.id], startsAt: '2027-10-30T00:30:00Z', endsAt: '2027-10-30T01:15:00Z', rrule: 'FREQ=DAILY;COUNT=3' });
+    expect(res.status).toBe(201);
+    const rows = await ctx.db('sessions').whereIn('id', res.body.sessionIds).orderBy('starts_at').select('starts_at', 'ends_at');
+    expect(rows).toEqual([
+      { starts_at: '2027-10-30T00:30:00.000Z', ends_at: '2027-10-30T01:15:00.000Z' },
+      { starts_at: '2027-10-31T00:30:00.000Z', ends_at: '2027-10-31T01:15:00.000Z' }, // the first 01:30 (BST), not 01:30Z
+      { starts_at: '2027-11-01T01:30:00.000Z', ends_at: '2027-11-01T02:15:00.000Z' }, // 01:30 GMT
+    ]);
+  });
+});
+
+describe('a class that has begun or taken place', () => {
+  it('cannot be cancelled or moved once begun, nor changed at all once over (409 session_in_past), and the instructor is not e-mailed', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studioWithPoints(2);
+    const booked = await desk.post('/api/sessions').send(body(s, { pointIds: [s.points[0]] }));
+    expect(booked.status).toBe(201);
+    ctx.clock.set('2026-12-03T18:30:00Z'); // half-way through the class
+    const cancel = await desk.post(`/api/sessions/${booked.body.id}/cancel`).send({ reason: 'Too late' });
+    expect(cancel.status).toBe(409);
+    expect(cancel.body.error).toMatchObject({ code: 'session_in_past', message: 'This class has already begun, so it cannot be cancelled.' });
+    expect((await desk.patch(`/api/sessions/${booked.body.id}`).send({ startsAt: '2026-12-03T18:00:00Z', endsAt: '2026-12-03T20:00:00Z' })).status).toBe(409);
+    ctx.clock.set('2026-12-04T10:00:00Z'); // the next day
+    const move = await desk.patch(`/api/sessions/${booked.body.id}`).send({ startsAt: '2026-12-05T18:00:00Z', endsAt: '2026-12-05T19:00:00Z' });
+    expect(move.status).toBe(409);
+    expect(move.body.error).toMatchObject({ code: 'session_in_past', message: expect.stringMatching(/already taken place/) });
+    expect((await desk.post(`/api/sessions/${booked.body.id}/cancel`).send({ reason: 'Records tidy-up' })).status).toBe(409);
+    expect((await desk.put(`/api/sessions/${booked.body.id}/points`).send({ pointIds: [s.points[1]] })).status).toBe(409);
+    const row = await ctx.db('sessions').where({ id: booked.body.id }).first();
+    expect(row).toMatchObject({ starts_at: '2026-12-03T18:00:00.000Z' });
+    expect(Boolean(row.cancelled)).toBe(false);
+    expect(await ctx.db('outbox_messages').where({ kind: 'session_change' }).count({ n: '*' })).toEqual([{ n: 0 }]);
   });
 });

@@ -1,3 +1,4 @@
+import { takenMessage } from '../../../shared/text/labels';
 import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, notFound } from '../../http/errors';
@@ -20,7 +21,8 @@ export function classTypesService(deps: { db: Db; repo: ClassTypesRepository; au
       return c;
     },
     async create(input: CreateClassType, actorId: number) {
-      if (await repo.nameTaken(input.name)) throw conflict('name_taken', 'A class type with that name already exists.', { fields: { name: 'Already used' } });
+      const takenBy = await repo.nameTaken(input.name);
+      if (takenBy) throw conflict('name_taken', takenMessage('Class type', input.name, takenBy), { fields: { name: takenBy === input.name ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
       const id = await writeTransaction(db, async (trx) => {
         const newId = await repo.insert(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'class_type.created', entity: 'class_type', entityId: newId, after: input }, clock.now());

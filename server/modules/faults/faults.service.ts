@@ -2,7 +2,7 @@ import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
-import type { DocumentsService } from '../documents/documents.service';
+import type { DocumentsService, UploadedFile } from '../documents/documents.service';
 import type { RigRepository } from '../rig/rig.repository';
 import { voidClearance } from '../rig/clearance-voids';
 import type { CreateFault, FaultListQuery, ResolveFault } from '../../../shared/schemas/safety';
@@ -55,16 +55,27 @@ export function faultsService(deps: { db: Db; faults: FaultsRepository; rig: Rig
       if (!f) throw notFound('That fault');
       return f;
     },
-    async report(input: CreateFault, photos: Express.Multer.File[], actorId: number) {
-      // Photos are checked from their bytes before anything is written.
-      await docs.checkFiles(photos);
-      const id = await writeTransaction(db, async (trx) => {
+    /**
+     * A fault is recorded even when its photos cannot be kept (a full or unwritable upload disk):
+     * the answer lists them in `photosNotStored` with a warning, so the reporter can add them later.
+     * A photo of the wrong type still refuses the whole report (415) before anything is written.
+     */
+    async report(input: CreateFault, photos: UploadedFile[], actorId: number) {
+      docs.checkFiles(photos);
+      const { id, notStored } = await writeTransaction(db, async (trx) => {
         const faultId = await open(trx, { ...input, reportedBy: actorId });
-        if (photos.length) await docs.store(trx, { type: 'fault', id: faultId }, photos, 'photo', actorId);
-        return faultId;
+        const kept = photos.length ? await docs.store(trx, { type: 'fault', id: faultId }, photos, 'photo', actorId) : { notStored: [] };
+        return { id: faultId, notStored: kept.notStored };
       });
       await deps.events?.faultOpened?.(id);
-      return this.get(id);
+      const fault = await this.get(id);
+      if (!notStored.length) return fault;
+      const n = notStored.length;
+      return {
+        ...fault,
+        photosNotStored: notStored,
+        warnings: [{ code: 'photos_not_stored', message: `The fault is recorded, but ${n === 1 ? 'one photo' : `${n} photos`} could not be stored (${notStored[0].reason}). Add ${n === 1 ? 'it' : 'them'} again later.` }],
+      };
     },
     /**
      * Resolving never reopens a point by itself: the clearance was voided when the fault opened,

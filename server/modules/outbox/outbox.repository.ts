@@ -78,14 +78,30 @@ const toMessage = (r: OutboxRow): OutboxMessage => ({
   sentAt: r.sent_at,
 });
 
-/** Sends tried before a message is given up as failed. */
-export const MAX_ATTEMPTS = 8;
+/**
+ * Tries before a message with no moment of its own is given up as failed (a change e-mail, a
+ * digest): with the capped back-off below, about three hours of an SMTP server away.
+ */
+export const MAX_ATTEMPTS = 16;
 const BASE_DELAY_MS = 30_000;
-const MAX_DELAY_MS = 60 * 60_000;
+/** The longest wait between tries, so a message goes soon after the server is back. */
+export const MAX_DELAY_MS = 15 * 60_000;
 
-/** Wait after the n-th failed attempt (n ≥ 1): 30 s, 1 min, 2 min, … capped at an hour. */
+/** Wait after the n-th failed attempt (n ≥ 1): 30 s, 1 min, 2 min, … capped at 15 minutes. */
 export function retryDelayMs(attempts: number): number {
   return Math.min(BASE_DELAY_MS * 2 ** Math.max(0, attempts - 1), MAX_DELAY_MS);
+}
+
+/**
+ * How long a failed message is worth trying again. A reminder or an at-risk alert is useful until
+ * its class starts (the sender drops it then, or sooner if the class moves or is no longer at
+ * risk), however many tries that takes; anything else gets MAX_ATTEMPTS tries.
+ */
+export function nextTry(m: Pick<OutboxMessage, 'kind' | 'sessionStartsAt'>, attempt: number, now: Date): { state: 'queued' | 'failed'; at: Date } {
+  const at = new Date(now.getTime() + retryDelayMs(attempt));
+  const timed = (m.kind === 'reminder' || m.kind === 'at_risk') && m.sessionStartsAt;
+  if (timed) return { state: at.getTime() < new Date(m.sessionStartsAt!).getTime() ? 'queued' : 'failed', at };
+  return { state: attempt >= MAX_ATTEMPTS ? 'failed' : 'queued', at };
 }
 
 export function outboxRepository(db: Db) {
@@ -150,19 +166,29 @@ export function outboxRepository(db: Db) {
       await db('outbox_messages').where({ id, state: 'sending' }).update({ state: 'sent', sent_at: now.toISOString(), lease_until: null, last_error: null });
     },
 
-    /** Records a failed attempt: back to the queue after a back-off, or `failed` after the last attempt. Returns the new state. */
-    async markFailed(id: number, attempt: number, error: string, now: Date): Promise<'queued' | 'failed'> {
-      const state = attempt >= MAX_ATTEMPTS ? 'failed' : 'queued';
+    /** Records a failed attempt: back to the queue after a back-off while still useful (`nextTry`), else `failed`. Returns the new state. */
+    async markFailed(m: Pick<OutboxMessage, 'id' | 'kind' | 'sessionStartsAt'>, attempt: number, error: string, now: Date): Promise<'queued' | 'failed'> {
+      const next = nextTry(m, attempt, now);
       await db('outbox_messages')
-        .where({ id })
+        .where({ id: m.id })
         .update({
-          state,
+          state: next.state,
           attempts: attempt,
           last_error: error.slice(0, 1000),
           lease_until: null,
-          next_attempt_at: new Date(now.getTime() + retryDelayMs(attempt)).toISOString(),
+          next_attempt_at: next.at.toISOString(),
         });
-      return state;
+      return next.state;
+    },
+
+    async byId(id: number, trx: Db = db): Promise<OutboxMessage | null> {
+      const row = (await trx('outbox_messages').where({ id }).first()) as OutboxRow | undefined;
+      return row ? toMessage(row) : null;
+    },
+
+    /** A failed message queued again by the owner, due at once, with its tries counted afresh. */
+    async requeue(id: number, now: Date, trx: Db): Promise<void> {
+      await trx('outbox_messages').where({ id, state: 'failed' }).update({ state: 'queued', attempts: 0, next_attempt_at: now.toISOString(), lease_until: null });
     },
 
     /** Claimed rows handed back untried (the server went away mid-batch): queued again, no attempt counted. */

@@ -1,7 +1,9 @@
 import { createHash } from 'node:crypto';
-import type { Db } from '../../db/knex';
+import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import type { StudioRepository } from '../studio/studio.repository';
+import type { AuditRepository } from '../audit/audit.repository';
+import { conflict, notFound } from '../../http/errors';
 import { rigRepository } from '../rig/rig.repository';
 import { loadSnapshots } from '../rig/point-snapshots';
 import { pointStatusAt } from '../../../shared/clearance';
@@ -37,7 +39,7 @@ function movedFrom(uniqueKey: string): { startsAt: string; endsAt: string } | nu
 }
 const sameInstant = (a: string | Date, b: string | Date) => new Date(a).getTime() === new Date(b).getTime();
 
-export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string; undoWindowMs?: number }) {
+export function outboxService(deps: { db: Db; clock: Clock; studio: StudioRepository; appUrl: string; undoWindowMs?: number; audit?: AuditRepository }) {
   const { db, clock, studio, appUrl } = deps;
   const undoWindowMs = deps.undoWindowMs ?? UNDO_WINDOW_MS;
   const repo = outboxRepository(db);
@@ -189,6 +191,27 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     async list(filter: { state?: OutboxState; cursor?: [number]; limit?: number }) {
       const page = await repo.page(filter);
       return { items: page.items.map(({ text: _text, html: _html, ...m }) => m), nextCursor: page.nextCursor };
+    },
+
+    /**
+     * The owner sends a failed message again (after fixing the mail settings, say): it is queued
+     * with its tries counted afresh and goes at the next cycle, written afresh if it is a reminder
+     * or an alert. A reminder or alert whose class has begun is no longer worth sending.
+     */
+    async resend(id: number, actorId: number) {
+      const now = clock.now();
+      await writeTransaction(db, async (trx) => {
+        const m = await repo.byId(id, trx);
+        if (!m) throw notFound('That message');
+        if (m.state !== 'failed') throw conflict('not_failed', `Only a failed message can be sent again; this one is ${m.state}.`);
+        if ((m.kind === 'reminder' || m.kind === 'at_risk') && m.sessionStartsAt && new Date(m.sessionStartsAt).getTime() <= now.getTime()) {
+          throw conflict('no_longer_useful', 'Its class has already begun, so this message is no longer worth sending.');
+        }
+        await repo.requeue(id, now, trx);
+        await deps.audit?.record(trx, { actorId, action: 'outbox.resent', entity: 'outbox_message', entityId: id, before: { state: m.state, attempts: m.attempts, lastError: m.lastError }, after: { state: 'queued' } }, now);
+      });
+      const { text: _text, html: _html, ...wire } = (await repo.byId(id))!;
+      return wire;
     },
   };
 }

@@ -17,15 +17,16 @@ import {
 } from '../../../shared/schemas/rig';
 import { writeTransaction, type Db } from '../../db/knex';
 import { HttpError, notFound } from '../../http/errors';
-import type { DocumentsService } from '../documents/documents.service';
-import { uploadMiddleware } from '../documents/documents.service';
+import type { DocumentsService, UploadedFile } from '../documents/documents.service';
 import type { RigService } from './rig.service';
 import type { SessionRecords } from '../sessions/session-records';
+import type { PersonLimiters } from '../../http/person-limits';
 
 const RIG_EDITORS = ['rigger', 'owner'] as const;
 const RIGGER = ['rigger'] as const;
 
-export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsService, db: Db, records: SessionRecords) {
+export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsService, db: Db, records: SessionRecords, limits: PersonLimiters) {
+  const uploadLimit = limits.uploads;
   // rooms
   api.get('/rooms', { access: 'signed_in', handler: () => rig.listRooms() });
   api.get('/rooms/:id', { access: 'signed_in', params: idParams, handler: ({ params }) => rig.getRoom(params.id) });
@@ -78,15 +79,17 @@ export function rigRoutes(api: ApiRouter, rig: RigService, docs: DocumentsServic
     api.post(base, {
       access: RIG_EDITORS,
       params: idParams,
-      before: [uploadMiddleware('file', 1)],
+      before: [uploadLimit, docs.upload('file', 1)],
       body: uploadFieldsSchema,
       status: 201,
       handler: async ({ params, body, req, user }) => {
         await exists(params.id);
-        const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+        const files = (req.files as UploadedFile[] | undefined) ?? [];
         if (!files.length) throw new HttpError(400, 'no_file', 'Choose a file to upload (field “file”).');
-        const [doc] = await writeTransaction(db, (trx) => docs.store(trx, { type: owner, id: params.id }, files, body.kind, user.id));
-        return doc;
+        const { stored, notStored } = await writeTransaction(db, (trx) => docs.store(trx, { type: owner, id: params.id }, files, body.kind, user.id));
+        // A document is the whole request: when it cannot be kept, nothing was recorded and the sender is told why.
+        if (!stored.length) throw new HttpError(507, 'file_not_stored', `“${notStored[0].name}” could not be stored: ${notStored[0].reason}. Nothing was saved; try again later.`);
+        return stored[0];
       },
     });
   }

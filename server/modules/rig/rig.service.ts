@@ -1,3 +1,4 @@
+import { takenMessage } from '../../../shared/text/labels';
 import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
@@ -67,7 +68,8 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       return { ...room, points };
     },
     async createRoom(name: string, actorId: number) {
-      if (await rig.roomNameTaken(name)) throw conflict('room_exists', 'A room with that name already exists.', { fields: { name: 'Already used' } });
+      const takenBy = await rig.roomNameTaken(name);
+      if (takenBy) throw conflict('room_exists', takenMessage('Room', name, takenBy), { fields: { name: takenBy === name ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
       return writeTransaction(db, async (trx) => {
         const room = await rig.insertRoom(name, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'room.created', entity: 'room', entityId: room.id, after: room }, clock.now());
@@ -114,7 +116,8 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     },
     async createPoint(input: CreatePoint, actorId: number) {
       if (!(await rig.roomById(input.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });
-      if (await rig.pointLabelTaken(input.label)) throw conflict('label_taken', 'Another point already has that label.', { fields: { label: 'Already used' } });
+      const takenBy = await rig.pointLabelTaken(input.label);
+      if (takenBy) throw conflict('label_taken', takenMessage('Point', input.label, takenBy), { fields: { label: takenBy === input.label ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
       const id = await writeTransaction(db, async (trx) => {
         const newId = await rig.insertPoint(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'point.created', entity: 'point', entityId: newId, after: input }, clock.now());
@@ -125,7 +128,8 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     async updatePoint(id: number, patch: UpdatePoint, actorId: number) {
       const before = (await bundle(id)).point;
       if (patch.roomId !== undefined && !(await rig.roomById(patch.roomId))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick an existing room' } });
-      if (patch.label !== undefined && (await rig.pointLabelTaken(patch.label, id))) throw conflict('label_taken', 'Another point already has that label.', { fields: { label: 'Already used' } });
+      const takenBy = patch.label !== undefined ? await rig.pointLabelTaken(patch.label, id) : null;
+      if (takenBy) throw conflict('label_taken', takenMessage('Point', patch.label!, takenBy), { fields: { label: takenBy === patch.label ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
       await writeTransaction(db, async (trx) => {
         const now = clock.now();
         await rig.updatePoint(id, patch, now, trx);
@@ -259,7 +263,8 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     },
     async createGear(input: CreateGear, actorId: number) {
       await refuseImpossibleFacts(input);
-      if (await rig.serialTaken(input.serial)) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
+      const takenBy = await rig.serialTaken(input.serial);
+      if (takenBy) throw conflict('serial_taken', takenMessage('Gear serial', input.serial, takenBy), { fields: { serial: takenBy === input.serial ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
       const id = await writeTransaction(db, async (trx) => {
         const newId = await rig.insertGear(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'gear.created', entity: 'gear', entityId: newId, after: input }, clock.now());
@@ -269,7 +274,8 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
     },
     async updateGear(id: number, patch: UpdateGear, actorId: number) {
       const before = await gearOrThrow(id);
-      if (patch.serial !== undefined && (await rig.serialTaken(patch.serial, id))) throw conflict('serial_taken', 'A gear item with that serial already exists.', { fields: { serial: 'Already used' } });
+      const takenBy = patch.serial !== undefined ? await rig.serialTaken(patch.serial, id) : null;
+      if (takenBy) throw conflict('serial_taken', takenMessage('Gear serial', patch.serial!, takenBy), { fields: { serial: takenBy === patch.serial ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
       const after = { ...before, ...patch } as GearRecord;
       // The edit may be consistent on its own yet not with what is stored (a service date before the stored manufacture).
       await refuseImpossibleFacts(after);

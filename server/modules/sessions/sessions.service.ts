@@ -12,6 +12,7 @@ import type { ClassTypesRepository } from '../class-types/class-types.repository
 import { profileFor } from '../class-types/class-types.service';
 import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, formatStudioDay, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
+import { shiftWallClock, wallClockDelta } from '../../../shared/schedule/wall-clock';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
 import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, SwapPoints, UpdateSession } from '../../../shared/schemas/sessions';
@@ -33,7 +34,13 @@ interface Occurrence {
   endsAt: Date;
 }
 
-const MAX_RANGE_DAYS = 100;
+/**
+ * The longest range GET /api/sessions answers: the calendar's month view (six weeks) and a day, so
+ * a month across a clock change (an hour longer) fits. Worked out afresh, a range is one
+ * synchronous burst as long as the range; 100-day ranges asked forty at a time held every other
+ * request (a health check, a booking) behind them.
+ */
+const MAX_RANGE_DAYS = 43;
 
 const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
 
@@ -197,6 +204,20 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
     const s = await repo.byId(id, trx);
     if (!s) throw notFound('That session');
     return s;
+  }
+
+  /**
+   * A class that has begun is part of the record: it is not cancelled or moved (a cancellation
+   * would reach its instructor after it began), and once over nothing about it changes. While it
+   * runs, points can still be swapped (a point that fails mid-class) and a cover instructor named.
+   * Refused before anything is written, so no one is e-mailed.
+   */
+  function refuseIfPast(s: SessionRecord, now: Date, what: string, once: 'begun' | 'over') {
+    const begun = new Date(s.startsAt).getTime() <= now.getTime();
+    const over = new Date(s.endsAt).getTime() <= now.getTime();
+    if (over || (once === 'begun' && begun)) {
+      throw conflict('session_in_past', `This class has ${over ? 'already taken place' : 'already begun'}, so it cannot be ${what}.`, { sessionId: s.id, startsAt: s.startsAt });
+    }
   }
 
   return {
@@ -373,9 +394,14 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
+        const moves = patch.startsAt !== undefined || patch.endsAt !== undefined;
+        refuseIfPast(s, now, moves ? 'moved' : 'changed', moves ? 'begun' : 'over');
         const targets = patch.scope === 'following' && s.seriesId ? await repo.bySeriesFrom(s.seriesId, s.startsAt, trx) : [s];
-        const dStart = patch.startsAt ? new Date(patch.startsAt).getTime() - new Date(s.startsAt).getTime() : 0;
-        const dEnd = patch.endsAt ? new Date(patch.endsAt).getTime() - new Date(s.endsAt).getTime() : dStart;
+        // The change is applied to every class as wall-clock time in the studio's zone: moving
+        // Tuesday 18:00 to 19:00 moves each later Tuesday to 19:00 local, across a clock change too.
+        const zone = policy.timeZone;
+        const dStart = patch.startsAt ? wallClockDelta(new Date(s.startsAt), new Date(patch.startsAt), zone) : 0;
+        const dEnd = patch.endsAt ? wallClockDelta(new Date(s.endsAt), new Date(patch.endsAt), zone) : dStart;
         if (patch.instructorId !== undefined) await checkInstructor(patch.instructorId, trx);
         const classType = await classTypeOrThrow(s.classTypeId, trx);
         const pointsOf = (t: SessionRecord) => patch.pointIds ?? t.pointIds;
@@ -384,7 +410,10 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         // Every class is checked before any is written: a refusal names each one that cannot take the change.
         const checks = [];
         for (const t of targets) {
-          const occ = { startsAt: new Date(new Date(t.startsAt).getTime() + dStart), endsAt: new Date(new Date(t.endsAt).getTime() + dEnd) };
+          const occ =
+            t.id === s.id
+              ? { startsAt: new Date(patch.startsAt ?? s.startsAt), endsAt: patch.endsAt ? new Date(patch.endsAt) : shiftWallClock(new Date(s.endsAt), dEnd, zone) }
+              : { startsAt: shiftWallClock(new Date(t.startsAt), dStart, zone), endsAt: shiftWallClock(new Date(t.endsAt), dEnd, zone) };
           if (occ.endsAt <= occ.startsAt) throw new HttpError(400, 'invalid_request', 'The class must end after it starts.', { source: 'body', fields: { endsAt: 'Must be after the start' } });
           checks.push({ t, occ, ...(await checkOccurrence(trx, { classType, policy, now, roomId: t.roomId, instructorId: patch.instructorId ?? t.instructorId, occ, pointIds: pointsOf(t), bundles, exclude, named: namedOf(t.recordedApparatus, true) })) });
         }
@@ -401,7 +430,8 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           await repo.replacePoints(t.id, pointsOf(t), choicesOf(points), occ.startsAt.toISOString(), occ.endsAt.toISOString(), trx);
           const after = (await repo.byId(t.id, trx))!;
           // One notice per class: a move that also changes points is told as the move (it names the points).
-          if (dStart || dEnd) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
+          const moved = occ.startsAt.getTime() !== new Date(t.startsAt).getTime() || occ.endsAt.getTime() !== new Date(t.endsAt).getTime();
+          if (moved) await deps.notifier?.sessionChanged(trx, { kind: 'moved', sessionId: t.id, before: t, after, at: now });
           else if (newPoints) await deps.notifier?.sessionChanged(trx, { kind: 'points_swapped', sessionId: t.id, before: t, after, at: now });
           if (patch.instructorId !== undefined && patch.instructorId !== t.instructorId) await deps.notifier?.sessionChanged(trx, { kind: 'instructor_changed', sessionId: t.id, before: t, after, at: now });
         }
@@ -422,6 +452,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'A cancelled class cannot be changed.');
+        refuseIfPast(s, now, 'given other points', 'over');
         const roomId = body.roomId ?? s.roomId;
         if (roomId !== s.roomId && !(await rig.roomById(roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
         const following = body.scope === 'following' && s.seriesId !== null;
@@ -466,6 +497,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         const now = clock.now();
         const s = await sessionOrThrow(id, trx);
         if (s.cancelled) throw conflict('session_cancelled', 'This class is already cancelled.');
+        refuseIfPast(s, now, 'cancelled', 'begun');
         const targets = body.scope === 'following' && s.seriesId ? await repo.bySeriesFrom(s.seriesId, s.startsAt, trx) : [s];
         for (const t of targets) {
           await repo.update(t.id, { cancelled: true, cancelReason: body.reason }, now, trx);

@@ -1,4 +1,4 @@
-import { infiniteQueryOptions, queryOptions } from '@tanstack/react-query';
+import { infiniteQueryOptions, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { outboxMessageSchema } from '../../../shared/schemas/outbox';
@@ -26,3 +26,12 @@ export const mailQueries = {
     }),
   mailbox: () => queryOptions({ queryKey: [...mailQueries.all, 'mailbox'], queryFn: () => api('/dev/mailbox', { schema: z.array(caughtMessageSchema) }), refetchInterval: 10_000 }),
 };
+
+/** The owner sends a failed message again; it goes at the mail worker's next cycle. */
+export function useResendMessage() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: number) => api(`/outbox/${id}/resend`, { method: 'POST', schema: outboxMessageSchema }),
+    onSuccess: () => void qc.invalidateQueries({ queryKey: mailQueries.all }),
+  });
+}

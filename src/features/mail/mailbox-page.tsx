@@ -1,9 +1,12 @@
 import { useState } from 'react';
 import { useInfiniteQuery, useQuery } from '@tanstack/react-query';
-import { Button } from '../../components/ui/button';
+import { toast } from 'sonner';
 import { Card, EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
+import { Button } from '../../components/ui/button';
+import { ConfirmDialog } from '../../components/ui/confirm';
 import { ApiError } from '../../lib/api-client';
-import { mailQueries, type CaughtMessage } from './api';
+import type { OutboxMessageWire } from '../../../shared/schemas/outbox';
+import { mailQueries, useResendMessage, type CaughtMessage } from './api';
 
 export function MailboxPage() {
   const box = useQuery(mailQueries.mailbox());
@@ -40,6 +43,21 @@ export function MailboxPage() {
 function OutboxTrouble() {
   const failed = useInfiniteQuery(mailQueries.outbox('failed'));
   const queued = useInfiniteQuery(mailQueries.outbox('queued'));
+  const resend = useResendMessage();
+  const [asking, setAsking] = useState<OutboxMessageWire | null>(null);
+  const confirm = () => {
+    if (!asking) return;
+    resend.mutate(asking.id, {
+      onSuccess: () => {
+        toast.success('Queued again: it goes out at the mail worker’s next run.');
+        setAsking(null);
+      },
+      onError: (err) => {
+        toast.error(err instanceof ApiError ? err.message : 'The message could not be queued again.');
+        setAsking(null);
+      },
+    });
+  };
   if (failed.isPending || queued.isPending) return <Loading label="Loading the outbox…" />;
   if (failed.isError) return <ErrorState error={failed.error} retry={() => failed.refetch()} />;
   if (queued.isError) return <ErrorState error={queued.error} retry={() => queued.refetch()} />;
@@ -52,9 +70,16 @@ function OutboxTrouble() {
       ) : (
         <ul className="divide-y divide-line text-sm">
           {rows.map((m) => (
-            <li key={m.id} className="py-2">
-              <span className={`mr-2 font-medium ${m.state === 'failed' ? 'text-stop-700' : 'text-warn-700'}`}>{m.state === 'failed' ? 'Failed' : 'Waiting'}</span>
-              {m.subject} <span className="text-muted">to {m.to.join(', ')} · {m.attempts} attempt{m.attempts === 1 ? '' : 's'}{m.lastError ? ` · last error: ${m.lastError}` : ''}</span>
+            <li key={m.id} className="flex flex-wrap items-center justify-between gap-2 py-2">
+              <span>
+                <span className={`mr-2 font-medium ${m.state === 'failed' ? 'text-stop-700' : 'text-warn-700'}`}>{m.state === 'failed' ? 'Failed' : 'Waiting'}</span>
+                {m.subject} <span className="text-muted">to {m.to.join(', ')} · {m.attempts} attempt{m.attempts === 1 ? '' : 's'}{m.lastError ? ` · last error: ${m.lastError}` : ''}</span>
+              </span>
+              {m.state === 'failed' ? (
+                <Button variant="secondary" disabled={resend.isPending} onClick={() => setAsking(m)}>
+                  Send again
+                </Button>
+              ) : null}
             </li>
           ))}
         </ul>
@@ -69,6 +94,9 @@ function OutboxTrouble() {
           Show older messages
         </Button>
       ) : null}
+      <ConfirmDialog open={asking !== null} title="Send this message again?" confirmLabel="Send again" danger={false} busy={resend.isPending} onCancel={() => setAsking(null)} onConfirm={confirm}>
+        “{asking?.subject}” to {asking?.to.join(', ')} is queued again and goes out at the mail worker’s next run. Check the mail settings first if the last error names them.
+      </ConfirmDialog>
     </Card>
   );
 }

@@ -64,3 +64,38 @@ describe('expandSeries in the studio’s zone', () => {
     expect(() => parseRule('FREQ=WEEKLY;BYDAY=XX')).toThrow(RecurrenceError);
   });
 });
+
+describe('expandSeries bounds every rule', () => {
+  it('refuses a rule that never gives a class (30 February) at once, with a clear message', () => {
+    const t = performance.now();
+    expect(() => expandSeries('FREQ=DAILY;BYMONTH=2;BYMONTHDAY=30;COUNT=5', new Date('2026-12-01T18:00:00Z'), 'Europe/London')).toThrow(/no class in the 2 years/);
+    expect(() => expandSeries('FREQ=DAILY;INTERVAL=7;BYDAY=MO;COUNT=5', new Date('2026-12-01T18:00:00Z'), 'Europe/London')).toThrow(RecurrenceError); // a Tuesday, every 7th day: never a Monday
+    expect(performance.now() - t).toBeLessThan(500);
+  });
+
+  it('stops an open-ended or far-reaching rule two years after the first class', () => {
+    const got = expandSeries('FREQ=MONTHLY;BYMONTHDAY=1', new Date('2026-12-01T18:00:00Z'), 'Europe/London');
+    expect(got).toHaveLength(25); // 1 Dec 2026 … 1 Dec 2028
+    expect(got.at(-1)!.toISOString()).toBe('2028-12-01T18:00:00.000Z');
+    expect(expandSeries('FREQ=YEARLY;UNTIL=20400101T000000Z', new Date('2026-12-01T18:00:00Z'), 'UTC')).toHaveLength(3);
+  });
+
+  it('still finds rare but real days within the horizon (29 February 2028)', () => {
+    const got = expandSeries('FREQ=YEARLY;BYMONTH=2;BYMONTHDAY=29;COUNT=1', new Date('2026-12-01T18:00:00Z'), 'UTC');
+    expect(got.map((d) => d.toISOString())).toEqual(['2028-02-29T18:00:00.000Z']);
+  });
+});
+
+describe('expandSeries across a clock change [published: RFC 5545 §3.3.5]', () => {
+  it('books a daily 01:30 class on the night the clocks go back at the first 01:30', () => {
+    // London leaves BST at 02:00 BST on 25 Oct 2026: 01:30 happens at 00:30Z (BST) and again at 01:30Z (GMT).
+    const got = expandSeries('FREQ=DAILY;COUNT=3', new Date('2026-10-24T00:30:00Z'), 'Europe/London');
+    expect(got.map((d) => d.toISOString())).toEqual(['2026-10-24T00:30:00.000Z', '2026-10-25T00:30:00.000Z', '2026-10-26T01:30:00.000Z']);
+  });
+
+  it('reads a 01:30 the clocks skip with the offset before the gap (02:30 summer time)', () => {
+    // London enters BST at 01:00 GMT on 29 Mar 2026; 01:30 does not exist that night.
+    const got = expandSeries('FREQ=DAILY;COUNT=3', new Date('2026-03-28T01:30:00Z'), 'Europe/London');
+    expect(got.map((d) => d.toISOString())).toEqual(['2026-03-28T01:30:00.000Z', '2026-03-29T01:30:00.000Z', '2026-03-30T00:30:00.000Z']);
+  });
+});

@@ -54,6 +54,8 @@ export function ReportFaultForm({ pointId, gearId, onDone, onCancel, onDirty }: 
       {
         onSuccess: (f) => {
           toast.success('Fault reported. The point is blocked until a rigger clears it.');
+          // The report stands even when the server could not keep its photos; say so plainly.
+          for (const w of f.warnings ?? []) toast.warning(w.message, { duration: 15_000 });
           setDone(f);
         },
         onError: (err) => {

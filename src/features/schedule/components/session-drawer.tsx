@@ -36,11 +36,13 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
   const [flash, setFlash] = useState<string | null>(null);
   const started = new Date(s.startsAt).getTime() <= Date.now();
   const ended = new Date(s.endsAt).getTime() <= Date.now();
+  // Once a class has begun it is neither moved nor cancelled (the server answers 409 session_in_past);
+  // points can still be swapped and a cover instructor named until it is over.
   const actions: { key: Action; label: string; Icon: typeof Ban }[] = [
-    { key: 'points', label: 'Change points', Icon: ArrowLeftRight },
-    { key: 'move', label: 'Move', Icon: CalendarClock },
-    { key: 'instructor', label: 'Change instructor', Icon: UserRound },
-    { key: 'cancel', label: 'Cancel class', Icon: Ban },
+    { key: 'points' as const, label: 'Change points', Icon: ArrowLeftRight },
+    ...(started ? [] : [{ key: 'move' as const, label: 'Move', Icon: CalendarClock }]),
+    { key: 'instructor' as const, label: 'Change instructor', Icon: UserRound },
+    ...(started ? [] : [{ key: 'cancel' as const, label: 'Cancel class', Icon: Ban }]),
   ];
   const done = (message?: string) => {
     setAction(null);
@@ -101,7 +103,7 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
                 </Button>
               ))}
             </div>
-            {started ? <p className="text-sm text-muted">The class has started: changes are checked against the time now.</p> : null}
+            {started ? <p className="text-sm text-muted">The class has started: it can no longer be moved or cancelled. Points and the instructor can still change, checked against the time now.</p> : null}
             <div className="rounded-xl border border-line bg-white p-4" hidden={action === null}>
               {action === 'points' ? <ChangePointsForm session={s} timeZone={timeZone} onDone={done} /> : null}
               {action === 'move' ? <MoveSessionForm session={s} timeZone={timeZone} onDone={done} /> : null}
