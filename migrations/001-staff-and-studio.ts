@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { refuseInsertWhen } from '../server/db/dialect';
 
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('users', (t) => {
@@ -12,9 +13,8 @@ export async function up(knex: Knex): Promise<void> {
     t.string('created_at', 30).notNullable();
     t.string('updated_at', 30).notNullable();
   });
-  await knex.raw(
-    "CREATE TRIGGER users_role_check BEFORE INSERT ON users WHEN NEW.role NOT IN ('owner','reception','instructor','rigger') BEGIN SELECT RAISE(ABORT, 'invalid role'); END",
-  );
+  // Through the dialect adapter: on SQLite the same trigger as ever, on PostgreSQL its PL/pgSQL twin.
+  await refuseInsertWhen(knex, 'users_role_check', 'users', "NEW.role NOT IN ('owner','reception','instructor','rigger')", 'invalid role');
   await knex.schema.createTable('studios', (t) => {
     t.integer('id').primary();
     t.string('name', 120).notNullable();

@@ -1,9 +1,5 @@
 import type { Knex } from 'knex';
-
-const immutable = (table: string) => [
-  `CREATE TRIGGER ${table}_no_update BEFORE UPDATE ON ${table} BEGIN SELECT RAISE(ABORT, '${table} are append-only'); END`,
-  `CREATE TRIGGER ${table}_no_delete BEFORE DELETE ON ${table} BEGIN SELECT RAISE(ABORT, '${table} are append-only'); END`,
-];
+import { appendOnly } from '../server/db/dialect';
 
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('inspections', (t) => {
@@ -62,7 +58,8 @@ export async function up(knex: Knex): Promise<void> {
     t.string('prev_hash', 64).notNullable();
     t.string('hash', 64).notNullable();
   });
-  for (const sql of [...immutable('audit_entries'), ...immutable('inspections'), ...immutable('inspection_items')]) await knex.raw(sql);
+  // Through the dialect adapter: on SQLite the same triggers as ever, on PostgreSQL their PL/pgSQL twins.
+  for (const table of ['audit_entries', 'inspections', 'inspection_items']) await appendOnly(knex, table);
 }
 
 export async function down(knex: Knex): Promise<void> {

@@ -9,6 +9,7 @@ import * as m007 from './007-records-that-hold';
 import * as m008 from './008-sign-in-limits-and-session-versions';
 import * as m010 from './010-inspection-status';
 import * as m012 from './012-idempotency-keys';
+import * as m013 from './013-data-versions';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -25,6 +26,7 @@ const migrations: Record<string, Knex.Migration> = {
   '008-sign-in-limits-and-session-versions': m008,
   '010-inspection-status': m010,
   '012-idempotency-keys': m012,
+  '013-data-versions': m013,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import type { Db } from './db/knex';
 import type { Clock } from './clock';
 import type { Mailer } from './mail/transport';
-import type { FakeSmtp } from './mail/fake-smtp';
+import type { Mailbox } from './mail/fake-smtp';
 import { ApiRouter, type RouteDeclaration } from './http/route';
 import { authConfig, authenticate, authRoutes, requireSameOrigin, requireSignedIn } from './http/auth';
 import { signInGuard } from './http/sign-in-guard';
@@ -54,7 +54,8 @@ export interface AppDeps {
   clock: Clock;
   mailer: Mailer;
   /** The built-in mail catcher, when SMTP_URL is unset. */
-  fakeSmtp?: FakeSmtp | null;
+  /** The built-in mail catcher's messages (in this process, or the cluster primary's). */
+  fakeSmtp?: Mailbox | null;
   appUrl: string;
   authSecret: string;
   /** The audit chain's HMAC key, kept outside the database (AUDIT_KEY or data/.audit-key). */

@@ -1,13 +1,12 @@
 import { rawConnectionOf, type Db } from './knex';
+import { UNVERSIONED_TABLES } from './dialect';
 
 /**
- * A token that changes whenever the records a kept answer reads may have changed:
- *
- * - our own writes, counted from the statements through this knex: a write to any table but the
- *   ones no kept answer reads (`UNREAD_TABLES`) counts when it starts and when it has run, and so
- *   does the COMMIT or ROLLBACK of a transaction that made one;
- * - anyone else's commits (a second server on the same file, a maintenance script), from SQLite's
- *   `PRAGMA data_version` on our own connection, which moves only when another connection commits.
+ * A token that changes whenever the records a kept answer reads may have changed: the single
+ * row of `data_versions`, moved by triggers on every table but `UNVERSIONED_TABLES` (installed
+ * by `installDataVersionTriggers` after each migrate), whoever commits the change: this process,
+ * another server process on the same database, a maintenance script. One indexed read per ask;
+ * the same on SQLite and PostgreSQL.
  *
  * Derived answers kept under one token are never served under another.
  */
@@ -15,61 +14,27 @@ export interface DataVersion {
   current(): Promise<string>;
 }
 
-/**
- * Mail bookkeeping (written every worker cycle) and the sign-in counters (written at every
- * sign-in): read by no kept answer (sessions, Today, points, people).
- */
-export const UNREAD_TABLES = new Set(['outbox_messages', 'sign_in_counters']);
+/** Read by no kept answer (sessions, Today, points, people): writing them keeps kept answers. */
+export const UNREAD_TABLES = UNVERSIONED_TABLES;
 
-const READ = /^\s*(select\b|pragma\s+data_version\b)/i;
-const TX_START = /^\s*(begin|savepoint)\b/i;
-const TX_END = /^\s*(commit|rollback|release)\b/i;
-const TARGET = /^\s*(?:insert\s+(?:or\s+\w+\s+)?into|update(?:\s+or\s+\w+)?|delete\s+from|replace\s+into)\s+[`"[]?(\w+)/i;
-
-interface Statement {
-  sql?: string;
-  __knexTxId?: string;
-}
+const READ_VERSION = 'SELECT version FROM data_versions WHERE id = 1';
 
 export function dataVersion(db: Db): DataVersion {
-  let writes = 0;
-  const dirty = new Set<string>();
-  const onStatement = (q: Statement) => {
-    const sql = q.sql ?? '';
-    if (READ.test(sql) || TX_START.test(sql)) return;
-    if (TX_END.test(sql)) {
-      // A transaction's end counts when it wrote something that matters (or is not knex's own).
-      if (!q.__knexTxId || dirty.delete(q.__knexTxId)) writes++;
-      return;
-    }
-    const table = TARGET.exec(sql)?.[1];
-    if (table && UNREAD_TABLES.has(table)) return;
-    writes++;
-    if (q.__knexTxId) dirty.add(q.__knexTxId);
-  };
-  db.on('query', onStatement);
-  // Counted again once the statement has run, so an answer begun while it ran is never served after.
-  db.on('query-response', (_r: unknown, q: Statement) => onStatement(q));
-  db.on('query-error', (_e: unknown, q: Statement) => onStatement(q));
-
   const raw = rawConnectionOf(db);
-  let pragma: { get(): unknown } | null = null;
+  let prepared: { get(): unknown } | null = null;
   let preparedFor = -1;
-  const others = async (): Promise<string> => {
-    if (raw?.conn) {
-      // Synchronous and read-only; on the pool's one connection it sees other connections' commits.
-      if (preparedFor !== raw.generation) {
-        pragma = raw.conn.prepare('PRAGMA data_version').pluck();
-        preparedFor = raw.generation;
-      }
-      return `${raw.generation}.${String(pragma!.get())}`;
-    }
-    const rows = (await db.raw('PRAGMA data_version')) as Array<{ data_version: number }>;
-    return `p.${rows[0]?.data_version ?? 0}`;
-  };
   return {
     async current() {
-      return `${writes}:${await others()}`;
+      if (raw?.conn) {
+        // SQLite: synchronous on the pool's one connection, without queueing behind the pool.
+        if (preparedFor !== raw.generation) {
+          prepared = raw.conn.prepare(READ_VERSION).pluck();
+          preparedFor = raw.generation;
+        }
+        return String(prepared!.get());
+      }
+      const row = (await db('data_versions').where({ id: 1 }).first('version')) as { version: number | string } | undefined;
+      return String(row?.version ?? 0);
     },
   };
 }

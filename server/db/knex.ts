@@ -3,6 +3,7 @@ import { createRequire } from 'node:module';
 import { dirname } from 'node:path';
 import knexFactory, { type Knex } from 'knex';
 import { migrationSource } from '../../migrations';
+import { installDataVersionTriggers, isPostgres, isPostgresUrl, postgresConnection, takePostgresWriteLock } from './dialect';
 
 export type Db = Knex;
 
@@ -90,7 +91,11 @@ class LoftwiseSqliteClient extends (BetterSqliteClient as new (config: Knex.Conf
   }
 }
 
-export const isBusy = (err: unknown): boolean => typeof (err as { code?: unknown })?.code === 'string' && (err as { code: string }).code.startsWith('SQLITE_BUSY');
+export const isBusy = (err: unknown): boolean => {
+  const code = (err as { code?: unknown })?.code;
+  // SQLite's busy answers; PostgreSQL's lock timeout, deadlock and serialisation failure.
+  return typeof code === 'string' && (code.startsWith('SQLITE_BUSY') || code === '55P03' || code === '40P01' || code === '40001');
+};
 
 /** How long a write keeps trying for the lock before giving up with a 503. */
 const WRITE_LOCK_PATIENCE_MS = 15_000;
@@ -106,9 +111,21 @@ export class DatabaseBusyError extends Error {
  * (`BEGIN IMMEDIATE`), so no read inside it can go stale before its write; while another
  * process holds the lock it waits with growing, jittered pauses (not blocking the event loop)
  * and tries again. Only the lock is retried, never a transaction that has begun, so `fn` runs
- * once. On another database it is an ordinary transaction.
+ * once. On PostgreSQL it takes a transaction-scoped advisory lock first (server/db/dialect.ts),
+ * so write transactions run one at a time there too, waiting at most as long.
  */
 export async function writeTransaction<T>(db: Db, fn: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
+  if (isPostgres(db)) {
+    try {
+      return await db.transaction(async (trx) => {
+        await takePostgresWriteLock(trx, WRITE_LOCK_PATIENCE_MS);
+        return fn(trx);
+      });
+    } catch (err) {
+      if ((err as { lockNotTaken?: boolean })?.lockNotTaken) throw new DatabaseBusyError();
+      throw err;
+    }
+  }
   if (!isSqlite(db)) return db.transaction(fn);
   const giveUpAt = Date.now() + WRITE_LOCK_PATIENCE_MS;
   for (let attempt = 0; ; attempt++) {
@@ -126,11 +143,22 @@ export async function writeTransaction<T>(db: Db, fn: (trx: Knex.Transaction) =>
 const isSqlite = (db: Db) => db.client instanceof LoftwiseSqliteClient;
 
 /**
- * One connection: SQLite has one writer, and a single connection serialises our transactions.
+ * `target` is a SQLite file (the default) or a `postgres://` URL.
+ *
+ * SQLite: one connection: SQLite has one writer, and a single connection serialises our transactions.
  * synchronous=FULL so an acknowledged inspection or fault survives a crash or power loss
  * (see DEVELOPERS.md, "Durability").
  */
-export function createDb(file: string): Db {
+export function createDb(target: string, opts: { poolMax?: number } = {}): Db {
+  if (isPostgresUrl(target)) {
+    return knexFactory({
+      client: 'pg',
+      connection: postgresConnection(target),
+      pool: { min: 0, max: opts.poolMax ?? 10 },
+      migrations: { migrationSource },
+    });
+  }
+  const file = target;
   if (file !== ':memory:') preparePrivateDbFile(file);
   const raw: RawConnection = { conn: null, generation: 0 };
   const db = knexFactory({
@@ -164,4 +192,6 @@ export function createDb(file: string): Db {
 
 export async function migrate(db: Db): Promise<void> {
   await db.migrate.latest();
+  // Every table a kept answer may read moves the data version (server/db/data-version.ts).
+  await installDataVersionTriggers(db);
 }

@@ -12,6 +12,11 @@ export interface CaughtMessage {
   receivedAt: string;
 }
 
+/** What the Mailbox page reads: the catcher itself, or (several processes) the primary's through IPC. */
+export interface Mailbox {
+  messages(): CaughtMessage[] | Promise<CaughtMessage[]>;
+}
+
 export interface FakeSmtp {
   url: string;
   port: number;

@@ -9,6 +9,7 @@ import { scheduleDigests } from './digest';
 import { deliverDue } from './deliver';
 import { sessionRecords } from '../modules/sessions/session-records';
 import { rigRepository } from '../modules/rig/rig.repository';
+import { workerLeaseRepository } from '../modules/outbox/worker-lease.repository';
 
 export interface MailCycleSummary {
   /** Booked points of classes that started since the last cycle, recorded as they stood (PRODUCT.md §10). */
@@ -114,11 +115,20 @@ export interface MailWorker {
  * `intervalMs` (OUTBOX_INTERVAL_SECONDS; default 15 s). Cycles never overlap: a tick that finds one
  * running is skipped. Everything it decides is in the database, so a restart picks up where it stopped.
  */
-export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number }): MailWorker {
+export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number; lease?: { holder: string } }): MailWorker {
   const intervalMs = deps.intervalMs ?? 15_000;
   let running: Promise<MailCycleSummary> | null = null;
   let chain: Promise<unknown> = Promise.resolve();
   let stopped = false;
+  // With `lease`, a timed cycle runs only while this process holds the mail lease (several
+  // processes on one database: one sends). Wall-clock time, renewed each cycle; a holder that
+  // stops renewing is replaced after three intervals.
+  const leases = deps.lease ? workerLeaseRepository(deps.db) : null;
+  const leaseMs = Math.max(3 * intervalMs, 3_000);
+  const mayRun = async () => !leases || (await leases.hold('mail', deps.lease!.holder, new Date(), leaseMs));
+  const timedCycle = async () => {
+    if ((await mayRun()) && !stopped) await cycle();
+  };
 
   const cycle = (): Promise<MailCycleSummary> => {
     const next = chain.then(() => runMailCycle(deps, () => stopped));
@@ -129,11 +139,16 @@ export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number }):
     return next;
   };
 
-  cycle().catch((err) => (deps.log ?? console.error)(err));
-  const timer = setInterval(() => {
-    if (stopped || running) return;
-    cycle().catch((err) => (deps.log ?? console.error)(err));
-  }, intervalMs);
+  let ticking = false;
+  const tick = () => {
+    if (stopped || running || ticking) return;
+    ticking = true;
+    timedCycle()
+      .catch((err) => (deps.log ?? console.error)(err))
+      .finally(() => (ticking = false));
+  };
+  tick();
+  const timer = setInterval(tick, intervalMs);
   timer.unref();
 
   return {
@@ -144,6 +159,7 @@ export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number }):
       let grace: NodeJS.Timeout | undefined;
       await Promise.race([chain, new Promise((resolve) => (grace = setTimeout(resolve, graceMs)))]);
       clearTimeout(grace);
+      await leases?.release('mail', deps.lease!.holder).catch(() => undefined);
     },
   };
 }

@@ -8,6 +8,7 @@ import { fixedClock } from '../../server/clock';
 import type { Mailer, OutgoingMail } from '../../server/mail/transport';
 import type { Role } from '../../shared/schemas/vocabulary';
 import { makeUser, TEST_AUDIT_KEY, TEST_PASSWORD } from './factories';
+import { freshDatabase } from './database';
 
 export const APP_URL = 'http://127.0.0.1:3999';
 export { TEST_AUDIT_KEY } from './factories';
@@ -17,14 +18,20 @@ export interface TestContext {
   db: Db;
   clock: ReturnType<typeof fixedClock>;
   dir: string;
+  /** The database's file or URL, for a second connection or a second app on the same records. */
+  dbTarget: string;
   sent: OutgoingMail[];
   close(): Promise<void>;
 }
 
-/** The real app on a fresh SQLite file with real migrations and a clock the test controls. */
+/**
+ * The real app on a fresh database (a SQLite file; a PostgreSQL database when TEST_DATABASE_URL
+ * is set) with real migrations and a clock the test controls.
+ */
 export async function createTestApp(opts: { now?: string; deps?: Partial<AppDeps> } = {}): Promise<TestContext> {
   const dir = mkdtempSync(join(tmpdir(), 'loftwise-test-'));
-  const db = createDb(join(dir, 'test.sqlite'));
+  const database = await freshDatabase(dir);
+  const db = createDb(database.target, { poolMax: 4 });
   await migrate(db);
   const clock = fixedClock(opts.now ?? '2026-12-01T10:00:00Z');
   const sent: OutgoingMail[] = [];
@@ -35,9 +42,11 @@ export async function createTestApp(opts: { now?: string; deps?: Partial<AppDeps
     db,
     clock,
     dir,
+    dbTarget: database.target,
     sent,
     async close() {
       await db.destroy();
+      await database.drop();
       rmSync(dir, { recursive: true, force: true });
     },
   };

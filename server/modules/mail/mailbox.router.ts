@@ -1,8 +1,8 @@
 import type { ApiRouter } from '../../http/route';
 import { notFound } from '../../http/errors';
-import type { FakeSmtp } from '../../mail/fake-smtp';
+import type { Mailbox } from '../../mail/fake-smtp';
 
-export function mailboxRoutes(api: ApiRouter, fake: FakeSmtp | null) {
+export function mailboxRoutes(api: ApiRouter, fake: Mailbox | null) {
   api.get('/dev/mailbox', {
     access: ['owner'],
     handler: () => {
