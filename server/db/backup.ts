@@ -1,6 +1,7 @@
 import Database from 'better-sqlite3';
-import { chmodSync, closeSync, existsSync, mkdirSync, openSync } from 'node:fs';
-import { dirname } from 'node:path';
+import { execFile } from 'node:child_process';
+import { chmodSync, closeSync, existsSync, mkdirSync, openSync, readdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
 import { narrowToOwner, PRIVATE_DIR_MODE, PRIVATE_FILE_MODE } from './knex';
 
 /**
@@ -31,4 +32,37 @@ export async function backupDatabase(sourceFile: string, destFile: string): Prom
 
 export function backupFileName(now: Date): string {
   return `loftwise-${now.toISOString().replace(/[:.]/g, '-').replace('T', '_').slice(0, 19)}.sqlite`;
+}
+
+/** pg_dump on PATH, or the newest under Debian's /usr/lib/postgresql/<version>/bin. */
+export function findPgDump(): string {
+  const onPath = (process.env.PATH ?? '').split(':').map((d) => join(d, 'pg_dump')).find((f) => existsSync(f));
+  if (onPath) return onPath;
+  const root = '/usr/lib/postgresql';
+  const versions = existsSync(root) ? readdirSync(root).filter((v) => /^\d+$/.test(v)).sort((a, b) => Number(b) - Number(a)) : [];
+  const found = versions.map((v) => join(root, v, 'bin', 'pg_dump')).find((f) => existsSync(f));
+  if (!found) throw new Error('pg_dump was not found: install the PostgreSQL client tools (Debian: postgresql-client) matching the server.');
+  return found;
+}
+
+/**
+ * A consistent copy of a PostgreSQL database through `pg_dump` (one snapshot, safe while the
+ * servers run), in its custom format for `pg_restore`; owner-only like every backup.
+ */
+export async function backupPostgres(url: string, destFile: string): Promise<{ tool: string }> {
+  if (!existsSync(dirname(destFile))) mkdirSync(dirname(destFile), { recursive: true, mode: PRIVATE_DIR_MODE });
+  if (!existsSync(destFile)) closeSync(openSync(destFile, 'a', PRIVATE_FILE_MODE));
+  chmodSync(destFile, PRIVATE_FILE_MODE);
+  const tool = findPgDump();
+  await new Promise<void>((resolvePromise, reject) => {
+    execFile(tool, ['--format=custom', '--no-owner', `--file=${destFile}`, `--dbname=${url}`], (err, _out, stderr) =>
+      err ? reject(new Error(`pg_dump failed: ${String(stderr).trim() || err.message}`)) : resolvePromise(),
+    );
+  });
+  chmodSync(destFile, PRIVATE_FILE_MODE);
+  return { tool };
+}
+
+export function pgBackupFileName(now: Date): string {
+  return backupFileName(now).replace(/\.sqlite$/, '.pgdump');
 }

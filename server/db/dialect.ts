@@ -62,6 +62,11 @@ export async function refuseInsertWhen(knex: Knex, name: string, table: string, 
   await knex.raw(`CREATE TRIGGER ${name} BEFORE INSERT ON ${table} WHEN ${when} BEGIN SELECT RAISE(ABORT, '${message}'); END`);
 }
 
+/** Drops a trigger (PostgreSQL names triggers per table). For maintenance and tests. */
+export async function dropTrigger(knex: Knex, table: string, name: string): Promise<void> {
+  await knex.raw(isPostgres(knex) ? `DROP TRIGGER ${name} ON ${table}` : `DROP TRIGGER ${name}`);
+}
+
 // ---- The data version: one counter every process reads (server/db/data-version.ts)
 
 /**
@@ -71,7 +76,8 @@ export async function refuseInsertWhen(knex: Knex, name: string, table: string, 
  */
 export const UNVERSIONED_TABLES = new Set(['outbox_messages', 'sign_in_counters', 'worker_leases', 'data_versions', 'knex_migrations', 'knex_migrations_lock']);
 
-async function tableNames(db: Knex): Promise<string[]> {
+/** The tables of the schema (knex's and SQLite's own included where present). */
+export async function tableNames(db: Knex): Promise<string[]> {
   if (isPostgres(db)) {
     const r = (await db.raw("SELECT table_name AS name FROM information_schema.tables WHERE table_schema = current_schema() AND table_type = 'BASE TABLE'")) as { rows: Array<{ name: string }> };
     return r.rows.map((x) => x.name);

@@ -125,11 +125,6 @@ export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number; le
   // stops renewing is replaced after three intervals.
   const leases = deps.lease ? workerLeaseRepository(deps.db) : null;
   const leaseMs = Math.max(3 * intervalMs, 3_000);
-  const mayRun = async () => !leases || (await leases.hold('mail', deps.lease!.holder, new Date(), leaseMs));
-  const timedCycle = async () => {
-    if ((await mayRun()) && !stopped) await cycle();
-  };
-
   const cycle = (): Promise<MailCycleSummary> => {
     const next = chain.then(() => runMailCycle(deps, () => stopped));
     running = next;
@@ -142,8 +137,14 @@ export function startMailWorker(deps: MailWorkerDeps & { intervalMs?: number; le
   let ticking = false;
   const tick = () => {
     if (stopped || running || ticking) return;
+    if (!leases) {
+      cycle().catch((err) => (deps.log ?? console.error)(err));
+      return;
+    }
     ticking = true;
-    timedCycle()
+    leases
+      .hold('mail', deps.lease!.holder, new Date(), leaseMs)
+      .then((held) => (held && !stopped && !running ? cycle() : undefined))
       .catch((err) => (deps.log ?? console.error)(err))
       .finally(() => (ticking = false));
   };

@@ -64,9 +64,9 @@ export interface TestDatabase {
 }
 
 /** A fresh, migrated (on PostgreSQL) or empty (SQLite: migrate it) database for one test. */
-export async function freshDatabase(dir: string, file = 'test.sqlite'): Promise<TestDatabase> {
+export async function freshDatabase(dir: string, file = 'test.sqlite', opts: { empty?: boolean } = {}): Promise<TestDatabase> {
   if (!onPostgres) return { target: join(dir, file), drop: async () => undefined };
-  const tmpl = await migratedTemplate();
+  const tmpl = opts.empty ? "template0 ENCODING 'UTF8' LC_COLLATE 'C' LC_CTYPE 'C'" : await migratedTemplate();
   const name = `loftwise_t_${process.pid}_${Date.now().toString(36)}_${Math.random().toString(36).slice(2, 8)}`;
   await adminDb().raw(`CREATE DATABASE ${name} TEMPLATE ${tmpl}`);
   return {

@@ -1,9 +1,9 @@
-import Database from 'better-sqlite3';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp, type LoftwiseApp } from '../../server/app';
 import { seedDemoIfEmpty } from '../../seeds';
 import { DEMO_PASSWORD } from '../../seeds/01-studio-and-staff';
+import { createDb } from '../../server/db/knex';
 import { APP_URL, createTestApp, TEST_AUDIT_KEY, signIn, withOrigin, type TestContext } from '../helpers/app';
 
 /*
@@ -65,6 +65,16 @@ async function expectAlike(step: string) {
   }
 }
 
+/** A write through another connection to the same database (a second server, a maintenance script). */
+async function throughAnotherConnection(write: (db: ReturnType<typeof createDb>) => Promise<unknown>) {
+  const other = createDb(ctx.dbTarget, { poolMax: 1 });
+  try {
+    await write(other);
+  } finally {
+    await other.destroy();
+  }
+}
+
 /** A small deterministic generator, so a failure replays. */
 function lcg(seed: number) {
   let x = seed;
@@ -72,17 +82,12 @@ function lcg(seed: number) {
 }
 
 describe('derived answers kept per data version', () => {
-  it('sees a change committed by another connection to the same file at once', async () => {
+  it('sees a change committed by another connection to the same database at once', async () => {
     const list = async () => (await cached.rigger.get('/api/points')).body as Array<{ id: number; label: string; status: { status: string; reasons: Array<{ code: string }> } }>;
     const target = (await list()).find((p) => p.status.status !== 'blocked');
     expect(target, 'an unblocked point').toBeDefined();
     await list();
-    const other = new Database(join(ctx.dir, 'test.sqlite'));
-    try {
-      other.prepare('UPDATE points SET in_service = 0 WHERE id = ?').run(target!.id);
-    } finally {
-      other.close();
-    }
+    await throughAnotherConnection((other) => other('points').where({ id: target!.id }).update({ in_service: false }));
     const after = (await list()).find((p) => p.id === target!.id)!;
     expect(after.status.status).toBe('blocked');
     expect(after.status.reasons.map((r) => r.code)).toContain('out_of_service');
@@ -142,19 +147,17 @@ describe('the data version', () => {
     expect(await version.current()).toBe(v0);
     await ctx.db.transaction(async (trx) => {
       await trx('outbox_messages').where('id', -1).update({ last_error: null });
+      await trx('sign_in_counters').insert({ key: 'k'.repeat(64), count: 1, expires_at: '2026-12-01T11:00:00.000Z' });
     });
-    expect(await version.current(), 'an outbox-only transaction').toBe(v0);
+    expect(await version.current(), 'an outbox and sign-in counter transaction').toBe(v0);
+    // A row that changes moves it (a statement that matches no row changes nothing).
+    const point = (await ctx.db('points').first('id', 'updated_at')) as { id: number; updated_at: string };
     await ctx.db.transaction(async (trx) => {
-      await trx('points').where('id', -1).update({ updated_at: 'x' });
+      await trx('points').where('id', point.id).update({ updated_at: point.updated_at });
     });
     const v1 = await version.current();
     expect(v1, 'a write to points').not.toBe(v0);
-    const other = new Database(join(ctx.dir, 'test.sqlite'));
-    try {
-      other.prepare("UPDATE users SET name = name || ' ' WHERE id = (SELECT min(id) FROM users)").run();
-    } finally {
-      other.close();
-    }
+    await throughAnotherConnection((other) => other('users').whereIn('id', other('users').min('id')).update({ name: other.raw("name || ' '") }));
     expect(await version.current(), 'any commit by another connection').not.toBe(v1);
   });
 });

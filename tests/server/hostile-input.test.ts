@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { createHash } from 'node:crypto';
 import type request from 'supertest';
+import { tableNames } from '../../server/db/dialect';
 import { APP_URL, createTestApp, signIn, type TestContext } from '../helpers/app';
 import { makeGear, makePoint, makeStandardPath, makeUser } from '../helpers/factories';
 import { roles, type Role } from '../../shared/schemas/vocabulary';
@@ -24,7 +25,7 @@ beforeAll(async () => {
   await makeStandardPath(ctx.db, p.id);
   await makeGear(ctx.db, { kind: 'swivel' });
   await ctx.db('class_types').insert({ name: 'Silks', apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() });
-  tables = ((await ctx.db.raw("SELECT name FROM sqlite_master WHERE type='table' AND name NOT LIKE 'knex_%' AND name NOT LIKE 'sqlite_%' ORDER BY name")) as Array<{ name: string }>).map((r) => r.name);
+  tables = (await tableNames(ctx.db)).filter((n) => !n.startsWith('knex_')).sort();
 });
 afterAll(async () => ctx.close());
 

@@ -473,7 +473,7 @@ describe('at-risk alerts', () => {
     expect(mail[0].subject).toBe('At risk: Silks Foundations on Thu 3 Dec at 18:00 in Main Hall');
     expect(mail[0].text).toMatch(/^A-1 {2}Point A-1: Open fault on swivel .+: Bearing grinds$/m);
     expect(mail[0].text).toContain(`${APP_URL}/schedule`);
-    expect((await ctx.db('sessions').where({ id: sessionId }).first()).at_risk).toBe(1);
+    expect((await ctx.db('sessions').where({ id: sessionId }).first()).at_risk, 'a boolean column: 1 on SQLite, true on PostgreSQL').toBeTruthy();
 
     await w.runOnce();
     expect(received()).toHaveLength(1);
@@ -481,7 +481,7 @@ describe('at-risk alerts', () => {
     // Resolved: no longer at risk, no mail. A new fault later alerts again.
     await ctx.db('faults').where({ id: faultId }).update({ status: 'resolved' });
     expect((await w.runOnce()).atRiskCleared).toBe(1);
-    expect((await ctx.db('sessions').where({ id: sessionId }).first()).at_risk).toBe(0);
+    expect((await ctx.db('sessions').where({ id: sessionId }).first()).at_risk, 'a boolean column: 0 on SQLite, false on PostgreSQL').toBeFalsy();
     await openFault({ pointId: a.id, description: 'Clamp bolt loose' });
     await w.runOnce();
     expect(received()).toHaveLength(2);

@@ -4,26 +4,40 @@ import { createServer, type Server } from 'node:net';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import Database from 'better-sqlite3';
-import { createDb, migrate } from '../../server/db/knex';
+import { createDb, migrate, type Db } from '../../server/db/knex';
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_PASSWORD } from '../helpers/factories';
 import { freePort } from '../helpers/free-port';
+import { freshDatabase, onPostgres, type TestDatabase } from '../helpers/database';
 
-// The real server as child processes (`tsx server/index.ts`) on one SQLite file.
+// The real server as child processes (`tsx server/index.ts`) on one database: a SQLite file, or
+// PostgreSQL when TEST_DATABASE_URL is set.
 const DAY = 86_400_000;
+const DB_NAME = onPostgres ? 'PostgreSQL' : 'one SQLite file';
 let dir = '';
-let dbFile = '';
+let database: TestDatabase;
 let sink: FakeSmtp;
-const ids = { points: [] as number[], instructors: [] as number[], classTypeId: 0, roomId: 0 };
+const ids = { points: [] as number[], instructors: [] as number[], classTypeId: 0, roomId: 0, lonePoint: 0 };
+
+/** A short-lived connection of the test's own, beside the servers'. */
+async function withDb<T>(fn: (db: Db) => Promise<T>): Promise<T> {
+  const db = createDb(database.target, { poolMax: 1 });
+  try {
+    return await fn(db);
+  } finally {
+    await db.destroy();
+  }
+}
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'loftwise-processes-'));
-  dbFile = join(dir, 'shared.sqlite');
+  database = await freshDatabase(dir, 'shared.sqlite');
   sink = await startFakeSmtp(0, { keep: Infinity });
-  const db = createDb(dbFile);
+  const db = createDb(database.target, { poolMax: 1 });
   await migrate(db);
   await makeUser(db, { role: 'reception', email: 'desk@processes.test' });
+  await makeUser(db, { role: 'rigger', email: 'rigger@processes.test' });
+  await makeUser(db, { role: 'rigger', email: 'guessed@processes.test' });
   for (let i = 0; i < 4; i++) ids.instructors.push((await makeUser(db, { role: 'instructor' })).id);
   ids.roomId = await makeRoom(db);
   for (let i = 0; i < 3; i++) {
@@ -31,12 +45,18 @@ beforeAll(async () => {
     for (const g of await makeStandardPath(db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: null } })) await db('gear_items').where({ id: g }).update({ inspected_until: new Date(Date.now() + 60 * DAY).toISOString() });
     ids.points.push(p.id);
   }
+  {
+    const p = await makePoint(db, { roomId: ids.roomId, clearedAt: new Date(Date.now() - DAY).toISOString(), structuralRatingKn: 30 });
+    for (const g of await makeStandardPath(db, p.id)) await db('gear_items').where({ id: g }).update({ inspected_until: new Date(Date.now() + 60 * DAY).toISOString() });
+    ids.lonePoint = p.id;
+  }
   const [ct] = await db('class_types').insert({ name: 'Silks', apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');
   ids.classTypeId = (ct as { id: number }).id;
   await db.destroy();
 });
 afterAll(async () => {
   await sink?.close();
+  await database?.drop();
   rmSync(dir, { recursive: true, force: true });
 });
 
@@ -53,7 +73,7 @@ function spawnServer(port: number): Started {
       ...process.env,
       PORT: String(port),
       APP_URL: `http://127.0.0.1:${port}`,
-      LOFTWISE_DB: dbFile,
+      ...(onPostgres ? { DATABASE_URL: database.target } : { LOFTWISE_DB: database.target }),
       UPLOAD_DIR: join(dir, 'uploads'),
       LOFTWISE_SEED: 'none',
       AUTH_SECRET: 'process-test-secret-process-test-secret-01',
@@ -83,7 +103,11 @@ async function untilServing(port: number, s: Started) {
   }
 }
 
-async function signIn(base: string, email: string): Promise<string> {
+async function signIn(base: string, email: string, password = TEST_PASSWORD): Promise<string> {
+  return (await signInAttempt(base, email, password)).cookie;
+}
+
+async function signInAttempt(base: string, email: string, password: string): Promise<{ status: number; cookie: string }> {
   const csrf = await fetch(`${base}/auth/csrf`);
   const { csrfToken } = (await csrf.json()) as { csrfToken: string };
   const cookie = (csrf.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).join('; ');
@@ -91,9 +115,9 @@ async function signIn(base: string, email: string): Promise<string> {
     method: 'POST',
     redirect: 'manual',
     headers: { 'Content-Type': 'application/x-www-form-urlencoded', cookie },
-    body: new URLSearchParams({ email, password: TEST_PASSWORD, csrfToken }),
+    body: new URLSearchParams({ email, password, csrfToken }),
   });
-  return (res.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).filter((c) => c.includes('session-token')).join('; ');
+  return { status: res.status, cookie: (res.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).filter((c) => c.includes('session-token')).join('; ') };
 }
 
 const stop = async (s: Started) => {
@@ -103,12 +127,10 @@ const stop = async (s: Started) => {
 
 describe('a port already taken', () => {
   it('makes the server exit non-zero with a clear message, before its mail worker runs', async () => {
-    const db = new Database(dbFile);
     const now = new Date().toISOString();
-    db.prepare(
-      "INSERT INTO outbox_messages (kind, unique_key, recipients_json, subject, text_body, html_body, state, attempts, next_attempt_at, created_at) VALUES ('session_change', 'port-test', '[\"teach@processes.test\"]', 'Due now', 'x', '<p>x</p>', 'queued', 0, ?, ?)",
-    ).run(now, now);
-    db.close();
+    await withDb((db) =>
+      db('outbox_messages').insert({ kind: 'session_change', unique_key: 'port-test', recipients_json: '["teach@processes.test"]', subject: 'Due now', text_body: 'x', html_body: '<p>x</p>', state: 'queued', attempts: 0, next_attempt_at: now, created_at: now }),
+    );
     const holder: Server = createServer();
     await new Promise<void>((r) => holder.listen(0, () => r()));
     const port = (holder.address() as { port: number }).port;
@@ -121,20 +143,16 @@ describe('a port already taken', () => {
       expect(second.stderr()).toContain(`port ${port} is already in use`);
       expect(second.stdout()).not.toMatch(/serving/);
       // Its mail worker never ran: the message due is still queued and nothing reached SMTP.
-      const check = new Database(dbFile, { readonly: true });
-      expect(check.prepare("SELECT state FROM outbox_messages WHERE unique_key = 'port-test'").get()).toEqual({ state: 'queued' });
-      check.close();
+      expect(await withDb((db) => db('outbox_messages').where({ unique_key: 'port-test' }).first('state'))).toEqual({ state: 'queued' });
       expect(sink.messages().filter((m) => m.subject === 'Due now')).toEqual([]);
     } finally {
       holder.close();
-      const db2 = new Database(dbFile);
-      db2.prepare("DELETE FROM outbox_messages WHERE unique_key = 'port-test'").run();
-      db2.close();
+      await withDb((db) => db('outbox_messages').where({ unique_key: 'port-test' }).delete());
     }
   }, 40_000);
 });
 
-describe('two server processes on one SQLite file', () => {
+describe(`two server processes on ${DB_NAME}`, () => {
   it('answer 200 mixed bookings with no 5xx and no double booking', async () => {
     const ports = [await freePort(), await freePort()];
     const servers = ports.map(spawnServer);
@@ -186,22 +204,120 @@ describe('two server processes on one SQLite file', () => {
       expect(statuses.filter((s) => s >= 500)).toEqual([]);
       expect(tally[201]).toBeGreaterThan(0);
 
-      const db = new Database(dbFile, { readonly: true });
-      try {
-        const overlapping = (column: string, table: string) =>
-          db
-            .prepare(
-              `SELECT a.${column} FROM ${table} a JOIN ${table} b ON a.${column} = b.${column} AND a.rowid < b.rowid AND a.starts_at < b.ends_at AND b.starts_at < a.ends_at WHERE a.cancelled = 0 AND b.cancelled = 0`,
-            )
-            .all();
-        expect(overlapping('point_id', 'session_points')).toEqual([]);
-        expect(overlapping('instructor_id', 'sessions')).toEqual([]);
-        expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
-      } finally {
-        db.close();
-      }
+      await withDb(async (db) => {
+        const overlapping = async (column: string, table: string, id: string) =>
+          (await db.raw(
+            `SELECT a.${column} FROM ${table} a JOIN ${table} b ON a.${column} = b.${column} AND a.${id} < b.${id} AND a.starts_at < b.ends_at AND b.starts_at < a.ends_at WHERE NOT a.cancelled AND NOT b.cancelled`,
+          )) as unknown;
+        const rows = (r: unknown) => (Array.isArray(r) ? r : (r as { rows: unknown[] }).rows);
+        expect(rows(await overlapping('point_id', 'session_points', 'session_id'))).toEqual([]);
+        expect(rows(await overlapping('instructor_id', 'sessions', 'id'))).toEqual([]);
+        if (!onPostgres) expect(rows(await db.raw('PRAGMA integrity_check'))).toEqual([{ integrity_check: 'ok' }]);
+      });
     } finally {
       await Promise.all(servers.map(stop));
     }
   }, 120_000);
+});
+
+describe(`what several processes on ${DB_NAME} promise (PRODUCT.md §12)`, () => {
+  let servers: Started[] = [];
+  let bases: string[] = [];
+  beforeAll(async () => {
+    const ports = [await freePort(), await freePort()];
+    servers = ports.map(spawnServer);
+    await Promise.all(ports.map((p, i) => untilServing(p, servers[i])));
+    bases = ports.map((p) => `http://127.0.0.1:${p}`);
+  }, 60_000);
+  afterAll(async () => {
+    await Promise.all(servers.map(stop));
+  });
+  const call = (base: string, cookie: string, method: string, path: string, body?: unknown) =>
+    fetch(base + path, { method, headers: { 'Content-Type': 'application/json', Origin: base, cookie }, body: body === undefined ? undefined : JSON.stringify(body) }).then(async (r) => ({
+      status: r.status,
+      body: (await r.json().catch(() => null)) as Record<string, unknown> | Array<Record<string, unknown>> | null,
+    }));
+
+  it('book one point and slot 30 times at once through both: exactly one 201 and no 5xx', async () => {
+    const desks = await Promise.all(bases.map((b) => signIn(b, 'desk@processes.test')));
+    const startsAt = new Date(Date.now() + 10 * DAY);
+    startsAt.setUTCHours(12, 0, 0, 0);
+    const endsAt = new Date(startsAt.getTime() + 3600_000);
+    const results = await Promise.all(
+      Array.from({ length: 30 }, (_, k) =>
+        call(bases[k % 2], desks[k % 2], 'POST', '/api/sessions', {
+          classTypeId: ids.classTypeId,
+          instructorId: ids.instructors[k % 4],
+          roomId: ids.roomId,
+          startsAt: startsAt.toISOString(),
+          endsAt: endsAt.toISOString(),
+          pointIds: [ids.lonePoint],
+        }),
+      ),
+    );
+    const statuses = results.map((r) => r.status);
+    console.log(`30 bookings of one point and slot on ${DB_NAME}: ${JSON.stringify(statuses.reduce<Record<number, number>>((t, s) => ({ ...t, [s]: (t[s] ?? 0) + 1 }), {}))}`);
+    expect(statuses.filter((s) => s === 201)).toHaveLength(1);
+    expect(statuses.filter((s) => s >= 500)).toEqual([]);
+    expect(statuses.filter((s) => s !== 201).every((s) => s === 409)).toBe(true);
+    const held = await withDb((db) => db('session_points').where({ point_id: ids.lonePoint, cancelled: false }).select('session_id'));
+    expect(held).toHaveLength(1);
+  }, 60_000);
+
+  it('block a point through the other process on the very next request once a fault is opened', async () => {
+    const riggers = await Promise.all(bases.map((b) => signIn(b, 'rigger@processes.test')));
+    const statusOf = async (i: number) => {
+      const r = await call(bases[i], riggers[i], 'GET', '/api/points');
+      expect(r.status).toBe(200);
+      return (r.body as Array<{ id: number; status: { status: string } }>).find((p) => p.id === ids.lonePoint)!.status.status;
+    };
+    // The second process has the rig list kept from before the fault.
+    expect(await statusOf(1)).not.toBe('blocked');
+    expect(await statusOf(1)).not.toBe('blocked');
+    const fault = await call(bases[0], riggers[0], 'POST', '/api/faults', { pointId: ids.lonePoint, severity: 'high', description: 'Anchor bolt turning in the beam' });
+    expect(fault.status).toBe(201);
+    expect(await statusOf(1)).toBe('blocked');
+  }, 60_000);
+
+  it('refuse the 11th failed sign-in of one account and address, whichever process counts it', async () => {
+    const statuses: number[] = [];
+    for (let i = 0; i < 11; i++) statuses.push((await signInAttempt(bases[i % 2], 'guessed@processes.test', `wrong-${i}`)).status);
+    expect(statuses.slice(0, 10)).not.toContain(429);
+    expect(statuses[10]).toBe(429);
+    // Refused through both, the right password included.
+    for (const b of bases) expect((await signInAttempt(b, 'guessed@processes.test', TEST_PASSWORD)).status).toBe(429);
+  }, 60_000);
+
+  it('deliver each reminder exactly once though both run a mail worker', async () => {
+    const desks = await Promise.all(bases.map((b) => signIn(b, 'desk@processes.test')));
+    // Classes inside the 2-hour lead [studio choice, policy default]: each gets one catch-up reminder at once.
+    const booked: number[] = [];
+    for (let k = 0; k < 4; k++) {
+      const startsAt = new Date(Date.now() + (60 + 15 * k) * 60_000);
+      startsAt.setUTCSeconds(0, 0);
+      const r = await call(bases[k % 2], desks[k % 2], 'POST', '/api/sessions', {
+        classTypeId: ids.classTypeId,
+        instructorId: ids.instructors[k],
+        roomId: ids.roomId,
+        startsAt: startsAt.toISOString(),
+        endsAt: new Date(startsAt.getTime() + 10 * 60_000).toISOString(),
+        pointIds: [ids.points[k % 3]],
+      });
+      expect(r.status, JSON.stringify(r.body)).toBe(201);
+      booked.push((r.body as { id: number }).id);
+    }
+    const reminderIds = async () =>
+      (await withDb((db) => db('outbox_messages').where({ kind: 'reminder', state: 'sent' }).whereIn('session_id', booked).select('id'))) as Array<{ id: number }>;
+    const deadline = Date.now() + 30_000;
+    while ((await reminderIds()).length < booked.length && Date.now() < deadline) await new Promise((r) => setTimeout(r, 250));
+    // Several more worker cycles in both processes (1 s apart) must send nothing again.
+    await new Promise((r) => setTimeout(r, 4_000));
+    const rows = await reminderIds();
+    expect(rows).toHaveLength(booked.length);
+    const received = sink.messages().filter((m) => rows.some((r) => m.messageId.startsWith(`<outbox.${r.id}.`)));
+    expect(received.map((m) => m.messageId).sort()).toEqual([...new Set(received.map((m) => m.messageId))].sort());
+    expect(received).toHaveLength(booked.length);
+    const leases = await withDb((db) => db('worker_leases').select('name'));
+    expect(leases).toEqual([{ name: 'mail' }]);
+  }, 90_000);
 });

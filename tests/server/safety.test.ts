@@ -1,4 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { dropTrigger } from '../../server/db/dialect';
 import { as, createTestApp, type TestContext } from '../helpers/app';
 import { makeGear, makePoint, makeStandardPath } from '../helpers/factories';
 
@@ -235,7 +236,7 @@ describe('audit trail', () => {
     await makeStandardPath(ctx.db, p.id);
     await passAll(rigger, p.id);
     await rigger.post('/api/faults').send({ pointId: p.id, severity: 'low', description: 'Scuff' });
-    await ctx.db.raw('DROP TRIGGER audit_entries_no_update');
+    await dropTrigger(ctx.db, 'audit_entries', 'audit_entries_no_update');
     await ctx.db('audit_entries').where({ id: 1 }).update({ actor_id: null });
     const verify = await owner.get('/api/audit/verify');
     expect(verify.body).toMatchObject({ ok: false, firstBadId: 1 });
