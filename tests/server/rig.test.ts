@@ -33,6 +33,19 @@ describe('POST /api/rooms, /api/points, /api/gear', () => {
     expect(gear.body).toMatchObject({ id: expect.any(Number), serial: 'CB-1', status: 'in_service', inspectedUntil: null, pointId: null });
   });
 
+  it('lists each room with how many points hang in it, on either database', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const loft = await makeRoom(ctx.db, 'Loft');
+    await makeRoom(ctx.db, 'Annex');
+    await makePoint(ctx.db, { roomId: loft });
+    await makePoint(ctx.db, { roomId: loft });
+    const rooms = (await rigger.get('/api/rooms')).body as Array<{ name: string; pointCount: number }>;
+    expect(rooms.map((r) => [r.name, r.pointCount])).toEqual([
+      ['Annex', 0],
+      ['Loft', 2],
+    ]);
+  });
+
   it('refuses a minor rating above the major one with a field message', async () => {
     const rigger = await as(ctx, 'rigger');
     const res = await rigger.post('/api/gear').send({ kind: 'carabiner', material: 'steel', gate: 'screw', majorKn: 20, minorKn: 25, multiDirectional: false, serial: 'X' });

@@ -10,6 +10,7 @@ import { seedDemoIfEmpty } from '../../seeds';
 import { DEMO_PASSWORD } from '../../seeds/01-studio-and-staff';
 import { localDay } from '../../seeds/demo-data';
 import { createTestApp, signIn, TEST_AUDIT_KEY, withOrigin } from '../helpers/app';
+import { freshDatabase } from '../helpers/database';
 import { seedStudioAndStaff } from '../../seeds/01-studio-and-staff';
 import { seedRig } from '../../seeds/02-rig';
 import { seedSafety } from '../../seeds/03-safety';
@@ -30,10 +31,12 @@ afterEach(async () => {
 
 async function freshDb(): Promise<Db> {
   const dir = mkdtempSync(join(tmpdir(), 'loftwise-seed-'));
-  const db = createDb(join(dir, 'seed.sqlite'));
+  const database = await freshDatabase(dir, 'seed.sqlite');
+  const db = createDb(database.target, { poolMax: 2 });
   await migrate(db);
   cleanup.push(async () => {
     await db.destroy();
+    await database.drop();
     rmSync(dir, { recursive: true, force: true });
   });
   return db;

@@ -219,7 +219,7 @@ export function rigRepository(db: Db) {
         .leftJoin('points', 'points.room_id', 'rooms.id')
         .groupBy('rooms.id')
         .orderBy('rooms.name')
-        .select('rooms.id', 'rooms.name', db.raw('count(points.id) as pointCount'))
+        .select('rooms.id', 'rooms.name', db.raw('count(points.id) as "pointCount"'))
         .then((rows: Array<{ id: number; name: string; pointCount: number }>) => rows.map((r) => ({ ...r, pointCount: Number(r.pointCount) })));
     },
     async roomById(id: number, trx: Db = db) {
