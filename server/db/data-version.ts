@@ -25,8 +25,10 @@ export function dataVersion(db: Db): DataVersion {
   let preparedFor = -1;
   return {
     async current() {
-      if (raw?.conn) {
-        // SQLite: synchronous on the pool's one connection, without queueing behind the pool.
+      // SQLite: synchronous on the pool's one connection, without queueing behind the pool; but
+      // not while a transaction is open on it, whose own uncommitted move it would see (and a
+      // rollback then takes back, so a later commit could reach the same number).
+      if (raw?.conn && !raw.conn.inTransaction) {
         if (preparedFor !== raw.generation) {
           prepared = raw.conn.prepare(READ_VERSION).pluck();
           preparedFor = raw.generation;

@@ -9,7 +9,7 @@ export type Db = Knex;
 
 /** The SQLite connection behind a knex made by `createDb`, and how many times it was (re)opened. */
 export interface RawConnection {
-  conn: { prepare(sql: string): { pluck(): { get(): unknown } } } | null;
+  conn: { prepare(sql: string): { pluck(): { get(): unknown } }; inTransaction: boolean } | null;
   generation: number;
 }
 const rawConnections = new WeakMap<Db, RawConnection>();

@@ -162,6 +162,25 @@ describe('the data version', () => {
   });
 });
 
+describe('the data version during a transaction', () => {
+  it('never reports a number that a transaction still open may take back', async () => {
+    const { dataVersion } = await import('../../server/db/data-version');
+    const version = dataVersion(ctx.db);
+    const v0 = await version.current();
+    const point = (await ctx.db('points').first('id', 'updated_at')) as { id: number; updated_at: string };
+    let asked: Promise<string> | undefined;
+    await ctx.db
+      .transaction(async (trx) => {
+        await trx('points').where('id', point.id).update({ updated_at: point.updated_at });
+        asked = version.current();
+        throw new Error('taken back');
+      })
+      .catch(() => undefined);
+    // Had it said v0 + 1, a later commit reaching v0 + 1 would serve what was kept under it.
+    expect(await asked).toBe(v0);
+  });
+});
+
 describe('the derived cache itself', () => {
   const clock = { now: () => new Date('2026-12-01T10:00:00Z') };
   const fixedVersion = { current: async () => 'v' };
