@@ -38,15 +38,32 @@ export function postgresConnection(url: string): Knex.PgConnectionConfig {
 // ---- Triggers
 
 /** The table refuses every UPDATE and DELETE (records that are never rewritten: the audit, inspections…). */
-export async function appendOnly(knex: Knex, table: string, message = `${table} are append-only`): Promise<void> {
+export async function appendOnly(knex: Knex, table: string): Promise<void> {
+  await refuseChange(knex, table, 'update');
+  await refuseChange(knex, table, 'delete');
+}
+
+/** The trigger `<table>_no_update` or `<table>_no_delete`, refusing that change with "<table> are append-only". */
+async function refuseChange(knex: Knex, table: string, op: 'update' | 'delete'): Promise<void> {
+  const message = `${table} are append-only`;
   if (isPostgres(knex)) {
     await knex.raw(`CREATE OR REPLACE FUNCTION ${table}_append_only() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN RAISE EXCEPTION '${message}'; END $$`);
-    await knex.raw(`CREATE TRIGGER ${table}_no_update BEFORE UPDATE ON ${table} FOR EACH ROW EXECUTE FUNCTION ${table}_append_only()`);
-    await knex.raw(`CREATE TRIGGER ${table}_no_delete BEFORE DELETE ON ${table} FOR EACH ROW EXECUTE FUNCTION ${table}_append_only()`);
+    await knex.raw(`CREATE TRIGGER ${table}_no_${op} BEFORE ${op.toUpperCase()} ON ${table} FOR EACH ROW EXECUTE FUNCTION ${table}_append_only()`);
     return;
   }
-  await knex.raw(`CREATE TRIGGER ${table}_no_update BEFORE UPDATE ON ${table} BEGIN SELECT RAISE(ABORT, '${message}'); END`);
-  await knex.raw(`CREATE TRIGGER ${table}_no_delete BEFORE DELETE ON ${table} BEGIN SELECT RAISE(ABORT, '${message}'); END`);
+  await knex.raw(`CREATE TRIGGER ${table}_no_${op} BEFORE ${op.toUpperCase()} ON ${table} BEGIN SELECT RAISE(ABORT, '${message}'); END`);
+}
+
+/**
+ * Runs `fn` with an append-only table's refusal of updates lifted, inside the caller's write
+ * transaction only (DDL is transactional on both databases): for a deliberate, audited rewrite
+ * such as re-chaining the audit under its key.
+ */
+export async function withUpdatesAllowed<T>(trx: Knex.Transaction, table: string, fn: () => Promise<T>): Promise<T> {
+  await dropTrigger(trx, table, `${table}_no_update`);
+  const result = await fn();
+  await refuseChange(trx, table, 'update');
+  return result;
 }
 
 /**

@@ -140,6 +140,16 @@ export async function writeTransaction<T>(db: Db, fn: (trx: Knex.Transaction) =>
   }
 }
 
+/**
+ * Several reads that must agree with each other (an export's rows and the chain head printed
+ * under them): one snapshot. SQLite's transaction reads at one snapshot already; PostgreSQL's
+ * default READ COMMITTED takes one per statement, so it asks for REPEATABLE READ.
+ */
+export async function readTransaction<T>(db: Db, fn: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
+  if (isPostgres(db)) return db.transaction(fn, { isolationLevel: 'repeatable read', readOnly: true } as Knex.TransactionConfig);
+  return db.transaction(fn);
+}
+
 const isSqlite = (db: Db) => db.client instanceof LoftwiseSqliteClient;
 
 /**
