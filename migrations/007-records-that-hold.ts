@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { appendOnly } from '../server/db/dialect';
 
 /**
  * PRODUCT.md §10, records that hold:
@@ -13,10 +14,6 @@ import type { Knex } from 'knex';
  * The audit chain is not re-keyed here: its key lives outside the database, so the server does it
  * at its first start with the key (server/modules/audit/chain-upgrade.ts).
  */
-const immutable = (table: string) => [
-  `CREATE TRIGGER ${table}_no_update BEFORE UPDATE ON ${table} BEGIN SELECT RAISE(ABORT, '${table} are append-only'); END`,
-  `CREATE TRIGGER ${table}_no_delete BEFORE DELETE ON ${table} BEGIN SELECT RAISE(ABORT, '${table} are append-only'); END`,
-];
 
 const NOT_RECORDED_REASON = {
   code: 'not_recorded',
@@ -52,7 +49,8 @@ export async function up(knex: Knex): Promise<void> {
     t.unique(['session_id', 'starts_at', 'point_id']);
     t.index(['point_id', 'starts_at']);
   });
-  for (const sql of [...immutable('clearance_voids'), ...immutable('session_records')]) await knex.raw(sql);
+  // Through the dialect adapter: on SQLite the same triggers as ever, on PostgreSQL their PL/pgSQL twins.
+  for (const table of ['clearance_voids', 'session_records']) await appendOnly(knex, table);
   // PRODUCT.md §4.9: the point's own clearance end, worked out when the rigger signs and kept with
   // the clearance (before the mounted apparatus's cap, which follows that apparatus's own
   // inspection). `cleared_until` keeps what the rigger was told, capped. Null on older rows: the

@@ -1,5 +1,5 @@
 import type { Writable } from 'node:stream';
-import { writeTransaction, type Db } from '../../db/knex';
+import { readTransaction, writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -217,7 +217,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
       const { name, policy } = await studio.get();
       // The printable log carries the classes held in the range: any started class's missing record is kept first.
       if (format === 'html') await deps.records.keepInRange(f.from, f.to, clock.now());
-      const { head, upToId, heldUpToId } = await db.transaction(async (trx) => ({ head: await audit.head(trx), upToId: await repo.maxId(trx), heldUpToId: await deps.records.maxId(trx) }));
+      const { head, upToId, heldUpToId } = await readTransaction(db, async (trx) => ({ head: await audit.head(trx), upToId: await repo.maxId(trx), heldUpToId: await deps.records.maxId(trx) }));
       const points = f.pointId ? await rig.pointById(f.pointId) : null;
       const gear = f.gearId ? await rig.gearById(f.gearId) : null;
       const day = (iso: string) => formatStudioDateTime(new Date(iso), policy.timeZone);

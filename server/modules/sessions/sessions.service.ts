@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { writeTransaction, type Db } from '../../db/knex';
+import { readTransaction, writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { HttpError, conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
@@ -230,7 +230,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
     async exportHeld(f: InspectionLogFilters, out: Writable): Promise<number> {
       const { name, policy } = await studio.get();
       await records.keepInRange(f.from, f.to, clock.now());
-      const { head, upToId } = await db.transaction(async (trx) => ({ head: await audit.head(trx), upToId: await records.maxId(trx) }));
+      const { head, upToId } = await readTransaction(db, async (trx) => ({ head: await audit.head(trx), upToId: await records.maxId(trx) }));
       const point = f.pointId ? await rig.pointById(f.pointId) : null;
       const gear = f.gearId ? await rig.gearById(f.gearId) : null;
       const day = (iso: string) => formatStudioDateTime(new Date(iso), policy.timeZone);
