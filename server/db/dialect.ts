@@ -17,10 +17,12 @@ export const isPostgresUrl = (target: string): boolean => /^postgres(ql)?:\/\//i
 // ---- PostgreSQL connection: rows read the same as from SQLite
 
 /**
- * Counts (`count(*)` is bigint) and `numeric` come from node-postgres as strings; on SQLite they
- * are numbers. Ours never exceed 2^53, so they are read as numbers. Dates stay ISO text columns.
- * Booleans stay booleans on PostgreSQL: feature code reads them through `Boolean(…)`.
+ * Rows read the same from both databases. Counts (`count(*)` is bigint) and `numeric` come from
+ * node-postgres as strings; on SQLite they are numbers, and ours never exceed 2^53. Booleans are
+ * 0/1 on SQLite, so PostgreSQL's true/false are read as 1/0 too (PostgreSQL takes 1/0 and
+ * true/false alike when written). Instants stay ISO text columns on both.
  */
+const BOOL = 16;
 const INT8 = 20;
 const NUMERIC = 1700;
 export function postgresConnection(url: string): Knex.PgConnectionConfig {
@@ -29,6 +31,7 @@ export function postgresConnection(url: string): Knex.PgConnectionConfig {
     types: {
       getTypeParser: ((oid: number, format?: string) => {
         if (oid === INT8 || oid === NUMERIC) return (v: string) => (v === null ? null : Number(v));
+        if (oid === BOOL) return (v: string) => (v === null ? null : v === 't' ? 1 : 0);
         return pgTypes.getTypeParser(oid, format as 'text');
       }) as never,
     },

@@ -47,7 +47,7 @@ beforeAll(async () => {
   }
   {
     const p = await makePoint(db, { roomId: ids.roomId, clearedAt: new Date(Date.now() - DAY).toISOString(), structuralRatingKn: 30 });
-    for (const g of await makeStandardPath(db, p.id)) await db('gear_items').where({ id: g }).update({ inspected_until: new Date(Date.now() + 60 * DAY).toISOString() });
+    for (const g of await makeStandardPath(db, p.id, { apparatus: { kind: 'fabric', inspectedUntil: null } })) await db('gear_items').where({ id: g }).update({ inspected_until: new Date(Date.now() + 60 * DAY).toISOString() });
     ids.lonePoint = p.id;
   }
   const [ct] = await db('class_types').insert({ name: 'Silks', apparatus: 'fabric', duration_minutes: 60, capacity: 8, performers_per_point: 1, created_at: new Date().toISOString() }).returning('id');

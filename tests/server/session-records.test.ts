@@ -2,6 +2,7 @@ import { createHash } from 'node:crypto';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { APP_URL, as, createTestApp, TEST_AUDIT_KEY, type TestContext } from '../helpers/app';
 import { makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
+import { dropTrigger } from '../../server/db/dialect';
 import { runMailCycle } from '../../server/mail/worker';
 import { formatHead } from '../../server/modules/audit/audit.repository';
 import { seedDemoIfEmpty } from '../../seeds';
@@ -205,7 +206,7 @@ describe('clearance rows bound to the audit chain', () => {
     await rigger.post('/api/faults').send({ pointId: p.id, severity: 'low', description: 'Scuff' });
     expect(await entries('point.clearance_voided')).toHaveLength(1);
     expect((await owner.get('/api/audit/verify')).body.ok).toBe(true);
-    await ctx.db.raw('DROP TRIGGER clearance_voids_no_delete');
+    await dropTrigger(ctx.db, 'clearance_voids', 'clearance_voids_no_delete');
     await ctx.db('clearance_voids').delete();
     await ctx.db('points').where({ id: p.id }).update({ clearance_voided_at: null });
     const verify = await owner.get('/api/audit/verify');
@@ -228,7 +229,7 @@ describe('the keyed audit chain', () => {
   it('reports an entry edited and the plain SHA-256 chain recomputed after it', async () => {
     const { owner } = await someHistory();
     expect((await owner.get('/api/audit/verify')).body).toMatchObject({ ok: true, problems: [] });
-    await ctx.db.raw('DROP TRIGGER audit_entries_no_update');
+    await dropTrigger(ctx.db, 'audit_entries', 'audit_entries_no_update');
     // What someone with the file could do before: change an entry, then rewrite every hash after it.
     const rows = await ctx.db('audit_entries').orderBy('id');
     let prev = '0'.repeat(64);
@@ -250,7 +251,7 @@ describe('the keyed audit chain', () => {
     const head = formatHead(published);
     expect((await owner.get(`/api/audit/verify?head=${head}`)).body).toMatchObject({ ok: true, publishedHead: { found: true } });
 
-    await ctx.db.raw('DROP TRIGGER audit_entries_no_delete');
+    await dropTrigger(ctx.db, 'audit_entries', 'audit_entries_no_delete');
     await ctx.db('audit_entries').where('id', '>', published.count - 5).delete();
     // The shorter chain is still a valid chain on its own ...
     expect((await owner.get('/api/audit/verify')).body.ok).toBe(true);
