@@ -217,15 +217,6 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
         nextCursor: rows.length > o.limit && last ? `${last.starts_at}_${last.id}` : null,
       };
     },
-    /**
-     * Every record of classes starting in [from, to), oldest first, for the inspection-log export:
-     * keeps any not yet kept for classes already started.
-     */
-    async inRange(from: Date, to: Date, now: Date): Promise<SessionPointRecord[]> {
-      await keepInRange(from.toISOString(), to.toISOString(), now);
-      const rows = (await db('session_records').where('starts_at', '>=', from.toISOString()).where('starts_at', '<', to.toISOString()).orderBy([{ column: 'starts_at' }, { column: 'session_id' }, { column: 'point_id' }])) as Row[];
-      return rows.map(toRecord);
-    },
   };
 }
 export type SessionRecords = ReturnType<typeof sessionRecords>;
