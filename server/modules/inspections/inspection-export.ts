@@ -1,24 +1,11 @@
 import { Readable, type Writable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
-import { stringify } from 'csv-stringify';
 import type { Inspection } from '../../../shared/schemas/safety';
 import { formatStudioDateTime } from '../../../shared/clearance';
 import { formulaSafeRow } from '../../../shared/records/csv-safe';
 import { HELD_CSS, heldSection } from '../sessions/classes-held-export';
+import { esc, pipeTo, streamCsvWithTrailer, type ExportMeta } from '../../http/export-stream';
 import type { ClassHeldRecord } from '../sessions/session-records';
 
-/** What the foot of every export carries (PRODUCT.md §10). */
-export interface ExportMeta {
-  studioName: string;
-  timeZone: string;
-  exportedAt: Date;
-  /** The audit chain's head when the export began: `count:hash`. */
-  head: { count: number; hash: string };
-  /** The filters in words, e.g. "periodic inspections of point LS-1 from 1 Nov 2026". */
-  scope: string;
-}
-
-export const CHAIN_HEAD_LABEL = '# audit chain head';
 
 const kindWord: Record<Inspection['kind'], string> = { pre_use: 'pre-use', periodic: 'periodic', after_incident: 'after-incident' };
 const subjectOf = (i: Inspection) => (i.pointLabel ? `point ${i.pointLabel}` : i.gearSerial ? `gear ${i.gearSerial}` : 'an item no longer in the register');
@@ -74,39 +61,10 @@ export function csvRows(i: Inspection, timeZone: string): string[][] {
   return lines.map(formulaSafeRow);
 }
 
-/** A client that goes away mid-download ends the export quietly; any other failure is reported. */
-export async function pipeTo(out: Writable, source: Readable, through?: NodeJS.ReadWriteStream): Promise<void> {
-  try {
-    await (through ? pipeline(source, through, out) : pipeline(source, out));
-  } catch (err) {
-    if ((err as NodeJS.ErrnoException).code !== 'ERR_STREAM_PREMATURE_CLOSE') throw err;
-  }
+/** Streams the inspection CSV with its chain-head trailer (server/http/export-stream.ts). */
+export function streamCsv(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
+  return streamCsvWithTrailer(out, batches, meta, { columns: CSV_COLUMNS(meta.timeZone), rowsOf: (i) => csvRows(i, meta.timeZone), noun: 'inspections' });
 }
-
-/**
- * Streams the CSV: rows are written as each batch arrives, with backpressure from the client, so
- * memory holds one batch whatever the range. The last row is the trailer: `# audit chain head`,
- * `count:hash`, the number of inspections and the export's time, padded to the header's width so
- * a spreadsheet opens it as one more row.
- */
-export async function streamCsv(out: Writable, batches: AsyncIterable<Inspection[]>, meta: ExportMeta): Promise<number> {
-  const columns = CSV_COLUMNS(meta.timeZone);
-  let count = 0;
-  async function* rows() {
-    for await (const batch of batches) {
-      for (const i of batch) {
-        count += 1;
-        yield* csvRows(i, meta.timeZone);
-      }
-    }
-    const trailer = formulaSafeRow([CHAIN_HEAD_LABEL, `${meta.head.count}:${meta.head.hash}`, `${count} inspections`, `exported ${formatStudioDateTime(meta.exportedAt, meta.timeZone)}`]);
-    yield [...trailer, ...Array<string>(columns.length - trailer.length).fill('')];
-  }
-  await pipeTo(out, Readable.from(rows()), stringify({ header: true, columns, record_delimiter: 'windows' }));
-  return count;
-}
-
-export const esc = (v: string) => v.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 const PRINT_CSS = `
 :root { color: #111; background: #fff; font-family: Lexend, "Segoe UI", system-ui, sans-serif; font-size: 10.5pt; line-height: 1.35; }

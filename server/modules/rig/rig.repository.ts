@@ -310,6 +310,12 @@ export function rigRepository(db: Db) {
       const rows = (await q).map((r: GearRow) => toGear(r));
       return rows;
     },
+    /** Whether a class that is not cancelled is under way on the point at `at`. */
+    async classUnderWayOn(pointId: number, at: Date, trx: Db = db): Promise<boolean> {
+      const row = await trx('session_points').where({ point_id: pointId, cancelled: false }).where('starts_at', '<=', at.toISOString()).where('ends_at', '>', at.toISOString()).first('session_id');
+      return row !== undefined;
+    },
+
     async gearById(id: number, trx: Db = db): Promise<GearRecord | null> {
       const row = await gearSelect(trx).where('gear_items.id', id).first();
       return row ? toGear(row as GearRow) : null;

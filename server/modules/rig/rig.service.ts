@@ -219,8 +219,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         if (g.pointId !== null && g.pointId !== id) {
           const other = await bundle(g.pointId, trx);
           if (splitPath(other.snapshot.links).apparatus?.gear.id !== gearId) throw conflict('gear_in_use', `${name} is part of the fixed rigging of ${other.point.label}.`);
-          const underWay = await trx('session_points').where({ point_id: g.pointId, cancelled: false }).where('starts_at', '<=', now.toISOString()).where('ends_at', '>', now.toISOString()).first('session_id');
-          if (underWay) throw conflict('apparatus_in_use', `${name} hangs on ${other.point.label} for a class under way: take it down after that class.`);
+          if (await rig.classUnderWayOn(g.pointId, now, trx)) throw conflict('apparatus_in_use', `${name} hangs on ${other.point.label} for a class under way: take it down after that class.`);
           await rig.removeLink(gearId, trx);
           movedFrom = other.point.label;
           await audit.record(trx, { actorId, action: 'point.apparatus_removed', entity: 'point', entityId: other.point.id, before: { gearId, serial: g.serial }, after: { gearId: null, movedTo: b.point.label } }, now);

@@ -1,8 +1,7 @@
-import { Readable, type Writable } from 'node:stream';
-import { stringify } from 'csv-stringify';
+import type { Writable } from 'node:stream';
 import { formatStudioDateTime } from '../../../shared/clearance';
 import { formulaSafeRow } from '../../../shared/records/csv-safe';
-import { CHAIN_HEAD_LABEL, esc, pipeTo, type ExportMeta } from '../inspections/inspection-export';
+import { esc, streamCsvWithTrailer, type ExportMeta } from '../../http/export-stream';
 import type { ClassHeldRecord } from './session-records';
 
 /**
@@ -55,21 +54,8 @@ export function heldCsvRow(r: ClassHeldRecord, timeZone: string): string[] {
 }
 
 /** Streams the classes-held CSV; the last row is the chain-head trailer, as on the inspection CSV. */
-export async function streamHeldCsv(out: Writable, batches: AsyncIterable<ClassHeldRecord[]>, meta: ExportMeta): Promise<number> {
-  const columns = HELD_COLUMNS(meta.timeZone);
-  let count = 0;
-  async function* rows() {
-    for await (const batch of batches) {
-      for (const r of batch) {
-        count += 1;
-        yield heldCsvRow(r, meta.timeZone);
-      }
-    }
-    const trailer = formulaSafeRow([CHAIN_HEAD_LABEL, `${meta.head.count}:${meta.head.hash}`, `${count} class point records`, `exported ${formatStudioDateTime(meta.exportedAt, meta.timeZone)}`]);
-    yield [...trailer, ...Array<string>(columns.length - trailer.length).fill('')];
-  }
-  await pipeTo(out, Readable.from(rows()), stringify({ header: true, columns, record_delimiter: 'windows' }));
-  return count;
+export function streamHeldCsv(out: Writable, batches: AsyncIterable<ClassHeldRecord[]>, meta: ExportMeta): Promise<number> {
+  return streamCsvWithTrailer(out, batches, meta, { columns: HELD_COLUMNS(meta.timeZone), rowsOf: (r) => [heldCsvRow(r, meta.timeZone)], noun: 'class point records' });
 }
 
 export const HELD_CSS = `
