@@ -1,5 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { as, createTestApp, type TestContext } from '../helpers/app';
+import { APP_URL, as, createTestApp, type TestContext } from '../helpers/app';
+import { runMailCycle } from '../../server/mail/worker';
 import { makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
 
 let ctx: TestContext;
@@ -183,6 +184,13 @@ describe('when the rig changes', () => {
     expect(session.body.capacity).toBe(2); // one usable point × 2
     const list = await desk.get(`/api/sessions/${sessionId}/bookings`);
     expect(list.body.filter((x: { withoutFitPlace: boolean }) => x.withoutFitPlace)).toHaveLength(2);
+    // The at-risk alert to the desk and riggers names them too.
+    await runMailCycle({ db: ctx.db, mailer: { send: async () => undefined, close: () => undefined }, clock: ctx.clock, appUrl: APP_URL, log: () => undefined });
+    const alert = (await ctx.db('outbox_messages').where({ kind: 'at_risk' }).first()) as { text_body: string; html_body: string };
+    expect(alert.text_body).toContain('Students without a fit place');
+    expect(alert.text_body).toMatch(/Ana Fault \(on .+\)/);
+    expect(alert.text_body).toContain('Bo Fault');
+    expect(alert.html_body).toContain('Bo Fault');
     // The Today board tells the same story on the class's day.
     ctx.clock.set('2026-12-03T09:00:00Z');
     const today = await desk.get('/api/today');
