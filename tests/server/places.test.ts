@@ -222,6 +222,28 @@ describe('when the rig changes', () => {
   });
 });
 
+describe('students told of changes', () => {
+  it('e-mails each booked and waitlisted student once when the class moves; a move back within the undo window sends nothing', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(1);
+    const sessionId = await bookClass(desk, s);
+    const [a, b] = [await student(desk), await student(desk)];
+    await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: a.id });
+    await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: b.id }); // waitlisted
+    const moved = await desk.patch(`/api/sessions/${sessionId}`).send({ startsAt: '2026-12-03T19:00:00Z', endsAt: '2026-12-03T20:00:00Z' });
+    expect(moved.status).toBe(200);
+    const queued = async (email: string) => (await ctx.db('outbox_messages').where({ kind: 'class_moved_student' }).select('recipients_json', 'state')).filter((r: { recipients_json: string }) => JSON.parse(r.recipients_json).includes(email));
+    expect(await queued(a.email)).toEqual([expect.objectContaining({ state: 'queued' })]);
+    expect(await queued(b.email)).toHaveLength(1);
+
+    // Undone within the window: the waiting messages are skipped and nothing new is queued.
+    ctx.clock.advance(5_000);
+    expect((await desk.patch(`/api/sessions/${sessionId}`).send({ startsAt: '2026-12-03T18:00:00Z', endsAt: '2026-12-03T19:00:00Z' })).status).toBe(200);
+    const after = await queued(a.email);
+    expect(after.map((r: { state: string }) => r.state)).toEqual(['skipped']);
+  });
+});
+
 describe('check-in', () => {
   it('is refused with a clear message until the waiver is valid, then marks attended', async () => {
     const owner = await as(ctx, 'owner');
