@@ -222,6 +222,22 @@ describe('when the rig changes', () => {
   });
 });
 
+describe('the service the student portal calls', () => {
+  it('lets a student cancel only their own place, and only up to the policy cut-off (12 h)', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(1);
+    const sessionId = await bookClass(desk, s);
+    const [a, b] = [await student(desk), await student(desk)];
+    const booking = await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: a.id });
+    const places = ctx.app.locals.places as import('../../server/modules/places/places.service').PlacesService;
+    await expect(places.cancel(booking.body.id, { userId: null, asStudentId: b.id })).rejects.toMatchObject({ status: 404 });
+    ctx.clock.set('2026-12-03T06:30:00Z'); // 11.5 h before class
+    await expect(places.cancel(booking.body.id, { userId: null, asStudentId: a.id })).rejects.toMatchObject({ status: 409, code: 'cancel_cutoff_passed' });
+    ctx.clock.set('2026-12-03T05:30:00Z');
+    expect((await places.cancel(booking.body.id, { userId: null, asStudentId: a.id })).status).toBe('cancelled');
+  });
+});
+
 describe('students told of changes', () => {
   it('e-mails each booked and waitlisted student once when the class moves; a move back within the undo window sends nothing', async () => {
     const desk = await as(ctx, 'reception');
