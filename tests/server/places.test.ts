@@ -205,6 +205,19 @@ describe('when the rig changes', () => {
     expect((await desk.get(`/api/sessions/${sessionId}`)).body.withoutFitPlace).toEqual([]);
   });
 
+  it('a point added to a full class gives its place to the first waitlisted student', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(2);
+    const sessionId = await bookClass(desk, s, [s.points[0]]);
+    const [a, b] = [await student(desk), await student(desk)];
+    await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: a.id });
+    expect((await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: b.id })).body.status).toBe('waitlisted');
+    expect((await desk.put(`/api/sessions/${sessionId}/points`).send({ pointIds: s.points })).status).toBe(200);
+    const list = await desk.get(`/api/sessions/${sessionId}/bookings`);
+    expect(list.body.find((x: { studentId: number }) => x.studentId === b.id)).toMatchObject({ status: 'booked', pointId: s.points[1] });
+    expect(await mailsTo(b.email, 'waitlist_place_offered')).toHaveLength(1);
+  });
+
   it('the desk moves one student to another free place in one action; a full or blocked point is refused', async () => {
     const desk = await as(ctx, 'reception');
     const s = await studio(2);
