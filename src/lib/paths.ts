@@ -15,6 +15,10 @@ export const paths = {
     `/faults/new${about.gearId !== undefined ? `?gearId=${about.gearId}` : about.pointId !== undefined ? `?pointId=${about.pointId}` : ''}`,
   /** The inspections page with a point's inspection form open. */
   inspectPoint: (id: number | string) => `/inspections?point=${id}`,
+  students: '/students',
+  student: (id: number | string) => `/students/${id}`,
+  /** The schedule on a class's week with its drawer open. */
+  scheduleClass: (id: number | string, day?: string) => `/schedule?${day ? `date=${day}&view=week&` : ''}class=${id}`,
   staff: '/staff',
   settings: '/settings',
   mailbox: '/mailbox',

@@ -21,7 +21,7 @@ import { ScheduleLegend } from './components/schedule-legend';
 import { AgendaList } from './components/agenda-list';
 import { AtRiskSummary } from './components/at-risk-summary';
 import { BookingDialog, type BookingPrefill } from './components/booking-dialog';
-import { SessionDrawer } from './components/session-drawer';
+import { SessionDrawer, type SessionExtra } from './components/session-drawer';
 import { MoveScopeDialog } from './components/move-scope-dialog';
 import { ConflictView, refusalLines, refusedCount } from './components/conflict-view';
 import { MAIL_NOTE, type Scope } from './components/scope-choice';
@@ -47,14 +47,14 @@ function edit(prev: URLSearchParams, changes: Record<string, string | null>) {
 }
 const prefillText = (p: BookingPrefill) => `${p.date}T${p.start}${p.end ? `-${p.end}` : ''}`;
 
-export function SchedulePage({ me }: { me: Me }) {
+export function SchedulePage({ me, sessionExtra }: { me: Me; sessionExtra?: SessionExtra }) {
   const studio = useQuery(studioQueries.detail());
   if (studio.isPending) return <Loading label="Loading the schedule…" />;
   if (studio.isError) return <ErrorState error={studio.error} retry={() => studio.refetch()} />;
-  return <ScheduleBoard me={me} timeZone={studio.data.policy.timeZone} />;
+  return <ScheduleBoard me={me} timeZone={studio.data.policy.timeZone} sessionExtra={sessionExtra} />;
 }
 
-function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
+function ScheduleBoard({ me, timeZone, sessionExtra }: { me: Me; timeZone: string; sessionExtra?: SessionExtra }) {
   const canEdit = DESK.has(me.role);
   const qc = useQueryClient();
   const { update } = useScheduleMutations();
@@ -274,7 +274,7 @@ function ScheduleBoard({ me, timeZone }: { me: Me; timeZone: string }) {
       </div>
       <ScheduleLegend />
       <AgendaList sessions={shown} isPending={visible.isPending} error={visible.error} retry={() => visible.refetch()} timeZone={timeZone} onOpen={setOpenId} rangeLabel={range?.title ?? ''} />
-      <SessionDrawer id={openId} timeZone={timeZone} canEdit={canEdit} onClose={() => setOpenId(null)} />
+      <SessionDrawer id={openId} timeZone={timeZone} canEdit={canEdit} onClose={() => setOpenId(null)} extra={sessionExtra} />
       {canEdit ? <BookingDialog prefill={booking} timeZone={timeZone} onClose={requestCloseBooking} onBooked={onBooked} onDirty={onBookingDirty} /> : null}
       <ConfirmDialog
         open={askDiscard}

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { ArrowLeftRight, Ban, CalendarClock, CircleCheck, Repeat, UserRound } from 'lucide-react';
 import { Sheet } from '../../../components/ui/sheet';
@@ -18,19 +18,22 @@ import { CancelSessionForm } from './cancel-session-form';
 type Action = 'points' | 'move' | 'instructor' | 'cancel';
 
 /** One class, opened from the calendar or the agenda: what it is, its points' status, and the desk's actions. */
-export function SessionDrawer({ id, timeZone, canEdit, onClose }: { id: number | null; timeZone: string; canEdit: boolean; onClose: () => void }) {
+/** `extra` adds a section beneath the points for the open class (its students, from the students feature). */
+export type SessionExtra = (session: Session, canEdit: boolean) => ReactNode;
+
+export function SessionDrawer({ id, timeZone, canEdit, onClose, extra }: { id: number | null; timeZone: string; canEdit: boolean; onClose: () => void; extra?: SessionExtra }) {
   const q = useQuery({ ...scheduleQueries.detail(id ?? 0), enabled: id !== null });
   const title = q.data ? q.data.className : 'Class';
   return (
     <Sheet open={id !== null} side="right" onClose={onClose} title={title} description={q.data ? `${longDay(q.data.startsAt, timeZone)}, ${clockRange(q.data.startsAt, q.data.endsAt, timeZone)} (${zoneAbbrev(q.data.startsAt, timeZone)})` : undefined}>
       {id === null ? null : q.isPending ? <Loading label="Loading the class…" /> : q.isError ? <ErrorState error={q.error} retry={() => q.refetch()} /> : (
-        <SessionBody key={q.data.id} session={q.data} timeZone={timeZone} canEdit={canEdit} />
+        <SessionBody key={q.data.id} session={q.data} timeZone={timeZone} canEdit={canEdit} extra={extra} />
       )}
     </Sheet>
   );
 }
 
-function SessionBody({ session: s, timeZone, canEdit }: { session: Session; timeZone: string; canEdit: boolean }) {
+function SessionBody({ session: s, timeZone, canEdit, extra }: { session: Session; timeZone: string; canEdit: boolean; extra?: SessionExtra }) {
   const [action, setAction] = useState<Action | null>(null);
   // Toasts sit behind the modal drawer, so what just changed is also said here.
   const [flash, setFlash] = useState<string | null>(null);
@@ -87,6 +90,7 @@ function SessionBody({ session: s, timeZone, canEdit }: { session: Session; time
       <SessionChangeovers session={s} />
       {canEdit && !s.cancelled && !started && s.atRisk ? <SuggestedReplacements session={s} onSwapped={setFlash} onMove={() => { setFlash(null); setAction('move'); }} /> : null}
       <SessionPoints session={s} timeZone={timeZone} />
+      {extra?.(s, canEdit)}
       {canEdit ? (
         s.cancelled ? (
           <p className="text-sm text-muted">A cancelled class cannot be changed. Book a new one if it runs after all.</p>

@@ -6,6 +6,7 @@ import { StatusBadge } from '../../../components/ui/status-badge';
 import { Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
 import type { TodayPoint } from '../api';
+import { PointCheckIn } from '../../students/components/point-check-in';
 
 // The checklist loads when a check is opened, so the board's first paint on a phone stays small.
 const PreuseCheck = lazy(() => import('./preuse-check').then((m) => ({ default: m.PreuseCheck })));
@@ -49,6 +50,7 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
           <><CircleCheck className="size-5 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>
         )}
       </p>
+      {sessionId !== undefined ? <PointCheckIn sessionId={sessionId} pointId={point.pointId} /> : null}
       {blocked ? <p className="mt-2 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; a rigger has to clear the point first.</p> : null}
       {checking ? (
         <Suspense fallback={<div className="mt-4"><Loading label="Opening the pre-use check…" /></div>}>

@@ -4,6 +4,7 @@ import { formatInZone } from '../../../components/ui/zoned-time';
 import type { TodayPoint, TodaySession } from '../api';
 import { PointCard } from './point-card';
 import { Changeovers } from './changeovers';
+import { UnplacedStudents } from '../../students/components/point-check-in';
 
 /** One class today: when and where, whether it is at risk and why, and each booked point as a large card. */
 export function SessionCard({ session, timeZone, showInstructor, canCheck, canInspect, now, onReportFault }: { session: TodaySession; timeZone: string; showInstructor: boolean; canCheck: boolean; canInspect: boolean; now: number; onReportFault: (p: TodayPoint) => void }) {
@@ -37,6 +38,7 @@ export function SessionCard({ session, timeZone, showInstructor, canCheck, canIn
       ) : session.points.length && !over ? (
         <p className="mt-3 flex items-center gap-2 text-sm text-ok-700"><CircleCheck className="size-4" aria-hidden /> Not at risk: every point is fit for this class.</p>
       ) : null}
+      {session.cancelled ? null : <UnplacedStudents sessionId={session.id} />}
       {session.cancelled || over ? null : <Changeovers changeovers={session.changeovers} canMount={canCheck} className={session.className} />}
       {session.cancelled ? null : over ? (
         <ul className="mt-3 flex flex-wrap gap-x-4 gap-y-2" aria-label={`Points for ${session.className}`}>
