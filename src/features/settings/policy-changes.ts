@@ -19,5 +19,7 @@ export function describePolicyChanges(before: Policy, after: Policy): string[] {
   add('Assumed body mass', before.bodyMassKg, after.bodyMassKg, ' kg');
   for (const k of Object.keys(DYNAMIC_NAMES) as (keyof Policy['dynamicFactors'])[]) add(`Dynamic factor, ${DYNAMIC_NAMES[k]}`, before.dynamicFactors[k], after.dynamicFactors[k]);
   add('Reminder lead times', before.reminderLeadHours.join(', '), after.reminderLeadHours.join(', '), ' h');
+  add('Waiver holds for', before.waiverValidMonths, after.waiverValidMonths, ' months');
+  add('Students cancel up to', before.studentCancelCutoffHours, after.studentCancelCutoffHours, ' h before class');
   return out;
 }

@@ -27,6 +27,8 @@ const SOURCES = {
   bodyMass: 'Studio choice.',
   dynamic: 'Studio choice on published figures: peak force as a multiple of body weight measured on aerial apparatus (Cossin, Bergeron-Parenteau & Ross, 2022). Hammock uses the fabric figure, straps the rope figure, trapeze the solo fixed figure.',
   reminders: 'Studio choice.',
+  waiver: `Studio choice. Default ${defaultPolicy.waiverValidMonths}.`,
+  cutoff: `Studio choice. Default ${defaultPolicy.studentCancelCutoffHours}; the desk may cancel any time.`,
 };
 
 const formSchema = z.object({
@@ -131,6 +133,13 @@ function SettingsForm({ name, policy }: { name: string; policy: Policy }) {
         </Card>
         <Card>
           <TextField label="Reminder lead times (hours before class)" hint={SOURCES.reminders} error={e.policy?.reminderLeadHours?.message} {...form.register('policy.reminderLeadHours')} />
+        </Card>
+        <Card className="space-y-4">
+          <h2 className="font-semibold">Students</h2>
+          <div className="grid gap-4 sm:grid-cols-2">
+            <TextField label="A signed waiver holds for (months)" type="number" step="1" hint={SOURCES.waiver} error={e.policy?.waiverValidMonths?.message} {...form.register('policy.waiverValidMonths', num)} />
+            <TextField label="Students cancel up to (hours before class)" type="number" step="0.5" hint={SOURCES.cutoff} error={e.policy?.studentCancelCutoffHours?.message} {...form.register('policy.studentCancelCutoffHours', num)} />
+          </div>
         </Card>
         <Button type="submit" busy={save.isPending || preview.isPending}>Save policy</Button>
       </form>
