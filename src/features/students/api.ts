@@ -14,8 +14,16 @@ import {
 } from '../../../shared/schemas/students';
 import { bookingResultSchema, sessionBookingListSchema, sessionPlacesSchema, type CheckIn, type CreateBooking } from '../../../shared/schemas/places';
 
+/** `GET /api/waivers`: the current text for everyone; the owner also gets every version, newest first. */
+export const waiversSchema = z.object({ current: waiverVersionSchema.nullable(), versions: z.array(waiverVersionSchema) });
+/** A class's places as `GET /api/sessions/:id` gives them; each point also says whether it can take the class now. */
+export const classPlacesSchema = sessionPlacesSchema.extend({
+  pointStudents: z.array(sessionPlacesSchema.shape.pointStudents.element.extend({ usable: z.boolean().default(true) })),
+});
+export type ClassPlaces = z.infer<typeof classPlacesSchema>;
+
 export type { Student, StudentDetail, StudentBooking, WaiverVersion, WaiverStatus } from '../../../shared/schemas/students';
-export type { SessionBooking, SessionPlaces, BookingResult } from '../../../shared/schemas/places';
+export type { SessionBooking, BookingResult } from '../../../shared/schemas/places';
 
 function searchOf(params: Record<string, string | number | undefined>): string {
   const s = new URLSearchParams();
@@ -48,9 +56,9 @@ export const studentsQueries = {
     queryOptions({ queryKey: [...studentsQueries.all, 'session', sessionId, 'bookings'], queryFn: () => api(`/sessions/${sessionId}/bookings`, { schema: sessionBookingListSchema }) }),
   /** A class's places: left, booked, waitlisted, each point's students, those without a fit place. */
   sessionPlaces: (sessionId: number) =>
-    queryOptions({ queryKey: [...studentsQueries.all, 'session', sessionId, 'places'], queryFn: () => api(`/sessions/${sessionId}`, { schema: sessionPlacesSchema }) }),
-  /** The waiver text's versions, newest first. */
-  waivers: () => queryOptions({ queryKey: [...studentsQueries.all, 'waivers'], queryFn: () => api('/waivers', { schema: z.array(waiverVersionSchema) }) }),
+    queryOptions({ queryKey: [...studentsQueries.all, 'session', sessionId, 'places'], queryFn: () => api(`/sessions/${sessionId}`, { schema: classPlacesSchema }) }),
+  /** The current waiver text, and for the owner every version, newest first. */
+  waivers: () => queryOptions({ queryKey: [...studentsQueries.all, 'waivers'], queryFn: () => api('/waivers', { schema: waiversSchema }) }),
 };
 
 // A place changes the class's figures (places left) on the schedule and the Today board too.

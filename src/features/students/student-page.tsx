@@ -24,8 +24,14 @@ export function StudentPage({ id, me }: { id: number; me: Me }) {
   const zone = useStudioTimeZone();
   if (q.isPending || zone.isPending) return <Loading label="Loading the student…" />;
   if (q.isError) {
-    if (q.error instanceof ApiError && q.error.status === 404)
-      return <p className="rounded-xl border border-line bg-white p-6">There is no student with this number. They may have been merged into another record. <Link className="text-pine-700 underline" to={paths.students}>Back to Students</Link></p>;
+    if (q.error instanceof ApiError && q.error.status === 404) {
+      const into = (q.error.details as { mergedIntoId?: number } | undefined)?.mergedIntoId;
+      return (
+        <p className="rounded-xl border border-line bg-white p-6">
+          {into ? <>This student record was merged into another one. <Link className="text-pine-700 underline" to={paths.student(into)}>Open the record kept</Link></> : <>There is no student with this number. <Link className="text-pine-700 underline" to={paths.students}>Back to Students</Link></>}
+        </p>
+      );
+    }
     return <ErrorState error={q.error} retry={() => q.refetch()} />;
   }
   if (zone.isError) return <ErrorState error={zone.error} retry={() => zone.refetch()} />;

@@ -18,7 +18,7 @@ const todayIn = (timeZone: string) => new Intl.DateTimeFormat('en-CA', { timeZon
 export function PaperWaiverForm({ student, timeZone }: { student: Student; timeZone: string }) {
   const [open, setOpen] = useState(false);
   const waivers = useQuery({ ...studentsQueries.waivers(), enabled: open });
-  const current = waivers.data?.[0];
+  const current = waivers.data?.current ?? undefined;
   const { recordWaiver } = useStudentMutations();
   const form = useForm<FormValues, unknown, PaperWaiver>({ resolver: zodResolver(paperWaiverSchema), defaultValues: { fullName: student.name, signedOn: todayIn(timeZone) } });
   const e = form.formState.errors;

@@ -9,7 +9,7 @@ import { ConfirmDialog } from '../../../components/ui/confirm';
 import { ErrorState, Loading } from '../../../components/ui/states';
 import { errorMessage } from '../../../lib/api-client';
 import { paths } from '../../../lib/paths';
-import { studentsQueries, usePlaceMutations, type SessionBooking, type SessionPlaces } from '../api';
+import { studentsQueries, usePlaceMutations, type ClassPlaces, type SessionBooking } from '../api';
 import { PlaceBadge, WaiverMissing } from './badges';
 import { BookStudentForm } from './book-student-form';
 
@@ -22,13 +22,13 @@ export interface FreePoint {
   free: number;
 }
 
-/** Points of the class with a free place now, with how many. */
-export function freePoints(session: Pick<Session, 'points'>, places: SessionPlaces, bookings: SessionBooking[]): FreePoint[] {
+/** Points of the class that can take it now and have a free place, with how many (a move needs no more). */
+export function freePoints(session: Pick<Session, 'points'>, places: ClassPlaces, bookings: SessionBooking[]): FreePoint[] {
   return session.points
     .map((p) => {
       const per = places.pointStudents.find((x) => x.pointId === p.pointId);
-      const taken = bookings.filter((b) => b.pointId === p.pointId && HOLDS.includes(b.status) && !b.withoutFitPlace).length;
-      return { pointId: p.pointId, label: p.label, free: Math.max(0, (per?.places ?? 0) - taken) };
+      const taken = bookings.filter((b) => b.pointId === p.pointId && HOLDS.includes(b.status)).length;
+      return { pointId: p.pointId, label: p.label, free: per?.usable ? Math.max(0, per.places - taken) : 0 };
     })
     .filter((p) => p.free > 0);
 }
@@ -100,7 +100,8 @@ export function SessionStudents({ session, canEdit }: { session: Session; canEdi
         <ul className="space-y-2" aria-label="Students on each point">
           {session.points.map((pt) => {
             const on = list.filter((b) => b.pointId === pt.pointId && HOLDS.includes(b.status) && !b.withoutFitPlace);
-            const placesOn = p.pointStudents.find((x) => x.pointId === pt.pointId)?.places ?? 0;
+            const per = p.pointStudents.find((x) => x.pointId === pt.pointId);
+            const placesOn = per?.usable ? per.places : 0;
             return (
               <li key={pt.pointId} className="rounded-xl border border-line bg-white px-4 py-2" data-testid={`point-students-${pt.pointId}`}>
                 <h4 className="flex flex-wrap items-baseline justify-between gap-2 pt-1">
@@ -125,7 +126,7 @@ export function SessionStudents({ session, canEdit }: { session: Session; canEdi
           booking ? (
             <BookStudentForm
               session={session}
-              free={free}
+              free={p.placesLeft > 0 ? free : []}
               onClose={() => setBooking(false)}
               onBooked={(text, lines, tone) => { setBooking(false); setFlash({ tone, text, lines }); }}
             />

@@ -63,8 +63,6 @@ function StudentForm({ student, onDone, onCancel, onDirty }: { student?: Student
   const onError = (err: unknown) => {
     if (err instanceof ApiError) {
       for (const [k, v] of Object.entries(err.fields)) if ((FIELDS as readonly string[]).includes(k)) form.setError(k as (typeof FIELDS)[number], { message: v });
-      // A second student with the same e-mail is refused; say so beside the address.
-      if (err.status === 409 && /email/.test(err.code)) form.setError('email', { message: err.message });
     }
     toast.error(errorMessage(err));
   };

@@ -20,7 +20,8 @@ type FormValues = z.input<typeof createWaiverVersionSchema>;
 export function WaiverVersions({ timeZone }: { timeZone: string }) {
   const list = useQuery(studentsQueries.waivers());
   const [writing, setWriting] = useState(false);
-  const current = list.data?.[0];
+  const current = list.data?.current ?? undefined;
+  const earlier = (list.data?.versions ?? []).filter((v) => v.id !== current?.id);
   return (
     <Card className="max-w-3xl">
       <h2 className="mb-1 text-lg font-semibold" id="waiver-heading">Waiver</h2>
@@ -33,11 +34,11 @@ export function WaiverVersions({ timeZone }: { timeZone: string }) {
               <div className="mt-2 max-h-64 overflow-y-auto whitespace-pre-wrap rounded-lg border border-line bg-canvas p-3 text-sm" data-testid="waiver-current-text" tabIndex={0} aria-label={`Waiver version ${current.version}`}>{current.text}</div>
             </section>
           ) : <p className="text-sm">No waiver text yet. Until one is published, students cannot sign and nobody can be checked in.</p>}
-          {list.data.length > 1 ? (
+          {earlier.length ? (
             <details>
-              <summary className="flex min-h-11 cursor-pointer items-center text-sm font-medium text-pine-700">Earlier versions ({list.data.length - 1})</summary>
+              <summary className="flex min-h-11 cursor-pointer items-center text-sm font-medium text-pine-700">Earlier versions ({earlier.length})</summary>
               <ul className="mt-2 space-y-3">
-                {list.data.slice(1).map((v) => (
+                {earlier.map((v) => (
                   <li key={v.id}>
                     <p className="text-sm font-medium">Version {v.version}, published {formatInZone(v.createdAt, timeZone, 'day')}</p>
                     <div className="mt-1 whitespace-pre-wrap rounded-lg border border-line bg-white p-3 text-sm text-muted">{v.text}</div>
