@@ -67,13 +67,13 @@ function Student({ booking: b, canCheck }: { booking: SessionBooking; canCheck: 
       </p>
       {canCheck ? (
         <div className="grid grid-cols-2 gap-2" role="group" aria-label={`Check in ${b.name}`}>
-          <button type="button" aria-pressed={b.status === 'attended'} disabled={checkIn.isPending} aria-busy={pending === 'attended' || undefined} onClick={() => mark('attended')}
+          <button type="button" aria-label={`Attended: ${b.name}`} aria-pressed={b.status === 'attended'} disabled={checkIn.isPending} aria-busy={pending === 'attended' || undefined} onClick={() => mark('attended')}
             className={`${tap} ${b.status === 'attended' ? 'border-ok-700 bg-ok-700 text-white' : 'border-ok-700 bg-white text-ok-700 hover:bg-ok-50'}`}>
-            <UserCheck className="size-5" aria-hidden />Attended<span className="sr-only">: {b.name}</span>
+            <UserCheck className="size-5" aria-hidden />Attended
           </button>
-          <button type="button" aria-pressed={b.status === 'no_show'} disabled={checkIn.isPending} aria-busy={pending === 'no_show' || undefined} onClick={() => mark('no_show')}
+          <button type="button" aria-label={`No-show: ${b.name}`} aria-pressed={b.status === 'no_show'} disabled={checkIn.isPending} aria-busy={pending === 'no_show' || undefined} onClick={() => mark('no_show')}
             className={`${tap} ${b.status === 'no_show' ? 'border-stop-700 bg-stop-700 text-white' : 'border-stop-700 bg-white text-stop-700 hover:bg-stop-50'}`}>
-            <CircleX className="size-5" aria-hidden />No-show<span className="sr-only">: {b.name}</span>
+            <CircleX className="size-5" aria-hidden />No-show
           </button>
         </div>
       ) : null}

@@ -9,7 +9,7 @@ import { createWaiverVersionSchema, type CreateWaiverVersion } from '../../../..
 import { Button } from '../../../components/ui/button';
 import { ConfirmDialog } from '../../../components/ui/confirm';
 import { TextAreaField } from '../../../components/ui/field';
-import { Card, ErrorState, Loading } from '../../../components/ui/states';
+import { ErrorState, Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
 import { ApiError, errorMessage } from '../../../lib/api-client';
 import { studentsQueries, useStudentMutations } from '../api';
@@ -23,7 +23,7 @@ export function WaiverVersions({ timeZone }: { timeZone: string }) {
   const current = list.data?.current ?? undefined;
   const earlier = (list.data?.versions ?? []).filter((v) => v.id !== current?.id);
   return (
-    <Card className="max-w-3xl">
+    <section aria-labelledby="waiver-heading" className="max-w-3xl rounded-xl border border-line bg-white p-5">
       <h2 className="mb-1 text-lg font-semibold" id="waiver-heading">Waiver</h2>
       <p className="mb-4 text-sm text-muted">What students agree to before they take a class, online by typing their full name or on paper at the desk. A waiver holds for the months set in the policy; publishing a new version does not void waivers already signed.</p>
       {list.isPending ? <Loading label="Loading the waiver…" /> : list.isError ? <ErrorState error={list.error} retry={() => list.refetch()} /> : (
@@ -52,7 +52,7 @@ export function WaiverVersions({ timeZone }: { timeZone: string }) {
           )}
         </div>
       )}
-    </Card>
+    </section>
   );
 }
 
