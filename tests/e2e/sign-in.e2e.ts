@@ -10,9 +10,9 @@ beforeAll(async () => {
 afterAll(async () => browser?.close());
 
 const expected: Record<string, string[]> = {
-  owner: ['Today', 'Schedule', 'Rig', 'Inspections', 'Faults', 'Staff', 'Settings', 'Mailbox', 'Audit'],
-  reception: ['Today', 'Schedule', 'Rig', 'Faults', 'Staff'],
-  instructor: ['Today', 'Schedule', 'Rig', 'Faults'],
+  owner: ['Today', 'Schedule', 'Rig', 'Inspections', 'Faults', 'Students', 'Staff', 'Settings', 'Mailbox', 'Audit'],
+  reception: ['Today', 'Schedule', 'Rig', 'Faults', 'Students', 'Staff'],
+  instructor: ['Today', 'Schedule', 'Rig', 'Faults', 'Students'],
   rigger: ['Today', 'Schedule', 'Rig', 'Inspections', 'Faults'],
 };
 
