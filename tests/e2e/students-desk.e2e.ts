@@ -280,6 +280,21 @@ describe('the instructor checks students in on a phone', () => {
     expect(page.find((b) => b.name === CLEO)?.status).toBe('no_show');
   });
 
+  it('lets the instructor read the students list and a student’s page on the phone without sideways scrolling', async () => {
+    await phone.goto(`${baseUrl}/students?q=${encodeURIComponent(ALMA.name)}`);
+    await phone.getByRole('table').getByRole('link', { name: ALMA.name }).waitFor();
+    expect(await phone.getByRole('button', { name: 'Add a student' }).count()).toBe(0);
+    const problems = await axe(phone, '/students @390');
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBe(0);
+    await phone.getByRole('table').getByRole('link', { name: ALMA.name }).click();
+    await phone.getByText('Waiver valid', { exact: true }).waitFor();
+    expect(await phone.getByRole('button', { name: 'Record a paper waiver' }).count()).toBe(0);
+    problems.push(...(await axe(phone, '/students/<id> @390')));
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBe(0);
+    await shot(phone, 'students-instructor-reads-student');
+    expect(problems.join('\n'), problems.join('\n')).toBe('');
+  });
+
   it('showed no console error on any of these pages', () => {
     expect(consoleErrors).toEqual([]);
   });
