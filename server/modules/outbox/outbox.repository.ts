@@ -4,7 +4,7 @@ import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 import { outboxStates } from '../../../shared/schemas/outbox';
 export { outboxStates };
 export type OutboxState = (typeof outboxStates)[number];
-export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest' | 'fault';
+export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest' | 'fault' | 'sign_in_link';
 
 export interface OutboxRow {
   id: number;
