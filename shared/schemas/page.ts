@@ -13,9 +13,12 @@ type KeyPart = string | number;
 const toBase64Url = (s: string) => btoa(s).replace(/\+/g, '-').replace(/\//g, '_').replace(/=+$/, '');
 const fromBase64Url = (s: string) => atob(s.replace(/-/g, '+').replace(/_/g, '/'));
 
-/** The cursor for the page after a row with this sort key. Keys hold ASCII only (ids, ISO instants, words). */
+/**
+ * The cursor for the page after a row with this sort key. Characters past ASCII (a student's name)
+ * are written as JSON \u escapes first, so the text base64 encodes is ASCII and decodes the same.
+ */
 export function encodeCursor(key: readonly KeyPart[]): string {
-  return toBase64Url(JSON.stringify(key));
+  return toBase64Url(JSON.stringify(key).replace(/[\u0080-\uffff]/g, (c) => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`));
 }
 
 const BAD_CURSOR = 'This page link is not valid any more. Start again from the first page.';

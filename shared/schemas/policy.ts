@@ -27,6 +27,10 @@ export const policySchema = z.object({
     trapeze: z.number().min(1).max(20),
   }),
   reminderLeadHours: z.array(z.number().min(0.25).max(24 * 14)).max(6),
+  /** How long a signed waiver holds, in months (PRODUCT.md §11). */
+  waiverValidMonths: z.number().int().min(1, 'At least one month').max(120, 'At most 120 months'),
+  /** How many hours before class a student may still cancel their own place. */
+  studentCancelCutoffHours: z.number().min(0).max(24 * 14),
 });
 export type Policy = z.infer<typeof policySchema>;
 
@@ -67,4 +71,8 @@ export const defaultPolicy: Policy = {
   dynamicFactors: { fabric: 5.6, hammock: 5.6, hoop: 4.8, rope: 7.3, straps: 7.3, trapeze: 6.8 },
   // [studio choice] reminders 24 h and 2 h before class.
   reminderLeadHours: [24, 2],
+  // [studio choice] a waiver holds 12 months.
+  waiverValidMonths: 12,
+  // [studio choice] students cancel up to 12 h before class.
+  studentCancelCutoffHours: 12,
 };

@@ -103,3 +103,13 @@ export function isApparatusKind(kind: string): kind is ApparatusKind {
 export function isConnectorKind(kind: string): boolean {
   return (connectorKinds as readonly string[]).includes(kind);
 }
+
+/** A student's place in a class (PRODUCT.md §11). */
+export const placeStatuses = ['booked', 'waitlisted', 'cancelled', 'attended', 'no_show'] as const;
+export const placeStatusSchema = z.enum(placeStatuses);
+export type PlaceStatus = z.infer<typeof placeStatusSchema>;
+
+/** How a waiver was accepted: typed online by the student, or recorded by the desk from paper. */
+export const waiverMethods = ['online', 'paper'] as const;
+export const waiverMethodSchema = z.enum(waiverMethods);
+export type WaiverMethod = z.infer<typeof waiverMethodSchema>;
