@@ -1,14 +1,15 @@
 import { z } from 'zod';
 import { idSchema, instantSchema } from './common';
 import { apparatusKindSchema } from './vocabulary';
+import { onlineWaiverSchema, studentEmailKey, type OnlineWaiver } from './students';
 
 /**
  * The student's side (PRODUCT.md §11): their profile, their own bookings, the waiver, their
  * calendar feed, and the public timetable anyone may read.
  */
 
-/** The form an e-mail is looked up by for students: NFKC, trimmed, lower case (as `students.email_key`). */
-export const studentEmailKey = (raw: string): string => raw.normalize('NFKC').trim().toLowerCase();
+/** The form an e-mail is looked up by for students (as `students.email_key`). */
+export { studentEmailKey };
 
 /** The longest public timetable range: five weeks and a day ([studio choice]: a month view and a clock change). */
 export const PUBLIC_TIMETABLE_MAX_DAYS = 36;
@@ -75,14 +76,9 @@ export const myBookingResultSchema = z.object({
 });
 export type MyBookingResult = z.infer<typeof myBookingResultSchema>;
 
-export const signWaiverSchema = z.object({
-  version: z.number({ message: 'Choose the waiver version you read' }).int().positive(),
-  fullName: z
-    .string({ message: 'Type your full name' })
-    .transform((s) => s.normalize('NFKC').replace(/\s+/g, ' ').trim())
-    .pipe(z.string().min(3, 'Type your full name').max(120, 'Keep the name under 120 characters')),
-});
-export type SignWaiver = z.infer<typeof signWaiverSchema>;
+/** `POST /api/my/waiver { version, fullName }`: the version read and the full name typed. */
+export const signWaiverSchema = onlineWaiverSchema;
+export type SignWaiver = OnlineWaiver;
 
 export const myWaiverSchema = z.object({
   /** The waiver in force, to read and sign; null while the owner has written none. */
