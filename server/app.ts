@@ -44,6 +44,12 @@ import { sessionsRepository } from './modules/sessions/sessions.repository';
 import { sessionsService } from './modules/sessions/sessions.service';
 import { sessionsRoutes } from './modules/sessions/sessions.router';
 import { sessionRecords } from './modules/sessions/session-records';
+import { studentsRepository } from './modules/students/students.repository';
+import { studentsService } from './modules/students/students.service';
+import { studentsRoutes } from './modules/students/students.router';
+import { placesRepository } from './modules/places/places.repository';
+import { placesService } from './modules/places/places.service';
+import { placesRoutes } from './modules/places/places.router';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
@@ -53,6 +59,8 @@ import { feedsService } from './modules/feeds/feeds.service';
 import { feedRoute, feedsRoutes } from './modules/feeds/feeds.router';
 import { publicService } from './modules/public/public.service';
 import { publicRoutes } from './modules/public/public.router';
+import { myService } from './modules/my/my.service';
+import { myRoutes } from './modules/my/my.router';
 
 export interface AppDeps {
   db: Db;
@@ -172,9 +180,28 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit, auditService({ db, audit, rig: rigRepo }));
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
-  const sessions = sessionsService({ db, repo: sessionsRepository(db), rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier: outbox, derived, records });
-  sessionsRoutes(api, sessions);
-  // Students (PRODUCT.md §11): their calendar feeds, the public timetable.
+  // Students and their places (PRODUCT.md §11): a change to a class tells its instructor (outbox)
+  // and then its students, who also move with their points (places).
+  const sessionsRepo = sessionsRepository(db);
+  const studentsRepo = studentsRepository(db);
+  const placesRepo = placesRepository(db);
+  const places = placesService({ db, repo: placesRepo, students: studentsRepo, sessions: sessionsRepo, rig: rigRepo, studio: studioRepo, audit, clock, undoWindowMs: deps.moveNoticeDelayMs });
+  const students = studentsService({ db, repo: studentsRepo, places: placesRepo, studio: studioRepo, audit, clock });
+  const notifier = {
+    async sessionChanged(trx: Db, change: Parameters<typeof places.sessionChanged>[1]) {
+      await outbox.sessionChanged(trx, change);
+      await places.sessionChanged(trx, change);
+    },
+  };
+  const sessions = sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records });
+  sessionsRoutes(api, sessions, places);
+  studentsRoutes(api, students);
+  placesRoutes(api, places);
+  app.locals.students = students;
+  app.locals.places = places;
+  // The student's side (PRODUCT.md §11): their own data through the places and students services,
+  // their calendar feeds, the public timetable.
+  myRoutes(api, myService({ db, clock, studio: studioRepo, places, students }));
   const feeds = feedsService({ db, clock, appUrl: deps.appUrl, studio: studioRepo, sessions });
   feedsRoutes(api, feeds);
 

@@ -4,7 +4,9 @@ import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 import { outboxStates } from '../../../shared/schemas/outbox';
 export { outboxStates };
 export type OutboxState = (typeof outboxStates)[number];
-export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest' | 'fault' | 'sign_in_link';
+/** Students' messages (PRODUCT.md §11): each at most once per key, like every other. */
+export type StudentOutboxKind = 'booking_confirmed' | 'waitlist_place_offered' | 'class_moved_student' | 'class_cancelled_student' | 'sign_in_link';
+export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest' | 'fault' | StudentOutboxKind;
 
 export interface OutboxRow {
   id: number;
