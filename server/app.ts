@@ -208,7 +208,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
-  publicRoutes(app, publicService({ db, clock, studio: studioRepo, sessions }));
+  publicRoutes(app, publicService({ db, clock, studio: studioRepo, sessions, places }));
   feedRoute(app, feeds);
   app.use(
     '/api',

@@ -120,7 +120,7 @@ describe('students sign in by an e-mail link', () => {
 describe('a signed-in student and the staff side', () => {
   it('gets 403 on staff routes such as the schedule, the rig and the student list', async () => {
     const st = await asStudent(ctx);
-    for (const path of ['/api/sessions?from=2026-12-01T00:00:00Z&to=2026-12-08T00:00:00Z', '/api/points', '/api/users', '/api/today', '/api/instructors', '/api/me/preferences']) {
+    for (const path of ['/api/sessions?from=2026-12-01T00:00:00Z&to=2026-12-08T00:00:00Z', '/api/points', '/api/users', '/api/today', '/api/instructors', '/api/me/preferences', '/api/students', '/api/sessions/1/bookings']) {
       expect((await st.get(path)).status, path).toBe(403);
     }
     expect((await st.post('/api/faults').send({ description: 'x', severity: 'low' })).status).toBe(403);
@@ -211,5 +211,82 @@ describe('iCalendar feeds', () => {
   it('keeps feeds to instructors and students', async () => {
     const rigger = await as(ctx, 'rigger');
     expect((await rigger.post('/api/my/feed')).status).toBe(403);
+  });
+});
+
+describe('/api/my: the student\'s own bookings and waiver', () => {
+  it('books themself, sees only their own bookings, signs the waiver, cancels; another student\'s booking is 404', async () => {
+    const s = await studio(1);
+    const id = await s.book('2026-12-03T18:00:00Z', '2026-12-03T19:00:00Z');
+    const owner = await as(ctx, 'owner');
+    expect((await owner.post('/api/waivers').send({ text: 'I take part at my own risk and follow the instructor at all times.' })).status).toBe(201);
+    const ann = await asStudent(ctx, { name: 'Ann Able', email: 'ann.able@example.test' });
+    const bob = await asStudent(ctx, { name: 'Bob Baker', email: 'bob.baker@example.test' });
+
+    const booked = await ann.post('/api/my/bookings').send({ sessionId: id });
+    expect(booked.status).toBe(201);
+    expect(booked.body).toMatchObject({ status: 'booked', pointId: s.points[0] });
+    expect(booked.body.warnings.map((w: { code: string }) => w.code)).toEqual(['waiver_missing']);
+    // The one place is taken: Bob is waitlisted.
+    const waiting = await bob.post('/api/my/bookings').send({ sessionId: id });
+    expect(waiting.body).toMatchObject({ status: 'waitlisted', position: 1 });
+    // The public timetable counts it.
+    expect((await request(ctx.app).get('/api/public/timetable?from=2026-12-01T00:00:00Z&to=2026-12-08T00:00:00Z')).body[0].placesLeft).toBe(0);
+
+    const mine = await ann.get('/api/my/bookings');
+    expect(mine.status).toBe(200);
+    expect(mine.body).toHaveLength(1);
+    expect(mine.body[0]).toMatchObject({ id: booked.body.id, sessionId: id, className: 'Silks basics', status: 'booked', canCancel: true, cancelBefore: '2026-12-03T06:00:00.000Z' });
+    expect(JSON.stringify(mine.body)).not.toContain('Bob');
+    expect((await bob.get('/api/my/bookings')).body.map((b: { id: number }) => b.id)).toEqual([waiting.body.id]);
+
+    // Another student's booking: not found, and nothing changes.
+    const other = await bob.post(`/api/my/bookings/${booked.body.id}/cancel`).send({});
+    expect(other.status).toBe(404);
+    expect((await ctx.db('places').where({ id: booked.body.id }).first()).status).toBe('booked');
+    // Nor can a student pick another student through the body.
+    expect((await bob.post('/api/my/bookings').send({ sessionId: id, studentId: ann.student.id })).status).not.toBe(201);
+
+    // The waiver: read, sign by typing the full name.
+    const waiver = await ann.get('/api/my/waiver');
+    expect(waiver.body).toMatchObject({ current: { version: 1 }, accepted: null, valid: false });
+    expect((await ann.post('/api/my/waiver').send({ version: 1, fullName: '' })).status).toBe(400);
+    const signed = await ann.post('/api/my/waiver').send({ version: 1, fullName: 'Ann Able' });
+    expect(signed.status).toBe(201);
+    expect((await ann.get('/api/my/waiver')).body).toMatchObject({ valid: true, accepted: { version: 1 } });
+    expect((await ann.get('/api/my/profile')).body).toMatchObject({ name: 'Ann Able', email: 'ann.able@example.test', waiverValid: true, cancelCutoffHours: 12 });
+
+    // Cancel: the place goes to Bob.
+    const cancelled = await ann.post(`/api/my/bookings/${booked.body.id}/cancel`).send({});
+    expect(cancelled.status).toBe(200);
+    expect(cancelled.body.status).toBe('cancelled');
+    expect((await bob.get('/api/my/bookings')).body[0]).toMatchObject({ status: 'booked' });
+  });
+
+  it('refuses a student\'s cancel after the policy\'s cut-off with 409, and changes nothing', async () => {
+    const s = await studio(1);
+    const id = await s.book('2026-12-01T20:00:00Z', '2026-12-01T21:00:00Z');
+    const st = await asStudent(ctx);
+    const booked = await st.post('/api/my/bookings').send({ sessionId: id });
+    expect(booked.status).toBe(201);
+    expect((await st.get('/api/my/bookings')).body[0].canCancel).toBe(false);
+    const res = await st.post(`/api/my/bookings/${booked.body.id}/cancel`).send({});
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('cancel_cutoff_passed');
+    expect((await ctx.db('places').where({ id: booked.body.id }).first()).status).toBe('booked');
+  });
+
+  it('gives a student a feed of their bookings', async () => {
+    const s = await studio(1);
+    const id = await s.book('2026-12-03T18:00:00Z', '2026-12-03T19:00:00Z');
+    const st = await asStudent(ctx);
+    await st.post('/api/my/bookings').send({ sessionId: id });
+    const made = await st.post('/api/my/feed');
+    expect(made.status).toBe(201);
+    const feed = await request(ctx.app).get(new URL(made.body.url).pathname);
+    expect(feed.status).toBe(200);
+    const events = new ICAL.Component(ICAL.parse(feed.text)).getAllSubcomponents('vevent').map((v) => new ICAL.Event(v));
+    expect(events.map((e) => e.summary)).toEqual(['Silks basics']);
+    expect(events[0].description).toContain('Your point:');
   });
 });
