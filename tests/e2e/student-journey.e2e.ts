@@ -24,6 +24,8 @@ const consoleErrors: string[] = [];
 const axeFindings: string[] = [];
 
 async function axe(p: Page) {
+  // Toasts come and go (sonner's own colours); the page is checked once they have gone.
+  for (let i = 0; i < 40 && (await p.locator('[data-sonner-toast]').count()) > 0; i++) await p.waitForTimeout(250);
   const { violations } = await new AxeBuilder({ page: p }).analyze();
   for (const v of violations) if (v.impact === 'serious' || v.impact === 'critical') axeFindings.push(`${new URL(p.url()).pathname}: ${v.id} (${v.impact}) ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
 }
@@ -127,7 +129,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
     await page.getByText(`Booked: ${className}.`).waitFor();
     expect(await row.count()).toBeGreaterThan(0);
 
-    await page.getByRole('link', { name: 'My bookings' }).click();
+    await page.getByRole('link', { name: 'My bookings', exact: true }).click();
     const mine = page.getByTestId('my-booking').filter({ hasText: className });
     await mine.first().waitFor();
     expect(await mine.first().innerText()).toContain('Booked');
@@ -137,7 +139,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
   });
 
   it('signs the waiver by typing the full name', async () => {
-    await page.getByRole('link', { name: 'Waiver' }).click();
+    await page.getByRole('link', { name: 'Waiver', exact: true }).click();
     await page.getByLabel('Type your full name to sign').fill(fullName);
     await shot(page, 'student-waiver');
     await axe(page);
@@ -148,7 +150,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
   });
 
   it('makes a calendar link on the account page', async () => {
-    await page.getByRole('link', { name: 'Account' }).click();
+    await page.getByRole('link', { name: 'Account', exact: true }).click();
     await page.getByRole('button', { name: 'Make my calendar link' }).click();
     const url = await page.getByTestId('feed-url').inputValue();
     expect(url).toMatch(/\/ical\/[A-Za-z0-9_-]+\.ics$/);
@@ -160,7 +162,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
   });
 
   it('cancels the booking after confirming', async () => {
-    await page.getByRole('link', { name: 'My bookings' }).click();
+    await page.getByRole('link', { name: 'My bookings', exact: true }).click();
     const mine = page.getByTestId('my-booking').filter({ hasText: className }).first();
     await mine.getByRole('button', { name: /^Cancel / }).click();
     const dialog = page.getByRole('dialog', { name: 'Cancel this booking?' });

@@ -30,8 +30,8 @@ function EmailLinkForm({ next }: { next: string }) {
     }
   });
   return (
-    <form onSubmit={submit} className="space-y-4" noValidate aria-labelledby="student-sign-in">
-      <h2 id="student-sign-in" className="font-semibold">Students: sign in by e-mail</h2>
+    <form onSubmit={submit} className="space-y-4" noValidate>
+      <h2 className="font-semibold">Students: sign in by e-mail</h2>
       <p className="text-sm text-muted">Book classes, see your bookings and sign the waiver. We e-mail you a link; no password needed.</p>
       <TextField label="Your e-mail" type="email" autoComplete="email" error={form.formState.errors.email?.message} {...form.register('email')} />
       {failure ? (
