@@ -115,7 +115,8 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
 
   it('books the class with a confirmation and sees the booking', async () => {
     const row = page.getByTestId('timetable-class').filter({ hasText: className }).filter({ has: page.getByRole('button', { name: /^Book / }) });
-    // Our class is two days ahead: this week's page or the next.
+    // Our class is two days ahead: this week's page or the next (once the list has loaded).
+    await page.getByTestId('timetable-class').first().waitFor();
     if (!(await page.getByRole('button', { name: new RegExp(`^Book ${className}`) }).count())) await page.getByRole('button', { name: 'Later week' }).click();
     const book = page.getByRole('button', { name: new RegExp(`^Book ${className}`) }).first();
     await book.waitFor();
