@@ -4,6 +4,7 @@ import { seedRig } from './02-rig';
 import { seedSafety } from './03-safety';
 import { seedSchedule } from './04-schedule';
 import { seedRecords } from './05-records';
+import { seedStudents } from './06-students';
 
 /**
  * Loads the invented demo studio, but only into a database with no staff yet; each step is
@@ -18,6 +19,7 @@ export async function seedDemoIfEmpty(db: Db, now: Date, auditKey: string): Prom
     await seedSafety(trx, now, auditKey);
     await seedSchedule(trx, now);
     await seedRecords(trx, now);
+    await seedStudents(trx, now);
     return true;
   });
 }

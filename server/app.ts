@@ -1,7 +1,8 @@
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { existsSync } from 'node:fs';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
+import { createRequire } from 'node:module';
 import type { Db } from './db/knex';
 import type { Clock } from './clock';
 import type { Mailer } from './mail/transport';
@@ -92,6 +93,8 @@ export interface AppDeps {
 export interface LoftwiseApp extends Express {
   locals: Express['locals'] & { routes: RouteDeclaration[] };
 }
+
+const LEXEND_FILES = dirname(createRequire(import.meta.url).resolve('@fontsource/lexend/files/lexend-latin-400-normal.woff2'));
 
 export function createApp(deps: AppDeps): LoftwiseApp {
   const log = deps.log ?? ((err) => console.error(err));
@@ -223,6 +226,8 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   );
   app.locals.routes = api.routes;
 
+  // The printable log is served by the API, outside the built client: it takes Lexend from the app's own copy.
+  app.use('/fonts', express.static(LEXEND_FILES, { index: false, maxAge: '30d' }), (_req: express.Request, res: express.Response) => void res.status(404).json({ error: { code: 'not_found', message: 'There is no such font file.' } }));
   if (deps.clientDir && existsSync(join(deps.clientDir, 'index.html'))) {
     app.use(express.static(deps.clientDir, { index: false, maxAge: '1h' }));
     app.get(/^\/(?!api\/|auth\/).*/, (_req, res) => res.sendFile(join(deps.clientDir!, 'index.html')));

@@ -3,6 +3,9 @@ import type { MailCycleContext } from './context';
 import type { MailSession } from './mail-data.repository';
 import { atRiskMessage } from './templates/at-risk';
 import { writeTransaction } from '../db/knex';
+import { placesRepository } from '../modules/places/places.repository';
+import { unfitReasons } from '../modules/places/session-places';
+import { shortDay, clockTime } from './templates/layout';
 
 export const atRiskKeyPrefix = (sessionId: number, startsAt: string) => `at_risk:${sessionId}:${startsAt}:`;
 
@@ -55,13 +58,15 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
   }
 
   for (const [cause, group] of turned) {
+    // Read before the write transaction (which holds the one writer's connection).
+    const students = await studentsWithoutFitPlace(ctx, group.map((g) => g.s));
     await writeTransaction(ctx.db, async (trx) => {
       // A flag flips only if nobody flipped it since we read it, so two workers cannot both alert.
-      const flipped = [];
+      const flipped: typeof group = [];
       for (const g of group) if (await ctx.data.setAtRiskIf(g.s.id, false, true, trx)) flipped.push(g);
       if (!flipped.length) return;
       const [first] = flipped; // sessionsToWatch lists by start
-      const mail = alertMessage(ctx, flipped.map((g) => g.s), first.trouble);
+      const mail = alertMessage(ctx, flipped.map((g) => g.s), first.trouble, students.filter((st) => flipped.some((g) => g.s.id === st.sessionId)));
       const prefix = atRiskKeyPrefix(first.s.id, first.s.startsAt);
       const n = (await ctx.outbox.countWithPrefix(prefix, trx)) + 1;
       const to = (await ctx.data.activeStaff(['reception', 'rigger'], trx)).map((u) => u.email);
@@ -99,13 +104,34 @@ async function troubleOf(ctx: MailCycleContext, s: MailSession, pointIds: number
     .filter((p) => p.reasons.length > 0);
 }
 
-function alertMessage(ctx: MailCycleContext, sessions: MailSession[], trouble: Trouble) {
+/**
+ * The booked students of these classes whose point cannot take the class now (or who have no
+ * point): PRODUCT.md §11, nobody is dropped silently, so the alert names them.
+ */
+async function studentsWithoutFitPlace(ctx: MailCycleContext, sessions: MailSession[]): Promise<Array<{ sessionId: number; name: string; pointLabel: string | null; when: string }>> {
+  if (!sessions.length) return [];
+  const places = await placesRepository(ctx.db).liveForSessions(sessions.map((s) => s.id));
+  const pointIds = await ctx.data.pointIdsOf(sessions.map((s) => s.id));
+  const out: Array<{ sessionId: number; name: string; pointLabel: string | null; when: string }> = [];
+  for (const s of sessions) {
+    const booked = (places.get(s.id) ?? []).filter((p) => p.status === 'booked');
+    if (!booked.length) continue;
+    const ids = pointIds.get(s.id) ?? [];
+    const unfit = unfitReasons({ ...s, pointIds: ids, recordedApparatus: [] }, await ctx.hanging(s, ids), ctx.policy, ctx.now, new Date(s.endsAt));
+    const when = `${s.className}, ${shortDay(s.startsAt, ctx.policy.timeZone)} ${clockTime(s.startsAt, ctx.policy.timeZone)}`;
+    for (const p of booked) if (p.pointId === null || (unfit.get(p.pointId) ?? []).length > 0) out.push({ sessionId: s.id, name: p.studentName, pointLabel: p.pointLabel, when });
+  }
+  return out;
+}
+
+function alertMessage(ctx: MailCycleContext, sessions: MailSession[], trouble: Trouble, students: Array<{ name: string; pointLabel: string | null; when: string }> = []) {
   return atRiskMessage({
     studioName: ctx.studioName,
     timeZone: ctx.policy.timeZone,
     appUrl: ctx.appUrl,
     classes: sessions.map((s) => ({ className: s.className, roomName: s.roomName, instructorName: s.instructor.name, startsAt: new Date(s.startsAt), endsAt: new Date(s.endsAt) })),
     points: trouble.map(({ label, reasons }) => ({ label, reasons })),
+    students,
   });
 }
 
@@ -115,7 +141,7 @@ function alertMessage(ctx: MailCycleContext, sessions: MailSession[], trouble: T
  */
 export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds: number[]) {
   const trouble = await troubleOf(ctx, s, pointIds);
-  return trouble && alertMessage(ctx, [s], trouble);
+  return trouble && alertMessage(ctx, [s], trouble, await studentsWithoutFitPlace(ctx, [s]));
 }
 
 /**
@@ -134,5 +160,5 @@ export async function atRiskGroupFor(ctx: MailCycleContext, causePoints: number[
     group.push(s);
     for (const p of trouble) if (!points.has(p.pointId)) points.set(p.pointId, p);
   }
-  return group.length ? alertMessage(ctx, group, [...points.values()]) : null;
+  return group.length ? alertMessage(ctx, group, [...points.values()], await studentsWithoutFitPlace(ctx, group)) : null;
 }

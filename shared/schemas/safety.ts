@@ -17,7 +17,10 @@ export type ClearanceBody = z.infer<typeof clearanceBodySchema>;
 
 export const clearanceResultSchema = z.object({
   inspectionId: z.number(),
+  /** The point is cleared now: the clearance was signed and no rule blocks it. */
   cleared: z.boolean(),
+  /** The rigger's clearance is on record (no item failed, no fault open), even if another rule still blocks the point. */
+  clearanceSigned: z.boolean(),
   clearedUntil: z.string().nullable(),
   reasons: z.array(reasonSchema),
   faultIds: z.array(z.number()),

@@ -71,6 +71,24 @@ describe('access declarations', () => {
     expect(access('post /api/points/:id/apparatus')).toEqual(['rigger', 'instructor']);
   });
 
+  it('declares the students and places routes for exactly their roles (PRODUCT.md §11)', () => {
+    const access = (key: string) => ctx.app.locals.routes.find((r) => `${r.method} ${r.path}` === key)?.access;
+    const desk = ['reception', 'owner'];
+    expect(access('get /api/students')).toEqual(['reception', 'owner', 'instructor']);
+    expect(access('post /api/students')).toEqual(desk);
+    expect(access('get /api/students/:id')).toEqual(['reception', 'owner', 'instructor']);
+    expect(access('patch /api/students/:id')).toEqual(desk);
+    expect(access('post /api/students/:id/merge')).toEqual(['owner']);
+    expect(access('post /api/students/:id/waiver')).toEqual(desk);
+    expect(access('get /api/waivers')).toBe('signed_in');
+    expect(access('post /api/waivers')).toEqual(['owner']);
+    expect(access('post /api/sessions/:id/bookings')).toEqual(desk);
+    expect(access('get /api/sessions/:id/bookings')).toEqual(['reception', 'owner', 'instructor']);
+    expect(access('post /api/bookings/:id/cancel')).toEqual(desk);
+    expect(access('post /api/bookings/:id/check-in')).toEqual(['instructor', 'reception', 'owner']);
+    expect(access('post /api/bookings/:id/move')).toEqual(desk);
+  });
+
   it('answers every declared route 401 when signed out', async () => {
     for (const r of ctx.app.locals.routes) {
       const path = r.path.replace(/:\w+/g, '1');

@@ -326,6 +326,36 @@ describe('§4.7: apparatus changeovers', () => {
     expect((await teacher.post(`/api/points/${p.id}/apparatus`).send({ gearId: hoop })).body.changed).toBe(false);
   });
 
+  it('never takes an apparatus down under a class that is under way, on this point or on the one it would come from', async () => {
+    const s = await studio();
+    const desk = await as(ctx, 'reception');
+    const teacher = await as(ctx, 'instructor');
+    const here = await point(s.roomId, 'LS-12', { kind: 'fabric', serial: 'FB-12' });
+    const there = await point(s.roomId, 'LS-13', { kind: 'hoop', serial: 'HP-13' });
+    await ctx.db('points').where({ id: here.id }).update({ apparatus_json: JSON.stringify(['fabric', 'hoop']) });
+    const fabricClass = await classType('Fabric', 'fabric');
+    const hoopClass = await classType('Hoop', 'hoop');
+    expect((await desk.post('/api/sessions').send({ classTypeId: fabricClass, instructorId: teacher.user.id, roomId: s.roomId, pointIds: [here.id], ...at(3, 18) })).status).toBe(201);
+    expect((await desk.post('/api/sessions').send({ classTypeId: hoopClass, instructorId: teacher.user.id, roomId: s.roomId, pointIds: [there.id], ...at(4, 18) })).status).toBe(201);
+    const hoop = await stock('hoop', 'HP-0701');
+    const pathBefore = await ctx.db('load_path_links').where({ point_id: here.id }).orderBy('position');
+
+    ctx.clock.set('2026-12-03T18:30:00Z'); // the fabric class on LS-12 is under way
+    const swapUnderClass = await teacher.post(`/api/points/${here.id}/apparatus`).send({ gearId: hoop });
+    expect(swapUnderClass.status).toBe(409);
+    expect(swapUnderClass.body.error.code).toBe('apparatus_in_use');
+    expect(swapUnderClass.body.error.message).toMatch(/LS-12/);
+    expect(await ctx.db('load_path_links').where({ point_id: here.id }).orderBy('position')).toEqual(pathBefore);
+
+    ctx.clock.set('2026-12-04T18:30:00Z'); // now the hoop class on LS-13 is under way: its hoop stays
+    const takeFromClass = await teacher.post(`/api/points/${here.id}/apparatus`).send({ gearId: there.apparatusId });
+    expect(takeFromClass.status).toBe(409);
+    expect(takeFromClass.body.error.code).toBe('apparatus_in_use');
+    // Once it is over, the changeover goes ahead.
+    ctx.clock.set('2026-12-04T19:30:00Z');
+    expect((await teacher.post(`/api/points/${here.id}/apparatus`).send({ gearId: hoop })).status).toBe(200);
+  });
+
   it('refuses anything but a fit apparatus of a kind the point allows, with a clear code, changing nothing', async () => {
     const s = await studio();
     const rigger = await as(ctx, 'rigger');

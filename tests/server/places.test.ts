@@ -1,5 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { as, createTestApp, type TestContext } from '../helpers/app';
+import { APP_URL, as, createTestApp, type TestContext } from '../helpers/app';
+import { runMailCycle } from '../../server/mail/worker';
 import { makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
 
 let ctx: TestContext;
@@ -183,6 +184,13 @@ describe('when the rig changes', () => {
     expect(session.body.capacity).toBe(2); // one usable point × 2
     const list = await desk.get(`/api/sessions/${sessionId}/bookings`);
     expect(list.body.filter((x: { withoutFitPlace: boolean }) => x.withoutFitPlace)).toHaveLength(2);
+    // The at-risk alert to the desk and riggers names them too.
+    await runMailCycle({ db: ctx.db, mailer: { send: async () => undefined, close: () => undefined }, clock: ctx.clock, appUrl: APP_URL, log: () => undefined });
+    const alert = (await ctx.db('outbox_messages').where({ kind: 'at_risk' }).first()) as { text_body: string; html_body: string };
+    expect(alert.text_body).toContain('Students without a fit place');
+    expect(alert.text_body).toMatch(/Ana Fault \(on .+\)/);
+    expect(alert.text_body).toContain('Bo Fault');
+    expect(alert.html_body).toContain('Bo Fault');
     // The Today board tells the same story on the class's day.
     ctx.clock.set('2026-12-03T09:00:00Z');
     const today = await desk.get('/api/today');
@@ -195,6 +203,19 @@ describe('when the rig changes', () => {
     const after = await desk.get(`/api/sessions/${sessionId}/bookings`);
     expect(after.body.filter((x: { status: string }) => x.status === 'booked').map((x: { pointId: number }) => x.pointId)).toEqual([spare, spare]);
     expect((await desk.get(`/api/sessions/${sessionId}`)).body.withoutFitPlace).toEqual([]);
+  });
+
+  it('a point added to a full class gives its place to the first waitlisted student', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(2);
+    const sessionId = await bookClass(desk, s, [s.points[0]]);
+    const [a, b] = [await student(desk), await student(desk)];
+    await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: a.id });
+    expect((await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: b.id })).body.status).toBe('waitlisted');
+    expect((await desk.put(`/api/sessions/${sessionId}/points`).send({ pointIds: s.points })).status).toBe(200);
+    const list = await desk.get(`/api/sessions/${sessionId}/bookings`);
+    expect(list.body.find((x: { studentId: number }) => x.studentId === b.id)).toMatchObject({ status: 'booked', pointId: s.points[1] });
+    expect(await mailsTo(b.email, 'waitlist_place_offered')).toHaveLength(1);
   });
 
   it('the desk moves one student to another free place in one action; a full or blocked point is refused', async () => {
@@ -211,6 +232,44 @@ describe('when the rig changes', () => {
     expect(moved.status).toBe(200);
     expect(moved.body).toMatchObject({ status: 'booked', pointId: s.points[1] });
     expect(await ctx.db('audit_entries').where({ action: 'place.moved' })).toHaveLength(1);
+  });
+});
+
+describe('the service the student portal calls', () => {
+  it('lets a student cancel only their own place, and only up to the policy cut-off (12 h)', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(1);
+    const sessionId = await bookClass(desk, s);
+    const [a, b] = [await student(desk), await student(desk)];
+    const booking = await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: a.id });
+    const places = ctx.app.locals.places as import('../../server/modules/places/places.service').PlacesService;
+    await expect(places.cancel(booking.body.id, { userId: null, asStudentId: b.id })).rejects.toMatchObject({ status: 404 });
+    ctx.clock.set('2026-12-03T06:30:00Z'); // 11.5 h before class
+    await expect(places.cancel(booking.body.id, { userId: null, asStudentId: a.id })).rejects.toMatchObject({ status: 409, code: 'cancel_cutoff_passed' });
+    ctx.clock.set('2026-12-03T05:30:00Z');
+    expect((await places.cancel(booking.body.id, { userId: null, asStudentId: a.id })).status).toBe('cancelled');
+  });
+});
+
+describe('students told of changes', () => {
+  it('e-mails each booked and waitlisted student once when the class moves; a move back within the undo window sends nothing', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(1);
+    const sessionId = await bookClass(desk, s);
+    const [a, b] = [await student(desk), await student(desk)];
+    await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: a.id });
+    await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: b.id }); // waitlisted
+    const moved = await desk.patch(`/api/sessions/${sessionId}`).send({ startsAt: '2026-12-03T19:00:00Z', endsAt: '2026-12-03T20:00:00Z' });
+    expect(moved.status).toBe(200);
+    const queued = async (email: string) => (await ctx.db('outbox_messages').where({ kind: 'class_moved_student' }).select('recipients_json', 'state')).filter((r: { recipients_json: string }) => JSON.parse(r.recipients_json).includes(email));
+    expect(await queued(a.email)).toEqual([expect.objectContaining({ state: 'queued' })]);
+    expect(await queued(b.email)).toHaveLength(1);
+
+    // Undone within the window: the waiting messages are skipped and nothing new is queued.
+    ctx.clock.advance(5_000);
+    expect((await desk.patch(`/api/sessions/${sessionId}`).send({ startsAt: '2026-12-03T18:00:00Z', endsAt: '2026-12-03T19:00:00Z' })).status).toBe(200);
+    const after = await queued(a.email);
+    expect(after.map((r: { state: string }) => r.state)).toEqual(['skipped']);
   });
 });
 

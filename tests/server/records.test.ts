@@ -1,4 +1,5 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import request from 'supertest';
 import { as, createTestApp, TEST_AUDIT_KEY, type TestContext } from '../helpers/app';
 import { makePoint, makeStandardPath, makeUser } from '../helpers/factories';
 import { csvRecords } from '../helpers/csv';
@@ -198,6 +199,19 @@ describe('formula-safe cells, end to end', () => {
 });
 
 describe('the printable log', () => {
+  it('sets itself in Lexend from the app’s own copy of the font, reachable without signing in', async () => {
+    const owner = await as(ctx, 'owner');
+    const page = (await owner.get('/api/inspections/export.html')).text;
+    const urls = [...page.matchAll(/url\('(\/fonts\/[^']+\.woff2)'\)/g)].map((m) => m[1]);
+    expect(urls.length).toBeGreaterThanOrEqual(2);
+    for (const url of urls) {
+      const font = await request(ctx.app).get(url);
+      expect(font.status).toBe(200);
+      expect(font.headers['content-type']).toMatch(/font\/woff2/);
+      expect(font.body.length).toBeGreaterThan(1000);
+    }
+  });
+
   it('holds every matching inspection, the chain head at its foot, and no on-screen paging lines', async () => {
     const owner = await as(ctx, 'owner');
     const p = await makePoint(ctx.db, { label: 'PR-1' });

@@ -75,6 +75,19 @@ describe('POST /api/points/:id/clearances', () => {
     expect(codes(status.body.reasons)).toContain('fault_open');
   });
 
+  it('never answers "cleared" while a rule still blocks the point: quarantined gear in the path', async () => {
+    const rigger = await as(ctx, 'rigger');
+    const p = await makePoint(ctx.db);
+    const ids = await makeStandardPath(ctx.db, p.id);
+    expect((await rigger.post(`/api/gear/${ids[1]}/quarantine`).send({ reason: 'Sent for checking' })).status).toBe(200);
+    const res = await passAll(rigger, p.id);
+    expect(res.status).toBe(201);
+    expect(res.body.status.status).toBe('blocked');
+    // The rigger's signature is on record, but the point is not cleared and has no "until".
+    expect(res.body).toMatchObject({ cleared: false, clearanceSigned: true, clearedUntil: null });
+    expect(codes(res.body.reasons)).toContain('gear_unfit');
+  });
+
   it('is rigger only: the owner may not clear a point', async () => {
     const owner = await as(ctx, 'owner');
     const p = await makePoint(ctx.db);

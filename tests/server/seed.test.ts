@@ -15,13 +15,14 @@ import { seedStudioAndStaff } from '../../seeds/01-studio-and-staff';
 import { seedRig } from '../../seeds/02-rig';
 import { seedSafety } from '../../seeds/03-safety';
 import { seedSchedule } from '../../seeds/04-schedule';
+import { seedStudents } from '../../seeds/06-students';
 import { pointStatusAt, studioDay } from '../../shared/clearance';
 import { expandSeries } from '../../shared/schedule/recurrence';
 import { checkLoadPath, parseBridle, type LoadProfile } from '../../shared/rigging';
 import { defaultPolicy as policy } from '../../shared/schemas/policy';
 import type { ApparatusKind } from '../../shared/schemas/vocabulary';
 
-const tables = ['users', 'studios', 'rooms', 'points', 'gear_items', 'gear_events', 'load_path_links', 'inspections', 'inspection_items', 'faults', 'audit_entries', 'class_types', 'series', 'sessions', 'session_points'];
+const tables = ['users', 'studios', 'rooms', 'points', 'gear_items', 'gear_events', 'load_path_links', 'inspections', 'inspection_items', 'faults', 'audit_entries', 'class_types', 'series', 'sessions', 'session_points', 'students', 'waiver_versions', 'waiver_acceptances', 'places'];
 
 let cleanup: Array<() => Promise<void>> = [];
 afterEach(async () => {
@@ -195,6 +196,7 @@ describe.each(['2026-12-01T09:00:00Z', '2027-03-28T09:00:00Z', '2027-10-31T00:30
       await seedRig(trx, now);
       await seedSafety(trx, now, TEST_AUDIT_KEY);
       await seedSchedule(trx, now);
+      await seedStudents(trx, now);
     });
     expect(await counts(db)).toEqual(before);
     expect(await auditRepository(db, TEST_AUDIT_KEY).verify()).toMatchObject({ ok: true });
@@ -202,6 +204,26 @@ describe.each(['2026-12-01T09:00:00Z', '2027-03-28T09:00:00Z', '2027-10-31T00:30
 });
 
 describe('the demo studio through the API', () => {
+  it('has students (.test addresses) booked into the week, some waitlisted, one without a waiver, and a current waiver', async () => {
+    const ctx = await createTestApp({ now: '2026-12-01T09:00:00Z' });
+    cleanup.push(() => ctx.close());
+    await seedDemoIfEmpty(ctx.db, ctx.clock.now(), TEST_AUDIT_KEY);
+    const { agent } = await signIn(ctx.app, 'reception@loftwise.test', DEMO_PASSWORD);
+    const desk = withOrigin(agent);
+    const students = (await desk.get('/api/students')).body.items as Array<{ email: string; waiver: { state: string } }>;
+    expect(students.length).toBeGreaterThanOrEqual(10);
+    expect(students.every((s) => s.email.endsWith('.test'))).toBe(true);
+    expect(students.filter((s) => s.waiver.state === 'missing')).toHaveLength(1);
+    expect((await desk.get('/api/waivers')).body.current).toMatchObject({ version: 1 });
+    const places = (await ctx.db('places').select('status', 'session_id')) as Array<{ status: string; session_id: number }>;
+    expect(places.filter((p) => p.status === 'waitlisted').length).toBeGreaterThanOrEqual(1);
+    expect(places.filter((p) => p.status === 'booked').length).toBeGreaterThan(5);
+    // A class with a waitlist is full.
+    const full = await desk.get(`/api/sessions/${places.find((p) => p.status === 'waitlisted')!.session_id}`);
+    expect(full.body.placesLeft).toBe(0);
+    expect(full.body.waitlisted).toBeGreaterThanOrEqual(1);
+  });
+
   it('gives instructor@loftwise.test today\'s classes and the rigger checklists the clearances used', async () => {
     const ctx = await createTestApp({ now: '2026-12-01T09:00:00Z' });
     cleanup.push(() => ctx.close());

@@ -16,7 +16,15 @@ export interface AtRiskInput {
   classes: AtRiskClass[];
   /** Each affected point with the reasons it puts the classes at risk. */
   points: Array<{ label: string; reasons: string[] }>;
+  /** Booked students whose point cannot take their class (PRODUCT.md §11), to be moved or told. */
+  students?: Array<{ name: string; pointLabel: string | null; when: string }>;
 }
+
+const studentLine = (st: { name: string; pointLabel: string | null; when: string }) => `${st.name} (${st.pointLabel ? `on ${st.pointLabel}` : 'no point'}), ${st.when}`;
+/** The students without a fit place, for the plain text: a heading and one line each; nothing when there are none. */
+const studentsText = (i: AtRiskInput) => (i.students?.length ? ['', 'Students without a fit place (move them to a free place or swap the point):', ...i.students.map(studentLine)] : []);
+const studentsHtml = (i: AtRiskInput) =>
+  i.students?.length ? [heading('Students without a fit place'), paragraph('Move each to a free place, or swap the point: students move with it.'), itemList(i.students.map((st) => ({ title: st.name, details: [`${st.pointLabel ? `On ${st.pointLabel}` : 'No point'}, ${st.when}`] })))].join('') : '';
 
 /** PRODUCT.md §5: reception and riggers are told when a booked session turns at risk; one message per cause. */
 export function atRiskMessage(input: AtRiskInput): RenderedMail {
@@ -43,6 +51,7 @@ export function atRiskMessage(input: AtRiskInput): RenderedMail {
     '',
     'What puts it at risk:',
     ...i.points.flatMap((p) => p.reasons.map((r) => `${p.label}  ${r}`)),
+    ...studentsText(i),
     '',
     advice,
     link,
@@ -58,6 +67,7 @@ export function atRiskMessage(input: AtRiskInput): RenderedMail {
       facts(rows),
       heading('What puts it at risk'),
       itemList(i.points.map((p) => ({ title: p.label, details: p.reasons }))),
+      studentsHtml(i),
       paragraph(advice),
       button(link, 'Open the schedule'),
       `<p style="margin:0;font-size:13px;color:#56666a;word-break:break-all;">${esc(link)}</p>`,
@@ -84,6 +94,7 @@ function manyAtRisk(i: AtRiskInput): RenderedMail {
     '',
     'What puts them at risk:',
     ...i.points.flatMap((p) => p.reasons.map((r) => `${p.label}  ${r}`)),
+    ...studentsText(i),
     '',
     advice,
     link,
@@ -99,6 +110,7 @@ function manyAtRisk(i: AtRiskInput): RenderedMail {
       itemList(i.classes.map((c) => ({ title: `${shortDay(c.startsAt, tz)} ${clockTime(c.startsAt, tz)}–${clockTime(c.endsAt, tz)}`, details: [`${c.className}, ${c.roomName}, ${c.instructorName}`] }))),
       heading('What puts them at risk'),
       itemList(i.points.map((p) => ({ title: p.label, details: p.reasons }))),
+      studentsHtml(i),
       paragraph(advice),
       button(link, 'Open the schedule'),
       `<p style="margin:0;font-size:13px;color:#56666a;word-break:break-all;">${esc(link)}</p>`,

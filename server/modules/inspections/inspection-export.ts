@@ -67,6 +67,8 @@ export function streamCsv(out: Writable, batches: AsyncIterable<Inspection[]>, m
 }
 
 const PRINT_CSS = `
+@font-face { font-family: Lexend; font-style: normal; font-weight: 400; font-display: swap; src: url('/fonts/lexend-latin-400-normal.woff2') format('woff2'); }
+@font-face { font-family: Lexend; font-style: normal; font-weight: 700; font-display: swap; src: url('/fonts/lexend-latin-700-normal.woff2') format('woff2'); }
 :root { color: #111; background: #fff; font-family: Lexend, "Segoe UI", system-ui, sans-serif; font-size: 10.5pt; line-height: 1.35; }
 body { margin: 0 auto; max-width: 52rem; padding: 1.5rem; }
 h1 { font-size: 16pt; margin: 0 0 .25rem; }

@@ -119,6 +119,9 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
         }
         await audit.record(trx, { actorId, action: cleared ? 'point.cleared' : 'point.inspected', entity: 'point', entityId: pointId, after: { inspectionId, cleared, clearedUntil: until?.toISOString() ?? null, keptUntil: signedEnd?.toISOString() ?? null, failed: failed.map((f) => f.key) } }, now);
         const status = pointStatusAt((await pointBundle(pointId, trx)).snapshot, policy, now);
+        // A signed clearance is not a cleared point: any rule still blocking it (quarantined or
+        // retired gear, a rule violation) wins, and the answer says so (PRODUCT.md §4.1, §8).
+        const clearedNow = cleared && status.status !== 'blocked';
         const reasons = cleared
           ? status.reasons
           : [
@@ -126,7 +129,7 @@ export function inspectionsService(deps: { db: Db; repo: InspectionsRepository; 
               ...b.snapshot.openFaults.map((f) => ({ code: 'fault_open', message: `Open fault: ${f.description}` })),
               ...(b.snapshot.links.length ? [] : [{ code: 'no_load_path', message: 'The point has no load path to clear.' }]),
             ];
-        return { inspectionId, cleared, clearedUntil: until?.toISOString() ?? null, reasons, faultIds, status: statusWire(status) };
+        return { inspectionId, cleared: clearedNow, clearanceSigned: cleared, clearedUntil: clearedNow ? (until?.toISOString() ?? null) : null, reasons, faultIds, status: statusWire(status) };
       });
       return result;
     },

@@ -306,6 +306,8 @@ export function placesService(deps: { db: Db; repo: PlacesRepository; students: 
         }
         await audit.record(trx, { actorId: null, action: 'places.followed_points', entity: 'session', entityId: after.id, before: { pointIds: before.pointIds }, after: { pointIds: after.pointIds } }, at);
       }
+      // More points can mean more places: they go to the waitlist in order, as a cancellation's do.
+      if (change.kind !== 'cancelled' && (added.length || removed.length)) await promote(after, (await studio.get(trx)).policy, at, null, trx);
       if (change.kind !== 'moved' && change.kind !== 'room_changed' && change.kind !== 'cancelled') return;
       const live = (await repo.forSession(after.id, trx)).filter((p) => p.status === 'booked' || p.status === 'waitlisted');
       if (change.kind === 'cancelled') {

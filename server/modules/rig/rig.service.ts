@@ -195,7 +195,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
      * PRODUCT.md §4.7: mounts a fit apparatus of a kind the point allows, swapping only the
      * apparatus link (the one there goes back to the gear room). Voids nothing (§4.1): the
      * apparatus carries its own inspection. An item hanging on another point moves from there,
-     * unless a class is under way on it.
+     * unless a class is under way on it; nor is the apparatus of a point with a class under way changed.
      */
     async mountApparatus(id: number, gearId: number, actorId: number) {
       const { policy } = await studio.get();
@@ -215,6 +215,10 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
         const item = (await loadApparatus(rig, { ids: [gearId] }, trx)).get(gearId)!;
         const unfit = apparatusUnfitReasons(item.gear, item.openFaults, policy, now, now);
         if (unfit.length) throw conflict('apparatus_unfit', `${name} cannot be mounted: ${unfit.map((r) => r.message.replace(/^The /, 'the ')).join('; ')}.`, { reasons: unfit, fields: { gearId: 'Not fit to hang' } });
+        // Someone may be hanging on the apparatus there now: no changeover under a class under way.
+        if (apparatus && (await rig.classUnderWayOn(id, now, trx))) {
+          throw conflict('apparatus_in_use', `A class is under way on ${b.point.label}: change ${describeGear(apparatus.gear)} for ${name} after that class.`);
+        }
         let movedFrom: string | null = null;
         if (g.pointId !== null && g.pointId !== id) {
           const other = await bundle(g.pointId, trx);

@@ -11,6 +11,10 @@ import { pointStatusAt, studioDay, type PointSnapshot } from '../../../shared/cl
 import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf, type BookedClass } from '../sessions/session-rig';
 import type { CurrentUser } from '../../http/auth';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
+import { placesRepository } from '../places/places.repository';
+import { studentsRepository } from '../students/students.repository';
+import { summarise, unfitReasons } from '../places/session-places';
+import { waiverStateAt } from '../../../shared/places';
 
 /** The studio day [start, end) that contains `now`, in the studio's zone. */
 export function studioDayRange(now: Date, timeZone: string) {
@@ -34,9 +38,9 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
       .where('sessions.starts_at', '<', end.toISOString())
       .where('sessions.ends_at', '>', start.toISOString())
       .orderBy('sessions.starts_at')
-      .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'class_types.performers_per_point', 'class_types.dynamic_factor', 'class_types.body_mass_kg', 'rooms.name as room_name', 'users.name as instructor_name');
+      .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'class_types.capacity', 'class_types.performers_per_point', 'class_types.dynamic_factor', 'class_types.body_mass_kg', 'rooms.name as room_name', 'users.name as instructor_name');
     if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
-    const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; performers_per_point: number; dynamic_factor: number | null; body_mass_kg: number | null; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
+    const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; capacity: number; performers_per_point: number; dynamic_factor: number | null; body_mass_kg: number | null; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
     const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
     const bookedBySession = new Map<number, number[]>();
     for (const b of booked) bookedBySession.set(b.session_id, [...(bookedBySession.get(b.session_id) ?? []), b.point_id]);
@@ -58,6 +62,9 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
     const byId = new Map(bundles.map((b) => [b.point.id, b]));
     const recorded = await loadRecorded(rig, [...classes.values()], db);
     const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
+    // Each class's students (PRODUCT.md §11): who is on which point, whose waiver does not hold, who is without a fit place.
+    const places = await placesRepository(db).liveForSessions(sessions.map((s) => s.id));
+    const waivers = await studentsRepository(db).latestAcceptances([...places.values()].flat().map((p) => p.studentId));
     const pointView = (id: number, at: Date, snapshot: PointSnapshot = byId.get(id)!.snapshot) => {
       const b = byId.get(id)!;
       const due = !preuse.has(id);
@@ -78,6 +85,14 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
           const hung = hangingOf(cls, byId, recorded);
           track.session({ startsAt, endsAt, points: hung.map((h) => h.hanging.snapshot) });
           const risk = riskOf(cls, hung, policy, now, { startsAt, endsAt, cancelled: Boolean(s.cancelled) });
+          const mine = places.get(s.id) ?? [];
+          const labels = new Map(hung.map((h) => [h.bundle.point.id, h.bundle.point.label]));
+          const seats = summarise({ cls, capacity: s.capacity, cancelled: Boolean(s.cancelled), labels, unfit: unfitReasons(cls, hung, policy, now, endsAt), places: mine });
+          const waiverOk = (studentId: number) => {
+            const w = waivers.get(studentId) ?? null;
+            if (w) track.instant(new Date(w.validUntil));
+            return waiverStateAt(w, startsAt > now ? startsAt : now) === 'valid';
+          };
           return {
             id: s.id,
             className: s.class_name,
@@ -96,6 +111,15 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
             points: hung.map((h) => pointView(h.bundle.point.id, startsAt > now ? startsAt : now, h.hanging.snapshot)),
             hanging: apparatusWire(hung),
             changeovers: !s.cancelled && startsAt > now ? changeoversOf(hung, startsAt, policy.timeZone, false) : [],
+            capacity: seats.capacity,
+            placesLeft: seats.placesLeft,
+            booked: seats.booked,
+            waitlisted: seats.waitlisted,
+            withoutFitPlace: seats.withoutFitPlace,
+            // The booked students (and those checked in), point by point; a student without a waiver is flagged before class.
+            students: mine
+              .filter((p) => p.status !== 'waitlisted')
+              .map((p) => ({ bookingId: p.id, studentId: p.studentId, name: p.studentName, pointId: p.pointId, pointLabel: p.pointLabel, status: p.status, waiverOk: waiverOk(p.studentId), withoutFitPlace: seats.withoutFitPlace.some((w) => w.bookingId === p.id) })),
           };
         }),
         points: bundles.map((b) => {

@@ -30,7 +30,7 @@ export function ClearanceOutcome({ point, result, timeZone, onAgain }: { point: 
       ) : (
         <div className="rounded-xl border-2 border-stop-700/40 bg-stop-50 p-4 text-stop-700">
           <p className="flex items-center gap-2 text-lg font-semibold"><OctagonX className="size-6" aria-hidden /> {point.label} is not cleared</p>
-          <p className="mt-1 text-ink">The inspection is recorded{result.cleared ? ', but the point is still blocked:' : '. Why it stays blocked:'}</p>
+          <p className="mt-1 text-ink">The inspection is recorded{result.clearanceSigned ? ', but the point is still blocked:' : '. Why it stays blocked:'}</p>
           <ul className="mt-1 list-disc space-y-0.5 pl-6">
             {(result.reasons.length ? result.reasons : result.status.reasons).map((r, i) => <li key={`${r.code}-${i}`}>{r.message}</li>)}
           </ul>
