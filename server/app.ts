@@ -55,6 +55,13 @@ import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
 import { DEFAULT_PERSON_LIMITS, personLimiters, type PersonLimits } from './http/person-limits';
+import { signInLinkGuard, studentAccounts, studentEmailProvider } from './modules/my/student-sign-in';
+import { feedsService } from './modules/feeds/feeds.service';
+import { feedRoute, feedsRoutes } from './modules/feeds/feeds.router';
+import { publicService } from './modules/public/public.service';
+import { publicRoutes } from './modules/public/public.router';
+import { myService } from './modules/my/my.service';
+import { myRoutes } from './modules/my/my.router';
 
 export interface AppDeps {
   db: Db;
@@ -122,28 +129,41 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const audit = auditRepository(db, deps.auditKey);
   const staffRepo = staffRepository(db);
   const staff = staffService(staffRepo, clock, { db, audit });
-  const auth = authConfig({ secret: deps.authSecret, appUrl: deps.appUrl, staff: staffRepo, signedOut: (id) => staff.signedOut(id) });
+  const studioRepo = studioRepository(db);
+  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
+  // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
+  // transaction; the worker sends. Students' sign-in links go the same way.
+  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, undoWindowMs: deps.moveNoticeDelayMs, audit });
+  const accounts = studentAccounts(db, clock);
+  const auth = authConfig({
+    secret: deps.authSecret,
+    appUrl: deps.appUrl,
+    staff: staffRepo,
+    signedOut: (id) => staff.signedOut(id),
+    students: {
+      provider: studentEmailProvider({ db, clock, appUrl: deps.appUrl, studio: studioRepo, outbox, accounts }),
+      adapter: accounts.adapter(),
+      mayReceiveLink: (email) => accounts.mayReceiveLink(email),
+    },
+  });
 
   // Sign-in passes the guard (one value per field, limits counted in the database) before Auth.js.
   app.post(
     '/auth/callback/credentials',
     ...signInGuard({ counters: signInCountersRepository(db), clock, secret: deps.authSecret, trustProxyHops: deps.trustProxyHops ?? 0, log: (m) => log(new Error(m)) }),
   );
+  // A student's "e-mail me a link": one value per field, links per address and e-mail limited.
+  app.post('/auth/signin/nodemailer', ...signInLinkGuard({ counters: signInCountersRepository(db), clock, secret: deps.authSecret }));
   app.use('/auth', authRoutes(auth));
 
   // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
   const version = dataVersion(db);
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
-  const studioRepo = studioRepository(db);
   const rigRepo = rigRepository(db);
   const docs = documentsService({ db, clock, uploadDir: deps.uploadDir, audit });
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
-  // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
-  // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
-  // transaction; the worker sends.
-  const outbox = outboxService({ db, clock, studio: studioRepo, appUrl: deps.appUrl, undoWindowMs: deps.moveNoticeDelayMs, audit });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   // What each class kept of its points as it started (PRODUCT.md §10); the exports read them too.
@@ -176,15 +196,23 @@ export function createApp(deps: AppDeps): LoftwiseApp {
       await places.sessionChanged(trx, change);
     },
   };
-  sessionsRoutes(api, sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records }), places);
+  const sessions = sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records });
+  sessionsRoutes(api, sessions, places);
   studentsRoutes(api, students);
   placesRoutes(api, places);
   app.locals.students = students;
   app.locals.places = places;
+  // The student's side (PRODUCT.md §11): their own data through the places and students services,
+  // their calendar feeds, the public timetable.
+  myRoutes(api, myService({ db, clock, studio: studioRepo, places, students }));
+  const feeds = feedsService({ db, clock, appUrl: deps.appUrl, studio: studioRepo, sessions });
+  feedsRoutes(api, feeds);
 
   if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
+  publicRoutes(app, publicService({ db, clock, studio: studioRepo, sessions, places }));
+  feedRoute(app, feeds);
   app.use(
     '/api',
     express.json({ limit: '200kb' }),

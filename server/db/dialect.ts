@@ -94,7 +94,7 @@ export async function dropTrigger(knex: Knex, table: string, name: string): Prom
  * (written every worker cycle), the sign-in counters (every sign-in), the lease of the mail
  * worker, the counter itself and knex's own.
  */
-export const UNVERSIONED_TABLES = new Set(['outbox_messages', 'sign_in_counters', 'worker_leases', 'data_versions', 'knex_migrations', 'knex_migrations_lock']);
+export const UNVERSIONED_TABLES = new Set(['outbox_messages', 'sign_in_counters', 'verification_tokens', 'worker_leases', 'data_versions', 'knex_migrations', 'knex_migrations_lock']);
 
 /** The tables of the schema (knex's and SQLite's own included where present). */
 export async function tableNames(db: Knex): Promise<string[]> {

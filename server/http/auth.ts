@@ -1,5 +1,7 @@
 import type { RequestHandler } from 'express';
 import { ExpressAuth, type ExpressAuthConfig } from '@auth/express';
+import type { Adapter } from '@auth/core/adapters';
+import type { Provider } from '@auth/core/providers';
 import Credentials from '@auth/express/providers/credentials';
 import { getToken } from '@auth/core/jwt';
 import type { Role } from '../../shared/schemas/vocabulary';
@@ -27,6 +29,12 @@ export interface AuthOptions {
   staff: Pick<StaffRepository, 'credentialsByEmail' | 'withSessionVersion'>;
   /** A current session was signed out: every session of the person ends (server/modules/staff). */
   signedOut: (userId: number) => Promise<void>;
+  /**
+   * Students' e-mail-link sign-in (server/modules/my/student-sign-in.ts): the provider, the adapter
+   * it needs, and whether an address may end up signed in (an active student account, or a student
+   * without an account yet).
+   */
+  students?: { provider: Provider; adapter: Adapter; mayReceiveLink: (email: string) => Promise<boolean> };
 }
 
 /** What our session cookie carries besides Auth.js's own claims. */
@@ -43,7 +51,7 @@ const versionOf = (token: unknown): number | undefined => {
 
 const SESSION_HOURS = 12;
 
-export function authConfig({ secret, appUrl, staff, signedOut }: AuthOptions): ExpressAuthConfig {
+export function authConfig({ secret, appUrl, staff, signedOut, students }: AuthOptions): ExpressAuthConfig {
   /** The person a token names, if the token is still theirs to use. */
   const currentHolder = async (token: LoftwiseToken | null) => {
     const id = token?.sub ? Number(token.sub) : NaN;
@@ -57,7 +65,8 @@ export function authConfig({ secret, appUrl, staff, signedOut }: AuthOptions): E
     basePath: '/auth',
     useSecureCookies: appUrl.startsWith('https:'),
     session: { strategy: 'jwt', maxAge: SESSION_HOURS * 3600 },
-    pages: { signIn: '/sign-in', error: '/sign-in' },
+    pages: { signIn: '/sign-in', error: '/sign-in', verifyRequest: '/sign-in/check-email' },
+    ...(students ? { adapter: students.adapter } : {}),
     providers: [
       Credentials({
         credentials: { email: { label: 'E-mail' }, password: { label: 'Password', type: 'password' } },
@@ -69,13 +78,22 @@ export function authConfig({ secret, appUrl, staff, signedOut }: AuthOptions): E
           if (!parsed.success || parsed.data.email !== attempt.email) return null;
           const account = await staff.credentialsByEmail(parsed.data.email);
           const ok = await verifyPassword(account?.passwordHash ?? null, parsed.data.password);
-          if (!account || !ok || !account.active) return null;
+          // Students sign in by e-mail link only; their accounts hold no password.
+          if (!account || !ok || !account.active || account.role === 'student') return null;
           await attempt.succeeded();
           return { id: String(account.id), email: account.email, name: account.name, sessionVersion: account.sessionVersion };
         },
       }),
+      ...(students ? [students.provider] : []),
     ],
     callbacks: {
+      async signIn({ user, account, email }) {
+        if (account?.type !== 'email') return true;
+        // Asking for a link always "succeeds": whether the address is a student's is never shown
+        // (no e-mail goes to an address that is not). Following a link signs in only a student.
+        if (email?.verificationRequest) return true;
+        return Boolean(students && user.email && (await students.mayReceiveLink(user.email)));
+      },
       async jwt({ token, user }) {
         if (user?.id) {
           token.sub = user.id;

@@ -6,8 +6,12 @@ import { forbidden } from './errors';
 import { parseOrThrow } from './validate';
 import type { CurrentUser } from './auth';
 
-/** Who may call a route: a list of roles, or everyone signed in. Declared beside every route. */
-export type Access = readonly Role[] | 'signed_in';
+/**
+ * Who may call a route, declared beside every route: a list of roles; `signed_in`, every member of
+ * staff (students never reach a staff route: PRODUCT.md §2, §11); or `everyone`, anyone signed in,
+ * students included (only routes about the caller themself, such as /api/me).
+ */
+export type Access = readonly Role[] | 'signed_in' | 'everyone';
 
 export interface RouteDeclaration {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
@@ -41,7 +45,9 @@ export interface RouteDefinition<B extends ZodType | undefined, Q extends ZodTyp
 }
 
 export function allows(access: Access, role: Role): boolean {
-  return access === 'signed_in' || access.includes(role);
+  if (access === 'everyone') return true;
+  if (access === 'signed_in') return role !== 'student';
+  return access.includes(role);
 }
 
 /**

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { labelText } from './common';
-import { roleSchema } from './vocabulary';
+import { roleSchema, staffRoleSchema } from './vocabulary';
 
 /**
  * The one form of an e-mail address for lookups: what sign-in looks the account up by is exactly
@@ -30,11 +30,11 @@ export const instructorSchema = userSchema.pick({ id: true, name: true });
 export type Instructor = z.infer<typeof instructorSchema>;
 export const instructorListSchema = z.array(instructorSchema);
 
-export const createUserSchema = z.object({ email, name, role: roleSchema, password: passwordSchema });
+export const createUserSchema = z.object({ email, name, role: staffRoleSchema, password: passwordSchema });
 export type CreateUser = z.infer<typeof createUserSchema>;
 
 export const updateUserSchema = z
-  .object({ name: name.optional(), role: roleSchema.optional(), active: z.boolean().optional(), digestOptOut: z.boolean().optional() })
+  .object({ name: name.optional(), role: staffRoleSchema.optional(), active: z.boolean().optional(), digestOptOut: z.boolean().optional() })
   .strict();
 export type UpdateUser = z.infer<typeof updateUserSchema>;
 

@@ -1,9 +1,13 @@
 import { z } from 'zod';
 
 /** Wire words of PRODUCT.md §3 and §6.1. One list each; every other module imports these. */
-export const roles = ['owner', 'reception', 'instructor', 'rigger'] as const;
+export const roles = ['owner', 'reception', 'instructor', 'rigger', 'student'] as const;
 export const roleSchema = z.enum(roles);
 export type Role = z.infer<typeof roleSchema>;
+/** The roles of the studio's staff: every role but `student` (PRODUCT.md §2, §11). Staff accounts take only these. */
+export const staffRoles = ['owner', 'reception', 'instructor', 'rigger'] as const;
+export const staffRoleSchema = z.enum(staffRoles);
+export type StaffRole = z.infer<typeof staffRoleSchema>;
 
 export const apparatusKinds = ['fabric', 'hoop', 'trapeze', 'hammock', 'straps', 'rope'] as const;
 export const apparatusKindSchema = z.enum(apparatusKinds);

@@ -25,4 +25,4 @@ export const navItems: NavItem[] = [
 
 export const navFor = (role: Role) => navItems.filter((i) => i.roles.includes(role));
 
-export const roleLabel: Record<Role, string> = { owner: 'Owner', reception: 'Reception', instructor: 'Instructor', rigger: 'Rigger' };
+export const roleLabel: Record<Role, string> = { owner: 'Owner', reception: 'Reception', instructor: 'Instructor', rigger: 'Rigger', student: 'Student' };

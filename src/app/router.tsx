@@ -1,6 +1,7 @@
 import { lazy, Suspense, type ComponentType } from 'react';
 import { Navigate, useRoutes, type RouteObject } from 'react-router-dom';
 import { SignedInLayout } from './signed-in-layout';
+import { StudentLayout } from '../features/student-portal/student-pages';
 import { Loading } from '../components/ui/states';
 import { paths } from '../lib/paths';
 
@@ -18,6 +19,18 @@ const page = (load: () => Promise<{ default: ComponentType }>) => {
 // the data-router machinery would add to the JavaScript every page loads first.
 export const routes: RouteObject[] = [
   { path: paths.signIn, element: page(() => import('../features/auth/sign-in-page').then((m) => ({ default: m.SignInPage }))) },
+  { path: paths.checkEmail, element: page(() => import('../features/auth/check-email-page').then((m) => ({ default: m.CheckEmailPage }))) },
+  // Students (PRODUCT.md §11): the public timetable for anyone; their own pages in their own frame.
+  { path: paths.timetable, element: page(() => import('./routes/student/timetable-route')) },
+  {
+    element: <StudentLayout />,
+    children: [
+      { path: paths.myBookings, element: page(() => import('./routes/student/my-bookings-route')) },
+      { path: paths.myWaiver, element: page(() => import('./routes/student/my-waiver-route')) },
+      { path: paths.myAccount, element: page(() => import('./routes/student/my-account-route')) },
+      { path: '/my/*', element: <Navigate to={paths.myBookings} replace /> },
+    ],
+  },
   {
     element: <SignedInLayout />,
     children: [

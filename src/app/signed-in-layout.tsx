@@ -15,6 +15,8 @@ export function SignedInLayout() {
   if (me.isError) return <div className="p-6"><ErrorState error={me.error} retry={() => me.refetch()} /></div>;
   if (!me.data) return <Navigate to={paths.signIn} replace state={{ from: location.pathname + location.search }} />;
   const user = me.data;
+  // Students never reach a staff page: their own pages live under /my (PRODUCT.md §11).
+  if (user.role === 'student') return <Navigate to={paths.myBookings} replace />;
   const onSignOut = async () => {
     await signOut();
     qc.clear();

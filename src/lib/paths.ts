@@ -24,4 +24,11 @@ export const paths = {
   mailbox: '/mailbox',
   audit: '/audit',
   account: '/account',
+  /** The e-mail-link sign-in's "check your inbox" page (Auth.js's verify-request page). */
+  checkEmail: '/sign-in/check-email',
+  /** The public timetable (no sign-in) and the student's own pages (PRODUCT.md §11). */
+  timetable: '/timetable',
+  myBookings: '/my/bookings',
+  myWaiver: '/my/waiver',
+  myAccount: '/my/account',
 } as const;

@@ -24,7 +24,7 @@ export async function openBrowser(viewport = DESKTOP): Promise<BrowserContext> {
 
 export async function signInAs(page: Page, baseUrl: string, email: string, password = DEMO_PASSWORD) {
   await page.goto(`${baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('E-mail', { exact: true }).fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.getByTestId('signed-in-as').first().waitFor({ state: 'attached' });

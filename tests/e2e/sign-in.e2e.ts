@@ -45,11 +45,11 @@ describe('signing in as each demo role', () => {
   it('says so plainly when the password is wrong, and keeps what was typed', async () => {
     const page = await browser.newPage();
     await page.goto(`${baseUrl}/sign-in`);
-    await page.getByLabel('E-mail').fill('rigger@loftwise.test');
+    await page.getByLabel('E-mail', { exact: true }).fill('rigger@loftwise.test');
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await expect(page.getByRole('alert').innerText()).resolves.toContain('do not match');
-    expect(await page.getByLabel('E-mail').inputValue()).toBe('rigger@loftwise.test');
+    expect(await page.getByLabel('E-mail', { exact: true }).inputValue()).toBe('rigger@loftwise.test');
     await page.close();
   });
 });

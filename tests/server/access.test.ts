@@ -4,9 +4,10 @@ import { APP_URL, createTestApp, signIn, type TestContext } from '../helpers/app
 import { makeUser } from '../helpers/factories';
 import { roles, type Role } from '../../shared/schemas/vocabulary';
 import { allows } from '../../server/http/route';
+import { asStudent } from '../helpers/students';
 
 // Routes outside the access declarations, on purpose.
-const PUBLIC_API = ['get /api/health'];
+const PUBLIC_API = ['get /api/health', 'get /api/public/timetable', 'get /api/public/studio'];
 
 let ctx: TestContext;
 const agents = {} as Record<Role, ReturnType<typeof request.agent>>;
@@ -14,6 +15,11 @@ const agents = {} as Record<Role, ReturnType<typeof request.agent>>;
 beforeAll(async () => {
   ctx = await createTestApp();
   for (const role of roles) {
+    if (role === 'student') {
+      // Students sign in by e-mail link only (PRODUCT.md §11).
+      agents.student = (await asStudent(ctx)).agent;
+      continue;
+    }
     const u = await makeUser(ctx.db, { role });
     const { agent, ok } = await signIn(ctx.app, u.email);
     if (!ok) throw new Error('sign-in failed');
@@ -51,6 +57,13 @@ describe('access declarations', () => {
     const access = (key: string) => ctx.app.locals.routes.find((r) => `${r.method} ${r.path}` === key)?.access;
     expect(access('get /api/instructors')).toBe('signed_in');
     expect(access('get /api/users')).toEqual(['owner', 'reception']);
+  });
+
+  it('keeps students to their own routes: every staff route is closed to them', () => {
+    const open = ctx.app.locals.routes.filter((r) => allows(r.access, 'student')).map((r) => `${r.method} ${r.path}`);
+    expect(open.length).toBeGreaterThan(0);
+    for (const key of open) expect(key, key).toMatch(/^(get|post|put|patch|delete) \/api\/(me|my\/.*)$/);
+    expect(ctx.app.locals.routes.filter((r) => r.access === 'signed_in').every((r) => !allows(r.access, 'student'))).toBe(true);
   });
 
   it('lets riggers and instructors mount an apparatus (a changeover), and no one else', () => {

@@ -2,7 +2,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { as, createTestApp, type TestContext } from '../helpers/app';
 import { makeUser } from '../helpers/factories';
-import { roles } from '../../shared/schemas/vocabulary';
+import { staffRoles as roles } from '../../shared/schemas/vocabulary';
 import { instructorListSchema } from '../../shared/schemas/staff';
 
 let ctx: TestContext;

@@ -24,8 +24,9 @@ const toUser = (r: UserRow): User => ({
 
 export function staffRepository(db: Db) {
   return {
+    /** Staff accounts only: students' accounts (role `student`, PRODUCT.md §11) are not staff. */
     async list(): Promise<User[]> {
-      return (await db<UserRow>('users').orderBy('name')).map(toUser);
+      return (await db<UserRow>('users').whereNot({ role: 'student' }).orderBy('name')).map(toUser);
     },
     /** Only the two columns anyone may see: the query itself cannot leak an e-mail. */
     async activeInstructors(): Promise<Instructor[]> {

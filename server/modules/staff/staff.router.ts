@@ -4,7 +4,7 @@ import { createUserSchema, myPreferencesSchema, resetPasswordSchema, updateUserS
 import type { StaffService } from './staff.service';
 
 export function staffRoutes(api: ApiRouter, staff: StaffService) {
-  api.get('/me', { access: 'signed_in', handler: ({ user }) => user });
+  api.get('/me', { access: 'everyone', handler: ({ user }) => user });
   api.get('/me/preferences', { access: 'signed_in', handler: async ({ user }) => ({ digestOptOut: (await staff.get(user.id)).digestOptOut }) });
   api.patch('/me/preferences', { access: 'signed_in', body: myPreferencesSchema, handler: ({ body, user }) => staff.setPreferences(user.id, body) });
   api.get('/users', { access: ['owner', 'reception'], handler: () => staff.list() });

@@ -5,7 +5,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { toast } from 'sonner';
 import { UserPlus } from 'lucide-react';
 import { createUserSchema, type CreateUser, type Me, type User } from '../../../shared/schemas/staff';
-import { roles } from '../../../shared/schemas/vocabulary';
+import { staffRoles, type StaffRole } from '../../../shared/schemas/vocabulary';
 import { Button } from '../../components/ui/button';
 import { SelectField, TextField } from '../../components/ui/field';
 import { Card, EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
@@ -55,7 +55,7 @@ function StaffRow({ user, canEdit, isMe }: { user: User; canEdit: boolean; isMe:
   const { update, resetPassword } = useStaffMutations();
   const [confirmOff, setConfirmOff] = useState(false);
   const [pw, setPw] = useState<string | null>(null);
-  const setRole = (role: User['role']) =>
+  const setRole = (role: StaffRole) =>
     update.mutate({ id: user.id, role }, { onSuccess: () => toast.success(`${user.name} is now ${roleLabel[role].toLowerCase()}. They are signed out everywhere and sign in again to continue.`), onError: (e) => toast.error(errorMessage(e)) });
   return (
     <tr className="border-b border-line last:border-0">
@@ -66,8 +66,8 @@ function StaffRow({ user, canEdit, isMe }: { user: User; canEdit: boolean; isMe:
           <label className="sr-only" htmlFor={`role-${user.id}`}>Role of {user.name}</label>
         ) : null}
         {canEdit ? (
-          <select id={`role-${user.id}`} value={user.role} onChange={(e) => setRole(e.target.value as User['role'])} className="min-h-11 rounded-lg border border-line bg-white px-2">
-            {roles.map((r) => <option key={r} value={r}>{roleLabel[r]}</option>)}
+          <select id={`role-${user.id}`} value={user.role} onChange={(e) => setRole(e.target.value as StaffRole)} className="min-h-11 rounded-lg border border-line bg-white px-2">
+            {staffRoles.map((r) => <option key={r} value={r}>{roleLabel[r]}</option>)}
           </select>
         ) : roleLabel[user.role]}
       </td>
@@ -136,7 +136,7 @@ function AddPerson({ onDone }: { onDone: () => void }) {
         <TextField label="Name" autoComplete="off" error={e.name?.message} {...form.register('name')} />
         <TextField label="E-mail" type="email" autoComplete="off" error={e.email?.message} {...form.register('email')} />
         <SelectField label="Role" error={e.role?.message} {...form.register('role')}>
-          {roles.map((r) => <option key={r} value={r}>{roleLabel[r]}</option>)}
+          {staffRoles.map((r) => <option key={r} value={r}>{roleLabel[r]}</option>)}
         </SelectField>
         <TextField label="First password" type="password" autoComplete="new-password" hint="At least 10 characters. Tell them to keep it private." error={e.password?.message} {...form.register('password')} />
         <div className="flex gap-2 sm:col-span-2">

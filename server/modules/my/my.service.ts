@@ -1,0 +1,119 @@
+import type { Db } from '../../db/knex';
+import type { Clock } from '../../clock';
+import type { CurrentUser } from '../../http/auth';
+import { HttpError } from '../../http/errors';
+import type { StudioRepository } from '../studio/studio.repository';
+import type { BookingResult } from '../../../shared/schemas/places';
+import type { OnlineWaiver, Student, StudentDetail, WaiverAcceptance, WaiverVersion } from '../../../shared/schemas/students';
+import type { MyBooking, MyProfile, MyWaiver } from '../../../shared/schemas/my';
+import { studentMayCancel } from '../../../shared/places';
+
+/** Who acts on a place (i17a's places service): a student acting on their own place. */
+interface StudentActor {
+  userId: number | null;
+  asStudentId?: number;
+}
+
+/** What the student's side asks of the places and students services (server/modules/places, students). */
+export interface MyDeps {
+  db: Db;
+  clock: Clock;
+  studio: StudioRepository;
+  places: {
+    book(sessionId: number, body: { studentId: number }, actor: StudentActor): Promise<BookingResult>;
+    cancel(placeId: number, actor: StudentActor): Promise<unknown>;
+  };
+  students: {
+    get(id: number): Promise<Student>;
+    detail(id: number): Promise<StudentDetail>;
+    currentWaiver(): Promise<WaiverVersion | null>;
+    acceptOnline(studentId: number, body: OnlineWaiver, userId: number | null): Promise<WaiverAcceptance>;
+  };
+}
+
+/**
+ * The signed-in student's own data (PRODUCT.md §11): every call starts from the student linked to
+ * the caller's account, so no id the caller sends can reach another student. The rules (capacity,
+ * waitlist, cut-off, waiver validity) are the places and students services' own.
+ */
+export function myService(deps: MyDeps) {
+  const { db, clock } = deps;
+
+  /** The caller's student (following a merge to the student kept). */
+  async function studentIdOf(user: CurrentUser): Promise<number> {
+    const row = (await db('users').where({ id: user.id }).first('student_id')) as { student_id: number | null } | undefined;
+    let id = row?.student_id ?? null;
+    for (let hops = 0; id !== null && hops < 10; hops++) {
+      const s = (await db('students').where({ id }).first('id', 'merged_into_id')) as { id: number; merged_into_id: number | null } | undefined;
+      if (!s) break;
+      if (s.merged_into_id === null) return s.id;
+      id = s.merged_into_id;
+    }
+    throw new HttpError(404, 'not_found', 'Your account is not linked to a student record. Please contact the studio.');
+  }
+
+  return {
+    async profile(user: CurrentUser): Promise<MyProfile> {
+      const s = await deps.students.get(await studentIdOf(user));
+      const { policy } = await deps.studio.get();
+      return { studentId: s.id, name: s.name, email: s.email, phone: s.phone, emergencyName: s.emergencyName, emergencyPhone: s.emergencyPhone, waiverValid: s.waiver.ok, cancelCutoffHours: policy.studentCancelCutoffHours };
+    },
+
+    async bookings(user: CurrentUser): Promise<MyBooking[]> {
+      const detail = await deps.students.detail(await studentIdOf(user));
+      const { policy } = await deps.studio.get();
+      const now = clock.now();
+      const all = [...detail.upcoming, ...detail.past];
+      const rooms = new Map<number, string>(
+        ((await db('sessions').join('rooms', 'rooms.id', 'sessions.room_id').whereIn('sessions.id', [...new Set(all.map((b) => b.sessionId))]).select('sessions.id as id', 'rooms.name as name')) as Array<{ id: number; name: string }>).map((r) => [r.id, r.name]),
+      );
+      const cutoffMs = policy.studentCancelCutoffHours * 3_600_000;
+      return all.map((b) => {
+        const startsAt = new Date(b.startsAt);
+        return {
+          id: b.id,
+          sessionId: b.sessionId,
+          className: b.className,
+          apparatus: b.apparatus as MyBooking['apparatus'],
+          roomName: rooms.get(b.sessionId) ?? '',
+          startsAt: b.startsAt,
+          endsAt: b.endsAt,
+          status: b.status,
+          pointLabel: b.pointLabel,
+          position: b.position,
+          sessionCancelled: b.sessionCancelled,
+          cancelBefore: new Date(startsAt.getTime() - cutoffMs).toISOString(),
+          canCancel: !b.sessionCancelled && (b.status === 'booked' || b.status === 'waitlisted') && studentMayCancel(startsAt, now, policy.studentCancelCutoffHours),
+        };
+      });
+    },
+
+    async book(user: CurrentUser, sessionId: number): Promise<BookingResult> {
+      const studentId = await studentIdOf(user);
+      return deps.places.book(sessionId, { studentId }, { userId: user.id, asStudentId: studentId });
+    },
+
+    /** Only the caller's own place: another student's answers 404, as one that does not exist. */
+    async cancel(user: CurrentUser, placeId: number) {
+      const studentId = await studentIdOf(user);
+      const owner = (await db('places').where({ id: placeId }).first('student_id')) as { student_id: number } | undefined;
+      if (!owner || owner.student_id !== studentId) throw new HttpError(404, 'not_found', 'There is no such booking of yours.');
+      await deps.places.cancel(placeId, { userId: user.id, asStudentId: studentId });
+      return (await this.bookings(user)).find((b) => b.id === placeId)!;
+    },
+
+    async waiver(user: CurrentUser): Promise<MyWaiver> {
+      const s = await deps.students.get(await studentIdOf(user));
+      const current = await deps.students.currentWaiver();
+      const accepted = s.waiver.version !== null && s.waiver.acceptedAt && s.waiver.validUntil
+        ? { version: s.waiver.version, fullName: '', acceptedAt: s.waiver.acceptedAt, validUntil: s.waiver.validUntil, method: s.waiver.method ?? 'online' }
+        : null;
+      return { current: current ? { version: current.version, text: current.text } : null, accepted, valid: s.waiver.ok };
+    },
+
+    async signWaiver(user: CurrentUser, body: OnlineWaiver): Promise<WaiverAcceptance> {
+      return deps.students.acceptOnline(await studentIdOf(user), body, user.id);
+    },
+  };
+}
+export type MyService = ReturnType<typeof myService>;

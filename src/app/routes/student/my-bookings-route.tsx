@@ -1,0 +1,4 @@
+import { MyBookingsPage } from '../../../features/student-portal/my-bookings-page';
+export default function MyBookingsRoute() {
+  return <MyBookingsPage />;
+}

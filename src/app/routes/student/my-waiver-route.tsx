@@ -1,0 +1,4 @@
+import { WaiverPage } from '../../../features/student-portal/waiver-page';
+export default function MyWaiverRoute() {
+  return <WaiverPage />;
+}
