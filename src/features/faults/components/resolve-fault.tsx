@@ -1,5 +1,7 @@
 import { useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
+import { paths } from '../../../lib/paths';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
@@ -89,7 +91,9 @@ export function ResolveFault({ fault, onCancel, onResolved }: { fault: Fault; on
             <SelectField
               label={`Replacement ${gearKindWord(gear.data?.kind).toLowerCase()} from stock`}
               error={e.replacementGearId?.message ?? (stock.isError ? errorMessage(stock.error) : undefined)}
-              hint={stock.data && stock.data.length === 0 ? 'No item of this kind is in stock and in service. Add one on the gear page first.' : 'Only items in service and not hung on any point are listed.'}
+              hint={stock.data && stock.data.length === 0 ? (
+                <>No {gearKindWord(gear.data?.kind).toLowerCase()} is in stock and in service. <Link to={`${paths.gear}?add=${gear.data?.kind ?? ''}`} className="font-medium text-pine-700 underline underline-offset-2">Add one on the gear page</Link>, then come back to resolve this fault.</>
+              ) : 'Only items in service and not hung on any point are listed.'}
               {...form.register('replacementGearId')}
             >
               <option value="">{stock.isPending ? 'Loading stock…' : 'Pick the replacement'}</option>
