@@ -65,20 +65,20 @@ export function GearListPage() {
                         <span className="-mt-2 block pb-1 text-xs text-muted xl:hidden">{gearKindLabels[g.kind]}</span>
                       </td>
                       <td className="hidden px-3 py-2 xl:table-cell">{gearKindLabels[g.kind]}</td>
-                      {/* Takes the room left over and never pushes the table wider: a long name wraps to two lines, then ends in an ellipsis with the whole name in its title. */}
+                      {/* Takes the room left over and never pushes the table wider: a long name wraps to three lines, then ends in an ellipsis with the whole name in its title. */}
                       <td className="w-full max-w-0 px-3 py-2">
-                        {makerModel ? <span className="line-clamp-2 break-words" title={makerModel}>{makerModel}</span> : <span className="text-muted">—</span>}
+                        {makerModel ? <span className="line-clamp-3 break-words" title={makerModel}>{makerModel}</span> : <span className="text-muted">—</span>}
                       </td>
                       <td className="whitespace-nowrap px-3 py-2">{fmt.force(g.majorKn)}</td>
                       <td className="px-3 py-2">
-                        <GearStatusBadge gear={g} />
+                        <GearStatusBadge gear={g} wrap />
                         {isRigger && gearNeedsInspection(g) ? (
                           <Link to={paths.inspectGear(g.id)} className="mt-1 flex min-h-11 items-center gap-1 text-sm font-medium text-pine-700 underline underline-offset-2">
                             <ClipboardCheck className="size-4" aria-hidden /> Inspect<span className="sr-only"> {g.serial}</span>
                           </Link>
                         ) : null}
                       </td>
-                      <td className="whitespace-nowrap px-3 py-2">{fmt.day(g.inspectedUntil, 'Not yet inspected')}</td>
+                      <td className="px-3 py-2">{g.inspectedUntil ? <span className="whitespace-nowrap">{fmt.day(g.inspectedUntil)}</span> : <span className="text-muted">Not yet inspected</span>}</td>
                       <td className="whitespace-nowrap px-3 py-1">
                         {g.pointId ? <Link to={paths.point(g.pointId)} className="inline-flex min-h-11 items-center text-pine-700 underline underline-offset-2">{g.pointLabel ?? `Point ${g.pointId}`}</Link> : <span className="text-muted">Spare</span>}
                       </td>

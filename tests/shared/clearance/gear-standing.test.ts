@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { gearInspectionsNeeded, gearStandingAt, pointInspectionHelps } from '../../../shared/clearance/gear-standing';
+import { gearInspectionsNeeded, gearStandingAt, pointInspectionHelps, type GearStandingInput } from '../../../shared/clearance/gear-standing';
 
 const at = new Date('2026-12-02T10:00:00Z');
-const inService = { status: 'in_service' as const, inspectedUntil: '2027-01-01T00:00:00Z', serviceLifeEndsOn: '2030-01-01T00:00:00Z' };
+const inService: GearStandingInput = { status: 'in_service', inspectedUntil: '2027-01-01T00:00:00Z', serviceLifeEndsOn: '2030-01-01T00:00:00Z' };
 
 describe('gearStandingAt: an item recorded as in service is only "in service" when nothing else stands in its way', () => {
   it('reads the recorded status first', () => {
@@ -20,7 +20,7 @@ describe('gearStandingAt: an item recorded as in service is only "in service" wh
 });
 
 describe('gearInspectionsNeeded and pointInspectionHelps: what releases a blocked point', () => {
-  const gear = (id: number, kind: 'carabiner' | 'hoop', o: Partial<typeof inService> = {}) => ({ gear: { id, kind, serial: `S-${id}`, ...inService, ...o } });
+  const gear = (id: number, kind: 'carabiner' | 'hoop', o: Partial<GearStandingInput> = {}) => ({ gear: { id, kind, serial: `S-${id}`, ...inService, ...o } });
 
   it('sends a quarantined item anywhere in the path to its after-incident inspection, and a never-inspected apparatus to its own', () => {
     expect(gearInspectionsNeeded([gear(1, 'carabiner', { status: 'quarantined' }), gear(2, 'hoop', { inspectedUntil: null })], at)).toEqual([

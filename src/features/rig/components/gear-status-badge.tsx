@@ -12,12 +12,12 @@ const look: Record<GearStanding, { Icon: typeof Ban; cls: string }> = {
 };
 
 /** The item's standing now: its recorded status, or what its dates say of an item recorded as in service. */
-export function GearStatusBadge({ gear, at = new Date() }: { gear: GearStandingInput; at?: Date }) {
+export function GearStatusBadge({ gear, at = new Date(), wrap = false }: { gear: GearStandingInput; at?: Date; /** In a narrow table cell the words may take two lines. */ wrap?: boolean }) {
   const standing = gearStandingAt(gear, at);
   const { Icon, cls } = look[standing];
   return (
-    <span className={`inline-flex items-center gap-1.5 whitespace-nowrap rounded-full border px-2.5 py-0.5 text-sm font-medium ${cls}`} data-standing={standing}>
-      <Icon className="size-4" aria-hidden />
+    <span className={`inline-flex items-center gap-1.5 rounded-full border px-2.5 py-0.5 text-sm font-medium ${wrap ? '' : 'whitespace-nowrap'} ${cls}`} data-standing={standing}>
+      <Icon className="size-4 shrink-0" aria-hidden />
       {gearStandingWords[standing]}
     </span>
   );

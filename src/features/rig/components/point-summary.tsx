@@ -1,5 +1,5 @@
 import { Link } from 'react-router-dom';
-import { ChevronRight } from 'lucide-react';
+import { ChevronRight, OctagonX } from 'lucide-react';
 import type { Point } from '../../../../shared/schemas/rig';
 import { StatusBadge } from '../../../components/ui/status-badge';
 import { paths } from '../../../lib/paths';
@@ -24,7 +24,7 @@ export function PointSummary({ point, fmt }: { point: Point; fmt: StudioFormat }
         <span className="min-w-0 text-sm">
           {/* Every reason, each on its line: a rule violation must not hide behind "awaits clearance". */}
           {point.status.reasons.map((r, i) => (
-            <span key={`${r.code}-${i}`} className="block text-ink">{r.message}</span>
+            <span key={`${r.code}-${i}`} className="flex items-start gap-1.5 text-ink"><OctagonX className="mt-0.5 size-3.5 shrink-0 text-stop-700" aria-hidden />{r.message}</span>
           ))}
           <span className="block text-muted">{clearanceWords(point, fmt)}</span>
           <span className="block text-xs text-muted">
