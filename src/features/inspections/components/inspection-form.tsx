@@ -109,14 +109,26 @@ export function InspectionForm({ point, timeZone }: { point: Point; timeZone: st
                     <ResultChoice name={`${hid}-r-${n}`} legend={`Result for row ${n + 1}: ${item.label}`} value={r} onChange={(v) => setResult(item.key, v)} invalid={!!err} describedBy={err ? `${hid}-e-${n}` : undefined} />
                     <div className="min-w-0 flex-1">
                       <label htmlFor={`${hid}-n-${n}`} className={r === 'fail' ? 'mb-1 block text-sm font-medium text-stop-700' : 'sr-only'}>{r === 'fail' ? 'What failed (required)' : `Note for row ${n + 1}`}</label>
-                      <input
-                        id={`${hid}-n-${n}`}
-                        value={notes[item.key] ?? ''}
-                        onChange={(e) => setNotes((s) => ({ ...s, [item.key]: e.target.value }))}
-                        placeholder={r === 'fail' ? 'What failed (required)' : r === 'attention' ? 'What to watch' : 'Note (optional)'}
-                        aria-invalid={err && r === 'fail' ? true : undefined}
-                        className={`block min-h-11 w-full min-w-0 rounded-lg border px-3 text-sm ${r === 'fail' ? 'border-stop-700' : 'border-line'}`}
-                      />
+                      {/* A failed row's note is the fault's description: a two-line box, so what is typed stays in view. */}
+                      {r === 'fail' ? (
+                        <textarea
+                          id={`${hid}-n-${n}`}
+                          rows={2}
+                          value={notes[item.key] ?? ''}
+                          onChange={(e) => setNotes((s) => ({ ...s, [item.key]: e.target.value }))}
+                          placeholder="What failed (required)"
+                          aria-invalid={err ? true : undefined}
+                          className="block w-full min-w-0 rounded-lg border border-stop-700 px-3 py-2 text-sm"
+                        />
+                      ) : (
+                        <input
+                          id={`${hid}-n-${n}`}
+                          value={notes[item.key] ?? ''}
+                          onChange={(e) => setNotes((s) => ({ ...s, [item.key]: e.target.value }))}
+                          placeholder={r === 'attention' ? 'What to watch' : 'Note (optional)'}
+                          className="block min-h-11 w-full min-w-0 rounded-lg border border-line px-3 text-sm"
+                        />
+                      )}
                     </div>
                   </div>
                   {r === 'fail' ? <p className="text-xs text-stop-700">A fail opens a high-severity fault{item.gearId ? ' on this item' : ' on the point'} and the point stays blocked.</p> : null}
