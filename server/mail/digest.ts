@@ -1,8 +1,9 @@
 import { TZDate } from '@date-fns/tz';
-import { addStudioDays, clearedUntil, formatStudioDay, gearName, pointStatusAt, serviceLifeEnd, studioDay } from '../../shared/clearance';
+import { addStudioDays, clearedUntil, formatStudioDay, gearName, pointStatusAt, reasonCodes, serviceLifeEnd, studioDay } from '../../shared/clearance';
+import type { GearKind } from '../../shared/schemas/vocabulary';
 import type { MailCycleContext } from './context';
 import { auditRepository, formatHead } from '../modules/audit/audit.repository';
-import { digestIsEmpty, digestMessage, type DigestInput } from './templates/digest';
+import { digestIsEmpty, digestMessage, type DigestInput, type DigestSection } from './templates/digest';
 import { writeTransaction } from '../db/knex';
 
 /** The digest goes out once per studio day, at the first cycle at or after this hour, studio time. */
@@ -49,14 +50,14 @@ export async function scheduleDigests(ctx: MailCycleContext): Promise<{ queued: 
   return { queued, skipped };
 }
 
-async function digestContent(ctx: MailCycleContext): Promise<Pick<DigestInput, 'expiringPoints' | 'sessionsPastClearance' | 'gearServiceLife'>> {
+async function digestContent(ctx: MailCycleContext): Promise<Pick<DigestInput, DigestSection>> {
   const { now, policy } = ctx;
   const tz = policy.timeZone;
   const windowEnd = addStudioDays(now, policy.warningDays, tz);
   const bundles = await ctx.snapshots();
 
-  const expiringPoints = [...bundles.values()]
-    .map((b) => ({ b, st: pointStatusAt(b.snapshot, policy, now) }))
+  const statuses = [...bundles.values()].map((b) => ({ b, st: pointStatusAt(b.snapshot, policy, now) }));
+  const expiringPoints = statuses
     .filter(({ st }) => st.status === 'expiring' && st.clearedUntil)
     .map(({ b, st }) => ({ label: b.point.label, roomName: b.point.roomName, clearedUntil: st.clearedUntil! }))
     .sort((a, b) => a.clearedUntil.getTime() - b.clearedUntil.getTime());
@@ -83,5 +84,19 @@ async function digestContent(ctx: MailCycleContext): Promise<Pick<DigestInput, '
     .sort((a, b) => a.end.getTime() - b.end.getTime())
     .map(({ g, end }) => ({ name: gearName(g), pointLabel: g.pointLabel, lifeEnd: end, past: end.getTime() <= now.getTime() }));
 
-  return { expiringPoints, sessionsPastClearance, gearServiceLife };
+  // Work waiting on a rigger now: points whose clearance was voided (a path, rating or gear change, a fault) and every open fault.
+  const awaitingClearance = statuses
+    .filter(({ st }) => st.reasons.some((r) => r.code === reasonCodes.awaitingClearance))
+    .map(({ b }) => ({ label: b.point.label, roomName: b.point.roomName, voidedAt: b.snapshot.lastClearance?.voidedAt ?? null }))
+    .sort((a, b) => (a.voidedAt?.getTime() ?? 0) - (b.voidedAt?.getTime() ?? 0) || a.label.localeCompare(b.label, undefined, { numeric: true }));
+  const openFaults = (await ctx.data.openFaults()).map((f) => ({
+    on: f.gear ? `${capitalised(gearName({ kind: f.gear.kind as GearKind, serial: f.gear.serial }))} (${f.gear.pointLabel ? `on ${f.gear.pointLabel}` : 'in stock'})` : `Point ${f.pointLabel ?? '?'}${f.roomName ? ` (${f.roomName})` : ''}`,
+    severity: f.severity,
+    description: f.description,
+    reportedAt: f.reportedAt,
+  }));
+
+  return { expiringPoints, sessionsPastClearance, gearServiceLife, awaitingClearance, openFaults };
 }
+
+const capitalised = (t: string) => t.charAt(0).toUpperCase() + t.slice(1);

@@ -93,6 +93,16 @@ function sessionSelect(trx: Db) {
     );
 }
 
+export interface OpenFaultRow {
+  id: number;
+  severity: string;
+  description: string;
+  reportedAt: Date;
+  pointLabel: string | null;
+  roomName: string | null;
+  gear: { kind: string; serial: string; pointLabel: string | null } | null;
+}
+
 /** The reads (and the one flag write) the mail worker and the outbox make on other modules' tables. */
 export function mailDataRepository(db: Db) {
   return {
@@ -180,6 +190,20 @@ export function mailDataRepository(db: Db) {
     async userById(id: number, trx: Db = db): Promise<(StaffMember & { active: boolean }) | null> {
       const r = await trx('users').where({ id }).first('id', 'name', 'email', 'role', 'digest_opt_out', 'active');
       return r ? { id: r.id, name: r.name, email: r.email, role: r.role, digestOptOut: Boolean(r.digest_opt_out), active: Boolean(r.active) } : null;
+    },
+
+    /** Every open fault, newest first, with what it is on: the point (and its room), or the gear item and the point holding it. */
+    async openFaults(trx: Db = db): Promise<OpenFaultRow[]> {
+      const rows = (await trx('faults')
+        .leftJoin('points', 'points.id', 'faults.point_id')
+        .leftJoin('rooms', 'rooms.id', 'points.room_id')
+        .leftJoin('gear_items', 'gear_items.id', 'faults.gear_id')
+        .leftJoin('load_path_links', 'load_path_links.gear_id', 'faults.gear_id')
+        .leftJoin('points as holders', 'holders.id', 'load_path_links.point_id')
+        .where('faults.status', 'open')
+        .orderBy([{ column: 'faults.reported_at', order: 'desc' }, { column: 'faults.id', order: 'desc' }])
+        .select('faults.id', 'faults.severity', 'faults.description', 'faults.reported_at', 'points.label as point_label', 'rooms.name as room_name', 'gear_items.kind as gear_kind', 'gear_items.serial as gear_serial', 'holders.label as holder_label')) as Array<{ id: number; severity: string; description: string; reported_at: string; point_label: string | null; room_name: string | null; gear_kind: string | null; gear_serial: string | null; holder_label: string | null }>;
+      return rows.map((r) => ({ id: r.id, severity: r.severity, description: r.description, reportedAt: new Date(r.reported_at), pointLabel: r.point_label, roomName: r.room_name, gear: r.gear_kind && r.gear_serial !== null ? { kind: r.gear_kind, serial: r.gear_serial, pointLabel: r.holder_label } : null }));
     },
 
     /** Gear not retired that has a service life set, with the point it hangs on. */

@@ -9,3 +9,4 @@ export * from './validity';
 export { freezeSnapshot } from './memo';
 export * from './policy-effects';
 export * from './records';
+export * from './gear-standing';

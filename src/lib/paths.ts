@@ -7,6 +7,8 @@ export const paths = {
   point: (id: number | string) => `/rig/points/${id}`,
   gear: '/rig/gear',
   gearItem: (id: number | string) => `/rig/gear/${id}`,
+  /** A gear item's page with its own inspection form open (after an incident for a quarantined item). */
+  inspectGear: (id: number | string) => `/rig/gear/${id}?inspect=1`,
   labels: '/rig/labels',
   inspections: '/inspections',
   faults: '/faults',

@@ -637,6 +637,38 @@ describe('daily digest', () => {
     expect((await rows({ kind: 'digest' })).map((r) => r.unique_key)).toEqual([`digest:${rigger.id}:2026-12-01`, `digest:${rigger.id}:2026-12-02`]);
   });
 
+  it('lists the points awaiting a rigger’s clearance and every open fault, newest first, and counts them in the subject', async () => {
+    const s = await studio();
+    const rigger = await as(ctx, 'rigger', { name: 'Rita Rigger' });
+    const voided = await point(s, 'V-1', '2026-11-28T10:00:00Z');
+    const faulted = await point(s, 'F-2', '2026-11-28T10:00:00Z');
+    const spare = await makeGear(ctx.db, { kind: 'carabiner', serial: 'CS-SPARE-9' });
+    // A new structural rating voids V-1's clearance; F-2 gets an open fault, a spare item another.
+    expect((await rigger.patch(`/api/points/${voided.id}`).send({ structuralRatingKn: 25 })).status).toBe(200);
+    expect((await rigger.post('/api/faults').send({ pointId: faulted.id, severity: 'medium', description: 'Sling rubbing on the beam edge' })).status).toBe(201);
+    ctx.clock.set('2026-12-01T10:05:00Z');
+    expect((await rigger.post('/api/faults').send({ gearId: spare, severity: 'low', description: 'Gate sticks when wet' })).status).toBe(201);
+
+    ctx.clock.set('2026-12-01T11:00:00Z');
+    await worker().runOnce();
+    const digest = received().filter((m) => m.subject.startsWith('Rig digest'));
+    expect(digest).toHaveLength(1);
+    expect(digest[0].to).toEqual([rigger.user.email]);
+    // The fault voided F-2's clearance as well, so both points await a rigger.
+    expect(digest[0].subject).toBe('Rig digest for 1 Dec 2026: 2 points awaiting clearance, 2 open faults');
+    const text = linesOf(digest[0].text);
+    const awaiting = text.indexOf('Points awaiting a rigger’s clearance:');
+    expect(text.slice(awaiting + 1, awaiting + 3)).toEqual(['F-2 (Main Hall)  clearance voided 1 Dec 2026, 10:00', 'V-1 (Main Hall)  clearance voided 1 Dec 2026, 10:00']);
+    expect(text).toContain('Open faults:');
+    const faults = text.slice(text.indexOf('Open faults:') + 1, text.indexOf('Open faults:') + 3);
+    expect(faults).toEqual([
+      'Carabiner CS-SPARE-9 (in stock), low severity  Gate sticks when wet; reported 1 Dec 2026, 10:05',
+      'Point F-2 (Main Hall), medium severity  Sling rubbing on the beam edge; reported 1 Dec 2026, 10:00',
+    ]);
+    expect(digest[0].html).toContain('Points awaiting a rigger’s clearance');
+    expect(digest[0].html).toContain('Gate sticks when wet');
+  });
+
   it('records a day with nothing due as skipped instead of mailing it', async () => {
     const rigger = await makeUser(ctx.db, { role: 'rigger' });
     await worker().runOnce();

@@ -14,12 +14,18 @@ export interface DigestInput {
   expiringPoints: Array<{ label: string; roomName: string; clearedUntil: Date }>;
   sessionsPastClearance: Array<{ className: string; roomName: string; startsAt: Date; endsAt: Date; pointLabel: string; clearedUntil: Date | null }>;
   gearServiceLife: Array<{ name: string; pointLabel: string | null; lifeEnd: Date; past: boolean }>;
+  /** Points whose clearance was voided and that no rigger has cleared since. */
+  awaitingClearance: Array<{ label: string; roomName: string; voidedAt: Date | null }>;
+  /** Every open fault, newest first; `on` names the point or the gear item in words. */
+  openFaults: Array<{ on: string; severity: string; description: string; reportedAt: Date }>;
 }
+
+export type DigestSection = 'expiringPoints' | 'sessionsPastClearance' | 'gearServiceLife' | 'awaitingClearance' | 'openFaults';
 
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
-export function digestIsEmpty(i: Pick<DigestInput, 'expiringPoints' | 'sessionsPastClearance' | 'gearServiceLife'>): boolean {
-  return !i.expiringPoints.length && !i.sessionsPastClearance.length && !i.gearServiceLife.length;
+export function digestIsEmpty(i: Pick<DigestInput, DigestSection>): boolean {
+  return !i.expiringPoints.length && !i.sessionsPastClearance.length && !i.gearServiceLife.length && !i.awaitingClearance.length && !i.openFaults.length;
 }
 
 /** PRODUCT.md §5: the rigger's daily digest of work coming due. */
@@ -27,6 +33,8 @@ export function digestMessage(i: DigestInput): RenderedMail {
   const tz = i.timeZone;
   const link = `${i.appUrl}/rig`;
   const counts = [
+    i.awaitingClearance.length && plural(i.awaitingClearance.length, 'point awaiting clearance', 'points awaiting clearance'),
+    i.openFaults.length && plural(i.openFaults.length, 'open fault', 'open faults'),
     i.expiringPoints.length && plural(i.expiringPoints.length, 'point expiring', 'points expiring'),
     i.sessionsPastClearance.length && plural(i.sessionsPastClearance.length, 'booking past clearance', 'bookings past clearance'),
     i.gearServiceLife.length && plural(i.gearServiceLife.length, 'gear item at end of life', 'gear items at end of life'),
@@ -34,6 +42,8 @@ export function digestMessage(i: DigestInput): RenderedMail {
   const subject = oneLine(`Rig digest for ${i.dayLabel}: ${counts.length ? counts.join(', ') : 'nothing due'}`);
   const window = plural(i.warningDays, 'day', 'days');
 
+  const awaiting = i.awaitingClearance.map((p) => ({ title: `${p.label} (${p.roomName})`, details: [p.voidedAt ? `clearance voided ${when(p.voidedAt, tz)}` : 'clearance voided'] }));
+  const faults = i.openFaults.map((f) => ({ title: `${f.on}, ${f.severity} severity`, details: [oneLine(f.description), `reported ${when(f.reportedAt, tz)}`] }));
   const points = i.expiringPoints.map((p) => ({ title: `${p.label} (${p.roomName})`, details: [`cleared until ${when(p.clearedUntil, tz)}`] }));
   const sessions = i.sessionsPastClearance.map((s) => ({
     title: `${s.className}, ${when(s.startsAt, tz)}, ${s.roomName}`,
@@ -49,6 +59,8 @@ export function digestMessage(i: DigestInput): RenderedMail {
     `Hello ${i.recipientName},`,
     '',
     counts.length ? `Rig work coming due, ${i.dayLabel} (warning window ${window}).` : `Nothing comes due in the next ${window}.`,
+    ...textSection('Points awaiting a rigger’s clearance', awaiting),
+    ...textSection('Open faults', faults),
     ...textSection(`Points whose clearance runs out within ${window}`, points),
     ...textSection('Booked classes that end after a point’s clearance runs out', sessions),
     ...textSection(`Gear reaching the end of its service life within ${window}`, gear),
@@ -67,6 +79,8 @@ export function digestMessage(i: DigestInput): RenderedMail {
     body: [
       paragraph(`Hello ${i.recipientName},`),
       paragraph(counts.length ? `Rig work coming due (warning window ${window}).` : `Nothing comes due in the next ${window}.`),
+      section('Points awaiting a rigger’s clearance', awaiting),
+      section('Open faults', faults),
       section(`Points whose clearance runs out within ${window}`, points),
       section('Booked classes that end after a point’s clearance runs out', sessions),
       section(`Gear reaching the end of its service life within ${window}`, gear),

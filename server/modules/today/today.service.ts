@@ -7,7 +7,7 @@ import type { RigRepository } from '../rig/rig.repository';
 import { loadSnapshots } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { InspectionsRepository } from '../inspections/inspections.repository';
-import { pointStatusAt, studioDay, type PointSnapshot } from '../../../shared/clearance';
+import { gearInspectionsNeeded, pointStatusAt, serviceLifeEnd, studioDay, type PointSnapshot } from '../../../shared/clearance';
 import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf, type BookedClass } from '../sessions/session-rig';
 import type { CurrentUser } from '../../http/auth';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
@@ -69,7 +69,10 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
       const b = byId.get(id)!;
       const due = !preuse.has(id);
       // `preuse_due` is the contract's word (PRODUCT.md §6.1); `preuseDue` is the client's.
-      return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(pointStatusAt(snapshot, policy, at)), preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
+      const status = pointStatusAt(snapshot, policy, at);
+      // A point blocked by its gear is released by that item's own inspection, not the point's (§4.1).
+      const gearToInspect = status.status === 'blocked' ? gearInspectionsNeeded(snapshot.links.map((l) => ({ gear: { ...l.gear, serviceLifeEndsOn: serviceLifeEnd(l.gear, policy.timeZone) } })), at) : [];
+      return { pointId: id, label: b.point.label, roomName: b.point.roomName, ...statusWire(status), gearToInspect, preuseDue: due, preuse_due: due, lastPreuseAt: preuse.get(id) ?? null };
     };
     return deriveAt(policy, now, (track) => {
       // The studio day turns at midnight in the studio's zone: a new day, new sessions, pre-use due.

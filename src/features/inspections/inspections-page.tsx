@@ -44,7 +44,7 @@ export function InspectionsPage() {
         </PageHeader>
         <Caution />
       </div>
-      <section aria-labelledby="round-title" className="no-print grid grid-cols-1 gap-6 lg:grid-cols-[minmax(16rem,22rem)_minmax(0,1fr)]">
+      <section aria-labelledby="round-title" className="no-print grid grid-cols-1 gap-6 lg:grid-cols-[minmax(14rem,17rem)_minmax(0,1fr)] xl:grid-cols-[minmax(16rem,22rem)_minmax(0,1fr)]">
         <div className="min-w-0 space-y-3">
           <h2 id="round-title" className="text-xl font-semibold">Points to inspect</h2>
           <PointsToInspect selected={selectedId} timeZone={timeZone} onSelect={select} />

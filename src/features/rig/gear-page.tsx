@@ -1,7 +1,7 @@
-import { useState } from 'react';
-import { Link } from 'react-router-dom';
+import { useEffect, useRef, useState } from 'react';
+import { Link, useSearchParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
-import { Pencil, Printer, TriangleAlert } from 'lucide-react';
+import { ClipboardCheck, Pencil, Printer, TriangleAlert } from 'lucide-react';
 import { describeGear, formatForce } from '../../../shared/rigging';
 import { isApparatusKind } from '../../../shared/schemas/vocabulary';
 import { Button } from '../../components/ui/button';
@@ -18,7 +18,9 @@ import { DocumentsPanel } from './components/documents-panel';
 import { GearActions } from './components/gear-actions';
 import { GearEvents } from './components/gear-events';
 import { GearForm } from './components/gear-form';
-import { GearStatusBadge } from './components/gear-status-badge';
+import { GearStatusBadge, gearNeedsInspection } from './components/gear-status-badge';
+import { gearStandingAt } from '../../../shared/clearance/gear-standing';
+import { GearInspectionForm } from '../inspections/components/gear-inspection-form';
 import { Detail } from './components/detail';
 
 export function GearPage({ id }: { id: number }) {
@@ -38,9 +40,25 @@ export function GearPage({ id }: { id: number }) {
   return <GearView gear={gear.data} fmt={fmt} />;
 }
 
+/** What an item recorded as usable still needs, in words (PRODUCT.md §3). */
+const STANDING_NEXT = {
+  quarantined: 'Out of use until an after-incident inspection passes.',
+  past_service_life: 'Past its service life: retire it and fit a replacement.',
+  never_inspected: 'Never inspected: it needs an inspection before use.',
+  inspection_lapsed: 'Its own inspection has lapsed: inspect it before use.',
+} as const;
+
 function GearView({ gear, fmt }: { gear: GearDetail; fmt: StudioFormat }) {
   const { canEdit, isRigger } = useRigAccess();
   const [editing, setEditing] = useState(false);
+  const [params, setParams] = useSearchParams();
+  const now = new Date();
+  const standing = gearStandingAt(gear, now);
+  const needsInspection = gearNeedsInspection(gear, now);
+  const inspecting = isRigger && gear.status !== 'retired' && params.get('inspect') === '1';
+  const setInspecting = (on: boolean) => setParams((old) => { const n = new URLSearchParams(old); if (on) n.set('inspect', '1'); else n.delete('inspect'); return n; }, { replace: !on });
+  const inspectHeading = useRef<HTMLHeadingElement>(null);
+  useEffect(() => { if (inspecting) inspectHeading.current?.focus(); }, [inspecting]);
   const kn = (v: number | null) => (v === null ? 'Not rated' : fmt.unit === 'kN' ? fmt.force(v) : `${fmt.force(v)} (${formatForce(v, 'kN', 2)})`);
   return (
     <div className="max-w-5xl space-y-6">
@@ -49,6 +67,9 @@ function GearView({ gear, fmt }: { gear: GearDetail; fmt: StudioFormat }) {
         title={describeGear(gear)}
         actions={
           <>
+            {isRigger && needsInspection && !inspecting ? (
+              <Link to={paths.inspectGear(gear.id)} className="inline-flex min-h-11 items-center gap-2 rounded-lg bg-pine-700 px-4 py-2 text-sm font-medium text-white hover:bg-pine-800"><ClipboardCheck className="size-4" aria-hidden /> Inspect</Link>
+            ) : null}
             <Link to={paths.reportFault({ gearId: gear.id })} className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50"><TriangleAlert className="size-4" aria-hidden /> Report a fault</Link>
             <Link to={`${paths.labels}?gear=${gear.id}`} className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50"><Printer className="size-4" aria-hidden /> Print its label</Link>
             {canEdit && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}><Pencil className="size-4" aria-hidden /> Edit item</Button> : null}
@@ -60,9 +81,10 @@ function GearView({ gear, fmt }: { gear: GearDetail; fmt: StudioFormat }) {
 
       <Card className="space-y-3">
         <div className="flex flex-wrap items-center gap-3">
-          <GearStatusBadge status={gear.status} />
+          <GearStatusBadge gear={gear} at={now} />
           {gear.statusReason ? <span className="text-sm">{gear.statusReason}</span> : null}
         </div>
+        {standing !== 'in_service' && standing !== 'retired' ? <p className="text-sm font-medium text-stop-700">{STANDING_NEXT[standing]}</p> : null}
         <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-2">
           <Detail term={isApparatusKind(gear.kind) ? 'Own inspection valid until' : 'Inspected until'} value={fmt.when(gear.inspectedUntil, 'Not yet inspected — it needs an inspection before use')} />
           <Detail term="Service life ends" value={fmt.day(gear.serviceLifeEndsOn, 'No service life entered')} />
@@ -73,6 +95,15 @@ function GearView({ gear, fmt }: { gear: GearDetail; fmt: StudioFormat }) {
         </dl>
         <Caution />
       </Card>
+
+      {inspecting ? (
+        <Card className="space-y-3">
+          <h2 ref={inspectHeading} tabIndex={-1} className="font-semibold">Inspect {describeGear(gear)}</h2>
+          <p className="text-sm text-muted">{gear.status === 'quarantined' ? 'An after-incident inspection that passes returns the item to service.' : 'A pass renews the item’s own inspection.'}{gear.pointLabel ? ` Point ${gear.pointLabel} holds it.` : ''}</p>
+          <GearInspectionForm gear={gear} onDone={() => setInspecting(false)} />
+          <Button variant="ghost" onClick={() => setInspecting(false)}>Cancel</Button>
+        </Card>
+      ) : null}
 
       {editing ? <GearForm gear={gear} onDone={() => setEditing(false)} /> : (
         <Card>

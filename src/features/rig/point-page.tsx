@@ -3,8 +3,9 @@ import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { ClipboardCheck, Pencil, Printer, TriangleAlert, Workflow } from 'lucide-react';
 import type { Point } from '../../../shared/schemas/rig';
+import { gearInspectionsNeeded, pointInspectionHelps } from '../../../shared/clearance/gear-standing';
+import { gearKindLabels } from '../../../shared/rigging/strength';
 import { Button } from '../../components/ui/button';
-import { Caution } from '../../components/ui/caution';
 import { Card, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { ApiError } from '../../lib/api-client';
 import { paths } from '../../lib/paths';
@@ -50,6 +51,8 @@ function PointView({ point, fmt, classTypes, classTypesError, classTypesPending 
   const [editingPath, setEditingPath] = useState(false);
   const [saved, setSaved] = useState<SaveOutcome | null>(null);
   const links = point.links ?? [];
+  // A point blocked by its gear is released by that item's own inspection (a quarantined hoop by its after-incident one), not by the point's.
+  const gearNeeds = point.status.status === 'blocked' ? gearInspectionsNeeded(links, new Date()) : [];
   return (
     <div className="max-w-5xl space-y-6">
       <BackLink to={paths.rig}>Rig</BackLink>
@@ -58,7 +61,8 @@ function PointView({ point, fmt, classTypes, classTypesError, classTypesPending 
         actions={
           <>
             <Link to={paths.reportFault({ pointId: point.id })} className={linkButton}><TriangleAlert className="size-4" aria-hidden /> Report a fault</Link>
-            {isRigger ? <Link to={paths.inspectPoint(point.id)} className={linkButton}><ClipboardCheck className="size-4" aria-hidden /> Inspect and clear</Link> : null}
+            {isRigger ? gearNeeds.map((g) => <Link key={g.gearId} to={paths.inspectGear(g.gearId)} className={linkButton}><ClipboardCheck className="size-4" aria-hidden /> Inspect {gearKindLabels[g.kind].toLowerCase()} {g.serial}</Link>) : null}
+            {isRigger && pointInspectionHelps(point.status) ? <Link to={paths.inspectPoint(point.id)} className={linkButton}><ClipboardCheck className="size-4" aria-hidden /> Inspect and clear</Link> : null}
             <Link to={`${paths.labels}?point=${point.id}`} className="inline-flex min-h-11 items-center gap-2 rounded-lg border border-line bg-white px-4 py-2 text-sm font-medium hover:bg-pine-50"><Printer className="size-4" aria-hidden /> Print its label</Link>
             {canEdit && !editingPoint ? <Button variant="secondary" onClick={() => setEditingPoint(true)}><Pencil className="size-4" aria-hidden /> Edit point</Button> : null}
           </>
@@ -85,7 +89,6 @@ function PointView({ point, fmt, classTypes, classTypesError, classTypesPending 
             <Detail term="Service" value={point.inService ? 'In service' : 'Out of service'} />
             {point.notes ? <Detail term="Notes" value={point.notes} /> : null}
           </dl>
-          <Caution className="mt-3" />
         </Card>
       )}
 
@@ -101,7 +104,6 @@ function PointView({ point, fmt, classTypes, classTypesError, classTypesPending 
         ) : (
           <>
             <LoadPathChain links={links} structure={point.structure} ratingKn={point.structuralRatingKn} fmt={fmt} />
-            <Caution />
             {isRigger && links.length > 0 ? <MountApparatus point={point} /> : null}
           </>
         )}

@@ -15,6 +15,8 @@ export const todayPointSchema = z.object({
   status: statusWord,
   clearedUntil: z.string().nullable(),
   reasons: z.array(reasonSchema),
+  /** Gear whose own inspection would unblock the point (a quarantined item, the apparatus's own inspection). */
+  gearToInspect: z.array(z.object({ gearId: z.number(), kind: z.string(), serial: z.string(), inspection: z.enum(['after_incident', 'periodic']), standing: z.string() })).default([]),
   preuseDue: z.boolean(),
   lastPreuseAt: z.string().nullable(),
 });

@@ -1,5 +1,7 @@
 import { useMemo, useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
+import { paths } from '../../../lib/paths';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
@@ -39,6 +41,8 @@ export function ResolveFault({ fault, onCancel, onResolved }: { fault: Fault; on
   const resolution = form.watch('resolution') as FaultResolution | undefined;
   const replacing = onGear && resolution === 'replaced';
   const stock = useQuery({ ...faultQueries.stock(gear.data?.kind ?? 'carabiner'), enabled: replacing && !!gear.data });
+  // The faulted item itself may be in stock: it never replaces itself.
+  const stockItems = stock.data?.filter((g) => g.id !== fault.gearId);
   const e = form.formState.errors;
   const choices = onGear ? faultResolutions : faultResolutions.filter((r) => r !== 'retired');
   const holder: FaultHolder = onGear ? { pointId: gear.data?.pointId ?? null, pointLabel: gear.data?.pointLabel ?? null } : { pointId: fault.pointId, pointLabel: fault.pointLabel };
@@ -66,7 +70,7 @@ export function ResolveFault({ fault, onCancel, onResolved }: { fault: Fault; on
       },
     });
   };
-  const replacement = stock.data?.find((g) => String(g.id) === form.watch('replacementGearId'));
+  const replacement = stockItems?.find((g) => String(g.id) === form.watch('replacementGearId'));
   const oldStatus = form.watch('oldGearStatus');
 
   return (
@@ -89,11 +93,13 @@ export function ResolveFault({ fault, onCancel, onResolved }: { fault: Fault; on
             <SelectField
               label={`Replacement ${gearKindWord(gear.data?.kind).toLowerCase()} from stock`}
               error={e.replacementGearId?.message ?? (stock.isError ? errorMessage(stock.error) : undefined)}
-              hint={stock.data && stock.data.length === 0 ? 'No item of this kind is in stock and in service. Add one on the gear page first.' : 'Only items in service and not hung on any point are listed.'}
+              hint={stockItems && stockItems.length === 0 ? (
+                <>No {gearKindWord(gear.data?.kind).toLowerCase()} is in stock and in service. <Link to={`${paths.gear}?add=${gear.data?.kind ?? ''}`} className="font-medium text-pine-700 underline underline-offset-2">Add one on the gear page</Link>, then come back to resolve this fault.</>
+              ) : 'Only items in service and not hung on any point are listed.'}
               {...form.register('replacementGearId')}
             >
               <option value="">{stock.isPending ? 'Loading stock…' : 'Pick the replacement'}</option>
-              {stock.data?.map((g) => <option key={g.id} value={String(g.id)}>{g.serial}{g.maker ? ` — ${g.maker}${g.model ? ` ${g.model}` : ''}` : ''}</option>)}
+              {stockItems?.map((g) => <option key={g.id} value={String(g.id)}>{g.serial}{g.maker ? ` — ${g.maker}${g.model ? ` ${g.model}` : ''}` : ''}</option>)}
             </SelectField>
             <fieldset className="space-y-1">
               <legend className="text-sm font-medium">What becomes of the old {gear.data?.serial ?? 'item'}?</legend>

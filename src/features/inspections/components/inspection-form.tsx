@@ -38,6 +38,12 @@ export function InspectionForm({ point, timeZone }: { point: Point; timeZone: st
     setRowErrors((e) => ({ ...e, [key]: '' }));
   };
 
+  const unanswered = items.filter((i) => !results[i.key]).length;
+  const markRestPass = () => {
+    setResults((s) => ({ ...Object.fromEntries(items.map((i) => [i.key, 'pass' as const])), ...s }));
+    setRowErrors({});
+  };
+
   const submit = (ev: FormEvent) => {
     ev.preventDefault();
     setFormError(null);
@@ -90,12 +96,7 @@ export function InspectionForm({ point, timeZone }: { point: Point; timeZone: st
       ) : null}
       {list.isPending ? <Loading label="Building the checklist from the load path…" /> : list.isError ? <ErrorState error={list.error} retry={() => list.refetch()} /> : (
         <>
-          <div className="flex flex-wrap items-center justify-between gap-2">
-            <p className="text-sm text-muted">{items.length} rows: the structure, each link from the top down, then the standing items.</p>
-            <Button type="button" variant="secondary" onClick={() => { setResults(Object.fromEntries(items.map((i) => [i.key, 'pass' as const]))); setRowErrors({}); }}>
-              <CheckCheck className="size-4" aria-hidden /> Mark all pass
-            </Button>
-          </div>
+          <p className="text-sm text-muted">{items.length} rows: the structure, each link from the top down, then the standing items. Record each row as you look at it.</p>
           <ol className="space-y-3">
             {items.map((item, n) => {
               const err = rowErrors[item.key];
@@ -103,17 +104,31 @@ export function InspectionForm({ point, timeZone }: { point: Point; timeZone: st
               return (
                 <li key={item.key} className={`space-y-2 rounded-lg border p-3 ${err ? 'border-stop-700' : r === 'fail' ? 'border-stop-700/50 bg-stop-50/40' : 'border-line'}`}>
                   <p id={`${hid}-${n}`} className="text-sm font-medium"><span className="text-muted">{n + 1}.</span> {item.label}</p>
-                  <div className="flex flex-col gap-2 sm:flex-row sm:items-center">
+                  {/* The note takes its own full-width line below the result until the form is wide, so a failed row's required note is never squeezed. */}
+                  <div className="flex flex-col gap-2 xl:flex-row xl:items-center">
                     <ResultChoice name={`${hid}-r-${n}`} legend={`Result for row ${n + 1}: ${item.label}`} value={r} onChange={(v) => setResult(item.key, v)} invalid={!!err} describedBy={err ? `${hid}-e-${n}` : undefined} />
                     <div className="min-w-0 flex-1">
-                      <label htmlFor={`${hid}-n-${n}`} className="sr-only">Note for row {n + 1}</label>
-                      <input
-                        id={`${hid}-n-${n}`}
-                        value={notes[item.key] ?? ''}
-                        onChange={(e) => setNotes((s) => ({ ...s, [item.key]: e.target.value }))}
-                        placeholder={r === 'fail' ? 'What failed (required)' : r === 'attention' ? 'What to watch' : 'Note (optional)'}
-                        className="block min-h-11 w-full rounded-lg border border-line px-3 text-sm"
-                      />
+                      <label htmlFor={`${hid}-n-${n}`} className={r === 'fail' ? 'mb-1 block text-sm font-medium text-stop-700' : 'sr-only'}>{r === 'fail' ? 'What failed (required)' : `Note for row ${n + 1}`}</label>
+                      {/* A failed row's note is the fault's description: a two-line box, so what is typed stays in view. */}
+                      {r === 'fail' ? (
+                        <textarea
+                          id={`${hid}-n-${n}`}
+                          rows={2}
+                          value={notes[item.key] ?? ''}
+                          onChange={(e) => setNotes((s) => ({ ...s, [item.key]: e.target.value }))}
+                          placeholder="What failed (required)"
+                          aria-invalid={err ? true : undefined}
+                          className="block w-full min-w-0 rounded-lg border border-stop-700 px-3 py-2 text-sm"
+                        />
+                      ) : (
+                        <input
+                          id={`${hid}-n-${n}`}
+                          value={notes[item.key] ?? ''}
+                          onChange={(e) => setNotes((s) => ({ ...s, [item.key]: e.target.value }))}
+                          placeholder={r === 'attention' ? 'What to watch' : 'Note (optional)'}
+                          className="block min-h-11 w-full min-w-0 rounded-lg border border-line px-3 text-sm"
+                        />
+                      )}
                     </div>
                   </div>
                   {r === 'fail' ? <p className="text-xs text-stop-700">A fail opens a high-severity fault{item.gearId ? ' on this item' : ' on the point'} and the point stays blocked.</p> : null}
@@ -122,6 +137,15 @@ export function InspectionForm({ point, timeZone }: { point: Point; timeZone: st
               );
             })}
           </ol>
+          {/* After the rows, not above them: the rows are there to be looked at one by one. It fills only rows still without a result. */}
+          {unanswered > 0 ? (
+            <div className="flex flex-wrap items-center gap-3">
+              <Button type="button" variant="secondary" onClick={markRestPass}>
+                <CheckCheck className="size-4" aria-hidden /> {unanswered === items.length ? 'Mark all pass' : `Mark the other ${unanswered} pass`}
+              </Button>
+              <span className="text-xs text-muted">Only for rows you have looked at and found sound.</span>
+            </div>
+          ) : null}
           <TextAreaField label="Overall notes" hint="Anything else for the record: conditions, what was re-tensioned, what to watch next time." value={overall} onChange={(e) => setOverall(e.target.value)} />
           {formError ? <p role="alert" className="rounded-lg bg-stop-50 p-3 text-sm text-stop-700">{formError}</p> : null}
           <Button type="submit" busy={clear.isPending} className="min-h-12 text-base">Sign the inspection</Button>

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { useQueries, useQuery } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
+import { Ban } from 'lucide-react';
 import { loadCheckQuery, type LoadCheck, type Point } from '../../../../shared/schemas/rig';
 import { Button } from '../../../components/ui/button';
 import { TextField } from '../../../components/ui/field';
@@ -22,11 +23,13 @@ export function ClassLoadChecks({ point, classTypes, fmt }: { point: Point; clas
         <ul className="space-y-2">
           {classTypes.map((ct, i) => {
             const q = checks[i];
+            const allowed = point.apparatus.includes(ct.apparatus);
             return (
               <li key={ct.id}>
                 <CheckRow
                   title={ct.name}
-                  subtitle={`${apparatusLabel(ct.apparatus)}${point.apparatus.includes(ct.apparatus) ? '' : ' — not allowed on this point'}`}
+                  subtitle={`${apparatusLabel(ct.apparatus)}${allowed ? '' : ' — not allowed on this point'}`}
+                  notAllowed={!allowed}
                   check={q.data}
                   pending={q.isPending}
                   error={q.error}
@@ -43,9 +46,11 @@ export function ClassLoadChecks({ point, classTypes, fmt }: { point: Point; clas
   );
 }
 
-function CheckRow({ title, subtitle, check, pending, error, retry, fmt, open = false }: {
+function CheckRow({ title, subtitle, notAllowed = false, check, pending, error, retry, fmt, open = false }: {
   title: string;
   subtitle?: string;
+  /** The point does not allow the class's apparatus: that decides, whatever the figures say. */
+  notAllowed?: boolean;
   check: LoadCheck | undefined;
   pending: boolean;
   error: unknown;
@@ -56,12 +61,14 @@ function CheckRow({ title, subtitle, check, pending, error, retry, fmt, open = f
   return (
     <details className="rounded-lg border border-line bg-white" open={open}>
       <summary className="flex min-h-11 cursor-pointer flex-wrap items-center gap-x-3 gap-y-1 px-3 py-2">
+        {notAllowed ? <NotAllowedWord /> : null}
         <span className="font-medium">{title}</span>
         {subtitle ? <span className="text-sm text-muted">{subtitle}</span> : null}
-        {check ? <PassWord pass={check.pass} /> : pending ? <span className="text-sm text-muted">Checking…</span> : <span className="text-sm text-stop-700">Not available</span>}
-        {check ? <FactorSummary check={check} /> : null}
+        {notAllowed ? null : check ? <PassWord pass={check.pass} /> : pending ? <span className="text-sm text-muted">Checking…</span> : <span className="text-sm text-stop-700">Not available</span>}
+        {check && !notAllowed ? <FactorSummary check={check} /> : null}
       </summary>
       <div className="space-y-2 border-t border-line p-3">
+        {notAllowed ? <p className="text-sm font-medium text-stop-700">This point does not allow this apparatus, so the class cannot be booked on it. The figures below are for information only.</p> : null}
         {error ? <ErrorState error={error} retry={retry} /> : pending || !check ? <Loading label="Checking the load path…" /> : (
           <>
             {check.profile ? <p className="text-sm text-muted">{describeProfile(check.profile)}</p> : null}
@@ -70,6 +77,14 @@ function CheckRow({ title, subtitle, check, pending, error, retry, fmt, open = f
         )}
       </div>
     </details>
+  );
+}
+
+function NotAllowedWord() {
+  return (
+    <span className="inline-flex items-center gap-1.5 rounded-full border border-stop-700/30 bg-stop-50 px-2.5 py-0.5 text-sm font-medium text-stop-700">
+      <Ban className="size-4" aria-hidden /> Not allowed
+    </span>
   );
 }
 

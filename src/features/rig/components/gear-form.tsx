@@ -1,4 +1,8 @@
+import { useState } from 'react';
+import { useQuery } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
+import { gearRatingChangeVoids } from '../../../../shared/clearance/voiding';
+import { ConfirmDialog } from '../../../components/ui/confirm';
 import { toast } from 'sonner';
 import { gearKindLabels } from '../../../../shared/rigging';
 import { createGearSchema, updateGearSchema, type CreateGear, type Gear, type UpdateGear } from '../../../../shared/schemas/rig';
@@ -7,7 +11,7 @@ import { Button } from '../../../components/ui/button';
 import { CheckboxField, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
 import { Card } from '../../../components/ui/states';
 import { errorMessage } from '../../../lib/api-client';
-import { useRigMutations } from '../api';
+import { rigQueries, useRigMutations } from '../api';
 import { gateLabels, materialLabels } from '../format';
 import { applyServerErrors, numberOrNull, preparedResolver, textOrNull } from '../form-helpers';
 import { ForceField, ForceUnitToggle, useForceUnits } from './force-field';
@@ -56,7 +60,7 @@ function prepare(v: GearFormValues, kn: (name: RatingName, text: string) => numb
 const RATINGS: RatingName[] = ['majorKn', 'minorKn', 'gateOpenKn', 'wllKn'];
 
 /** Adds a gear item (`gear` absent) or edits one. Ratings are typed from the marking, in kN, lbf or kgf, and stored in kN. */
-export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { id: number; serial: string }) => void }) {
+export function GearForm({ gear, kind, onDone }: { gear?: Gear; /** The kind a new item starts as (a fault's "add one" link names it). */ kind?: GearKind; onDone: (created?: { id: number; serial: string }) => void }) {
   const { createGear, updateGear } = useRigMutations();
   const { fmt } = useStudioFormat();
   // Ratings open in the studio's display unit; the rigger may switch to the unit of the marking.
@@ -66,7 +70,7 @@ export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { i
   const form = useForm<GearFormValues, unknown, CreateGear | UpdateGear>({
     resolver: preparedResolver<GearFormValues, CreateGear | UpdateGear>(editing ? updateGearSchema : createGearSchema, (v) => prepare(v, knOf)),
     defaultValues: {
-      kind: gear?.kind ?? 'carabiner',
+      kind: gear?.kind ?? kind ?? 'carabiner',
       material: gear?.material ?? 'steel',
       gate: gear?.gate ?? 'screw',
       ...forces.initialTexts,
@@ -82,12 +86,28 @@ export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { i
   });
   const e = form.formState.errors;
   const onError = (err: unknown) => { applyServerErrors(form.setError, err); toast.error(errorMessage(err)); };
+  // The point holding the item: a rating change voids its clearance, so the save asks first while one is in force.
+  const holder = useQuery({ ...rigQueries.point(gear?.pointId ?? 0), enabled: editing && gear.pointId !== null });
+  const [pending, setPending] = useState<UpdateGear | null>(null);
+  const saveEdit = (patch: UpdateGear) => {
+    if (!editing) return;
+    updateGear.mutate({ id: gear.id, ...patch }, { onSuccess: () => { setPending(null); toast.success(`${gear.serial} saved.`); onDone(); }, onError: (err) => { setPending(null); onError(err); } });
+  };
+  const voidsHolder = (patch: UpdateGear) => {
+    if (!editing || gear.pointId === null) return false;
+    const after = { ...gear, ...Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) } as Gear;
+    if (!gearRatingChangeVoids(gear, after)) return false;
+    const p = holder.data;
+    // Unknown yet: ask rather than void unasked.
+    return !p || (p.lastClearedAt !== null && p.clearanceVoidedAt === null);
+  };
   const submit = form.handleSubmit((body) => {
     if (editing) {
       // Send only the ratings that changed: a rating change voids the clearance of the point holding the item.
       const patch: UpdateGear = { ...body };
       for (const r of RATINGS) if ((patch[r] ?? null) === (gear[r] ?? null)) delete patch[r];
-      updateGear.mutate({ id: gear.id, ...patch }, { onSuccess: () => { toast.success(`${gear.serial} saved.`); onDone(); }, onError });
+      if (voidsHolder(patch)) setPending(patch);
+      else saveEdit(patch);
     } else createGear.mutate(body as CreateGear, { onSuccess: (g) => { toast.success(`${g.serial} added. It needs an inspection before use.`); onDone(g); }, onError });
   });
   const rating = (name: RatingName, label: string, optionalHint?: string) => (
@@ -135,6 +155,19 @@ export function GearForm({ gear, onDone }: { gear?: Gear; onDone: (created?: { i
           <Button type="button" variant="secondary" onClick={() => onDone()}>Cancel</Button>
         </div>
       </form>
+      {editing ? (
+        <ConfirmDialog
+          open={pending !== null}
+          title={`Void the clearance of point ${gear.pointLabel ?? gear.pointId}?`}
+          confirmLabel="Save and void the clearance"
+          busy={updateGear.isPending}
+          onCancel={() => setPending(null)}
+          onConfirm={() => pending && saveEdit(pending)}
+        >
+          <p>{gear.serial} is a fixed link in the load path of point {gear.pointLabel ?? gear.pointId}. New ratings change what its clearance vouched for{holder.data?.status.clearedUntil ? ` (cleared until ${fmt?.when(holder.data.status.clearedUntil) ?? holder.data.status.clearedUntil})` : ''}.</p>
+          <p className="mt-2">Once saved, the point is blocked and no class can be booked on it until a rigger inspects it and clears it again.</p>
+        </ConfirmDialog>
+      ) : null}
     </Card>
   );
 }

@@ -6,6 +6,7 @@ import { isApparatusKind, type BridleLeg, type LoadingMode, type Structure } fro
 import { paths } from '../../../lib/paths';
 import { modeLabels, structureLabels, type StudioFormat } from '../format';
 import { GearStatusBadge } from './gear-status-badge';
+import { gearStandingAt } from '../../../../shared/clearance/gear-standing';
 
 export interface LinkShape {
   gear: Gear;
@@ -60,7 +61,7 @@ export function LinkCard({ link, index, fmt, children, problem }: { link: LinkSh
           </p>
           {gear.maker || gear.model ? <p className="text-sm text-muted">{[gear.maker, gear.model].filter(Boolean).join(' ')}</p> : null}
         </div>
-        {gear.status !== 'in_service' ? <GearStatusBadge status={gear.status} /> : null}
+        {gearStandingAt(gear, new Date()) !== 'in_service' ? <GearStatusBadge gear={gear} /> : null}
       </div>
       <p className="mt-1 text-sm">{ratingsLine(gear, fmt)}{gear.multiDirectional ? ' · rated multi-directional' : ''}</p>
       <p className="text-sm text-muted">Loaded: {flags.join('; ')}</p>

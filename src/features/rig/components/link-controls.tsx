@@ -1,6 +1,6 @@
 import { useId, useState } from 'react';
 import { ArrowDown, ArrowUp, Replace, Trash2 } from 'lucide-react';
-import { describeGear } from '../../../../shared/rigging';
+import { describeGear, gearKindLabels } from '../../../../shared/rigging';
 import type { Gear } from '../../../../shared/schemas/rig';
 import { loadingModes, type BridleLeg, type LoadingMode } from '../../../../shared/schemas/vocabulary';
 import { Button } from '../../../components/ui/button';
@@ -45,7 +45,10 @@ export function LinkControls({
   const name = describeGear(link.gear);
   const [swapId, setSwapId] = useState('');
   const swapFieldId = useId();
-  const swapFor = pool.find((g) => String(g.id) === swapId);
+  // Only an item of the same kind takes a link's place: a beam clamp is never swapped for a carabiner or a fabric.
+  const candidates = pool.filter((g) => g.kind === link.gear.kind);
+  const swapFor = candidates.find((g) => String(g.id) === swapId);
+  const kindWord = (gearKindLabels[link.gear.kind] ?? link.gear.kind).toLowerCase();
   return (
     <div className="space-y-3">
       <div className="grid gap-3 sm:grid-cols-3">
@@ -89,9 +92,9 @@ export function LinkControls({
         </Button>
         <div className="flex items-end gap-2">
           <div className="w-56">
-            <SelectField id={swapFieldId} label={`Swap ${name} for`} value={swapId} onChange={(e) => setSwapId(e.target.value)} disabled={pool.length === 0}>
-              <option value="">{pool.length === 0 ? 'No spare gear' : 'Pick a gear item'}</option>
-              {pool.map((g) => <option key={g.id} value={g.id}>{describeGear(g)}</option>)}
+            <SelectField id={swapFieldId} label={`Swap ${name} for`} value={swapId} onChange={(e) => setSwapId(e.target.value)} disabled={candidates.length === 0}>
+              <option value="">{candidates.length === 0 ? `No spare ${kindWord} in service` : `Pick a spare ${kindWord}`}</option>
+              {candidates.map((g) => <option key={g.id} value={g.id}>{describeGear(g)}</option>)}
             </SelectField>
           </div>
           <Button type="button" variant="secondary" disabled={!swapFor} onClick={() => { if (swapFor) { onSwap(swapFor); setSwapId(''); } }}>

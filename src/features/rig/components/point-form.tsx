@@ -1,4 +1,6 @@
+import { useState } from 'react';
 import { useForm } from 'react-hook-form';
+import { ConfirmDialog } from '../../../components/ui/confirm';
 import { toast } from 'sonner';
 import { createPointSchema, updatePointSchema, type CreatePoint, type Point, type Room, type UpdatePoint } from '../../../../shared/schemas/rig';
 import { apparatusKinds, structures, type ApparatusKind, type ForceUnit, type Structure } from '../../../../shared/schemas/vocabulary';
@@ -65,12 +67,19 @@ export function PointForm({ rooms, roomId, point, onDone }: { rooms: Room[]; roo
     applyServerErrors(form.setError, err);
     toast.error(errorMessage(err));
   };
+  const [pending, setPending] = useState<UpdatePoint | null>(null);
+  const clearanceInForce = editing && point.lastClearedAt !== null && point.clearanceVoidedAt === null;
+  const saveEdit = (patch: UpdatePoint) => {
+    if (!editing) return;
+    updatePoint.mutate({ id: point.id, ...patch }, { onSuccess: () => { setPending(null); toast.success(`Point ${point.label} saved.`); onDone(); }, onError: (err) => { setPending(null); onError(err); } });
+  };
   const submit = form.handleSubmit((body) => {
     if (editing) {
       const patch: UpdatePoint = { ...body };
-      // An unchanged rating is not sent: a change voids the clearance.
+      // An unchanged rating is not sent: a change voids the clearance, so it is confirmed first while one is in force.
       if (patch.structuralRatingKn === point.structuralRatingKn) delete patch.structuralRatingKn;
-      updatePoint.mutate({ id: point.id, ...patch }, { onSuccess: () => { toast.success(`Point ${point.label} saved.`); onDone(); }, onError });
+      if (patch.structuralRatingKn !== undefined && clearanceInForce) setPending(patch);
+      else saveEdit(patch);
     } else {
       createPoint.mutate(body as CreatePoint, { onSuccess: (p) => { toast.success(`Point ${p.label} added. Give it a load path next.`); onDone(); }, onError });
     }
@@ -119,6 +128,19 @@ export function PointForm({ rooms, roomId, point, onDone }: { rooms: Room[]; roo
           <Button type="button" variant="secondary" onClick={onDone}>Cancel</Button>
         </div>
       </form>
+      {editing ? (
+        <ConfirmDialog
+          open={pending !== null}
+          title={`Void the clearance of point ${point.label}?`}
+          confirmLabel="Save and void the clearance"
+          busy={updatePoint.isPending}
+          onCancel={() => setPending(null)}
+          onConfirm={() => pending && saveEdit(pending)}
+        >
+          <p>The structural rating goes from {fmt?.force(point.structuralRatingKn) ?? `${point.structuralRatingKn} kN`} to {pending?.structuralRatingKn !== undefined ? fmt?.force(pending.structuralRatingKn) ?? `${pending.structuralRatingKn} kN` : 'a new figure'}. That changes what the clearance{point.status.clearedUntil ? ` (cleared until ${fmt?.when(point.status.clearedUntil) ?? point.status.clearedUntil})` : ''} vouched for.</p>
+          <p className="mt-2">Once saved, the point is blocked and no class can be booked on it until a rigger inspects it and clears it again.</p>
+        </ConfirmDialog>
+      ) : null}
     </Card>
   );
 }

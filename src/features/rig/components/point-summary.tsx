@@ -1,5 +1,5 @@
 import { Link } from 'react-router-dom';
-import { ChevronRight } from 'lucide-react';
+import { ChevronRight, OctagonX } from 'lucide-react';
 import type { Point } from '../../../../shared/schemas/rig';
 import { StatusBadge } from '../../../components/ui/status-badge';
 import { paths } from '../../../lib/paths';
@@ -14,22 +14,18 @@ export function clearanceWords(point: Point, fmt: StudioFormat): string {
   return point.lastClearedAt ? 'No clearance in force' : 'Never cleared';
 }
 
-/** One point in the register: label, status word and icon, the first reason, and the clearance date. */
+/** One point in the register: label, status word and icon, every reason, and the clearance date. */
 export function PointSummary({ point, fmt }: { point: Point; fmt: StudioFormat }) {
-  const first = point.status.reasons[0];
-  const more = point.status.reasons.length - 1;
   return (
     <li className="border-b border-line last:border-0">
       <Link to={paths.point(point.id)} className="grid min-h-11 gap-x-4 gap-y-1 px-4 py-3 hover:bg-pine-50 sm:grid-cols-[8rem_9rem_1fr_auto] sm:items-center">
         <span className="text-lg font-semibold text-ink">{point.label}</span>
         <span><StatusBadge status={point.status.status} /></span>
         <span className="min-w-0 text-sm">
-          {first ? (
-            <span className="block text-ink">
-              {first.message}
-              {more > 0 ? <span className="text-muted"> (and {more} more)</span> : null}
-            </span>
-          ) : null}
+          {/* Every reason, each on its line: a rule violation must not hide behind "awaits clearance". */}
+          {point.status.reasons.map((r, i) => (
+            <span key={`${r.code}-${i}`} className="flex items-start gap-1.5 text-ink"><OctagonX className="mt-0.5 size-3.5 shrink-0 text-stop-700" aria-hidden />{r.message}</span>
+          ))}
           <span className="block text-muted">{clearanceWords(point, fmt)}</span>
           <span className="block text-xs text-muted">
             {structureLabels[point.structure]} · {point.apparatus.length ? point.apparatus.map(apparatusLabel).join(', ') : 'no apparatus allowed yet'}

@@ -5,11 +5,15 @@ import { CircleCheck, ClipboardCheck, Clock, TriangleAlert } from 'lucide-react'
 import { StatusBadge } from '../../../components/ui/status-badge';
 import { Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
+import { pointInspectionHelps } from '../../../../shared/clearance/gear-standing';
+import { gearKindLabels } from '../../../../shared/rigging/strength';
 import type { TodayPoint } from '../api';
 import { PointCheckIn } from '../../students/components/point-check-in';
 
 // The checklist loads when a check is opened, so the board's first paint on a phone stays small.
 const PreuseCheck = lazy(() => import('./preuse-check').then((m) => ({ default: m.PreuseCheck })));
+
+const gearWord = (g: { kind: string; serial: string }) => `${(gearKindLabels[g.kind as keyof typeof gearKindLabels] ?? g.kind).toLowerCase()} ${g.serial}`;
 
 const big = 'flex min-h-12 items-center justify-center gap-2 rounded-lg px-4 py-2 text-base font-medium';
 
@@ -51,7 +55,7 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
         )}
       </p>
       {sessionId !== undefined ? <PointCheckIn sessionId={sessionId} pointId={point.pointId} /> : null}
-      {blocked ? <p className="mt-2 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; a rigger has to clear the point first.</p> : null}
+      {blocked ? <p className="mt-2 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; {point.gearToInspect.length && !pointInspectionHelps(point) ? `a rigger has to inspect ${point.gearToInspect.map(gearWord).join(' and ')} first.` : 'a rigger has to clear the point first.'}</p> : null}
       {checking ? (
         <Suspense fallback={<div className="mt-4"><Loading label="Opening the pre-use check…" /></div>}>
           <PreuseCheck pointId={point.pointId} label={point.label} sessionId={sessionId} onClose={close} onDone={close} />
@@ -65,7 +69,15 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
               <span className="sr-only"> for {point.label}</span>
             </button>
           ) : null}
-          {canInspect && blocked ? (
+          {canInspect && blocked
+            ? point.gearToInspect.map((g) => (
+                // A quarantined item goes back to service through its own after-incident inspection; inspecting the point would not release it.
+                <Link key={g.gearId} to={paths.inspectGear(g.gearId)} className={`${big} bg-pine-700 text-white hover:bg-pine-800`}>
+                  <ClipboardCheck className="size-5" aria-hidden /> Inspect {gearWord(g)}<span className="sr-only"> ({g.inspection === 'after_incident' ? 'after-incident inspection' : 'its own inspection'})</span>
+                </Link>
+              ))
+            : null}
+          {canInspect && blocked && pointInspectionHelps(point) ? (
             <Link to={paths.inspectPoint(point.pointId)} className={`${big} bg-pine-700 text-white hover:bg-pine-800`}>
               <ClipboardCheck className="size-5" aria-hidden /> Inspect and clear<span className="sr-only"> {point.label}</span>
             </Link>
