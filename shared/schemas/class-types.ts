@@ -15,6 +15,16 @@ export const createClassTypeSchema = z.object({
 });
 export type CreateClassType = z.infer<typeof createClassTypeSchema>;
 
+/**
+ * Rename, retire (`active: false`) or bring back a class type. A retired type cannot be picked for
+ * a new booking; its classes already on the calendar keep it and show its name.
+ */
+export const updateClassTypeSchema = z
+  .object({ name: labelText(80, 'Enter a class name').optional(), active: z.boolean({ message: 'Say whether the class type is in use' }).optional() })
+  .strict()
+  .refine((v) => v.name !== undefined || v.active !== undefined, { message: 'Nothing to change: send a new name or whether it is in use' });
+export type UpdateClassType = z.infer<typeof updateClassTypeSchema>;
+
 export const classTypeSchema = z.object({
   id: z.number(),
   name: z.string(),
