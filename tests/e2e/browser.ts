@@ -97,3 +97,25 @@ export async function createFabricPoint(page: Page, baseUrl: string, { roomId, l
   }
   return point.id;
 }
+
+/**
+ * Console errors and uncaught page errors of every page opened in a browser context, each with the
+ * page's address. Call once right after `openBrowser`; a test then asserts the list is empty.
+ */
+export function watchConsole(context: BrowserContext): string[] {
+  const errors: string[] = [];
+  const watch = (p: Page) => {
+    p.on('console', (m) => { if (m.type() === 'error') errors.push(`${p.url()}: ${m.text()}`); });
+    p.on('pageerror', (e) => errors.push(`${p.url()}: ${e.message}`));
+  };
+  context.pages().forEach(watch);
+  context.on('page', watch);
+  return errors;
+}
+
+/**
+ * Errors a test caused on purpose, not faults of a page: the browser logs every 4xx answer as a
+ * console error ("Failed to load resource: … 409"), which a test of a refusal expects.
+ */
+export const withoutRefusals = (errors: string[], statuses: number[]) =>
+  errors.filter((e) => !statuses.some((s) => e.includes(`Failed to load resource: the server responded with a status of ${s}`)));
