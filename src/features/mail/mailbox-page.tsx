@@ -55,13 +55,13 @@ export function MailboxPage() {
           <EmptyState title="No e-mail caught yet">Reminders, alerts and digests appear here as they are sent.</EmptyState>
         )
       ) : (
-        <ul className="space-y-2">
+        <ul className="space-y-2" aria-label="Caught messages">
           {box.data.map((m, i) => (
             <li key={i}>
               <Card className="p-0">
                 <button className="flex w-full flex-wrap items-baseline justify-between gap-2 px-5 py-3 text-left" aria-expanded={open === i} onClick={() => setOpen(open === i ? null : i)}>
-                  <span className="font-medium">{m.kind ? <span className="mr-2 text-sm font-normal text-muted">{outboxKindLabels[m.kind]}:</span> : null}{m.subject || '(no subject)'}</span>
-                  <span className="text-sm text-muted">to {m.to.join(', ')} · <time dateTime={m.receivedAt}>{formatInZone(m.receivedAt, timeZone)}</time></span>
+                  <span className="font-medium">{m.subject || '(no subject)'}</span>
+                  <span className="text-sm text-muted">{m.kind ? `${outboxKindLabels[m.kind]} · ` : ''}to {m.to.join(', ')} · <time dateTime={m.receivedAt}>{formatInZone(m.receivedAt, timeZone)}</time></span>
                 </button>
                 {open === i ? <MessageBody m={m} /> : null}
               </Card>

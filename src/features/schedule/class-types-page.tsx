@@ -94,7 +94,7 @@ function TypeRow({ type }: { type: ClassType }) {
       },
     );
   return (
-    <tr className="border-b border-line align-top last:border-0">
+    <tr className="border-b border-line align-middle last:border-0">
       <td className="px-4 py-3 font-medium">
         {renaming ? <RenameForm type={type} onDone={() => setRenaming(false)} /> : type.name}
       </td>
