@@ -28,7 +28,8 @@ async function as(email: string, viewport: { width: number; height: number }) {
 /** Opens a page and waits until its data is in: no request running, no "Loading…" left. */
 async function visit(page: Page, path: string) {
   await page.goto(`${baseUrl}${path}`);
-  await page.waitForLoadState('networkidle');
+  // Pages that poll never go quiet for long: wait a little for the network, then for the content.
+  await page.waitForLoadState('networkidle', { timeout: 5_000 }).catch(() => undefined);
   await page.getByText(/^Loading/).first().waitFor({ state: 'hidden', timeout: 15_000 }).catch(() => undefined);
   await page.locator('h1').first().waitFor();
   expect(await page.getByText('There is no page at this address').count(), path).toBe(0);
@@ -53,7 +54,7 @@ async function somePointAndGear(page: Page) {
 }
 
 describe('a screenshot of every page at its role’s width', () => {
-  it('the sign-in page on a phone and at the desk', async () => {
+  it('the sign-in page on a phone and at the desk', { timeout: 120_000 }, async () => {
     for (const [name, viewport] of [['phone', PHONE], ['desk', DESKTOP]] as const) {
       const context = await openBrowser(viewport);
       contexts.push(context);
@@ -68,23 +69,23 @@ describe('a screenshot of every page at its role’s width', () => {
 
   it('the instructor’s pages on a phone', async () => {
     await walk('instructor@loftwise.test', 'instructor', PHONE, async () => ['/today', '/schedule', '/rig', '/faults', '/faults/new', '/account']);
-  });
+  }, 240_000);
 
   it('the desk’s pages at 1366 wide', async () => {
     await walk('reception@loftwise.test', 'reception', DESKTOP, async () => ['/today', '/schedule', '/class-types', '/rig', '/faults', '/staff', '/account']);
-  });
+  }, 240_000);
 
   it('the rigger’s pages on a tablet', async () => {
     await walk('rigger@loftwise.test', 'rigger', TABLET, async (page) => {
       const { pointId, gearId } = await somePointAndGear(page);
       return ['/today', '/schedule', '/rig', `/rig/points/${pointId}`, '/rig/gear', `/rig/gear/${gearId}`, '/rig/labels', '/inspections', '/faults', '/account'];
     });
-  });
+  }, 240_000);
 
   it('the owner’s pages at 1366 wide', async () => {
     await walk('owner@loftwise.test', 'owner', DESKTOP, async (page) => {
       const { pointId } = await somePointAndGear(page);
       return ['/today', '/schedule', '/class-types', '/rig', `/rig/points/${pointId}`, '/rig/gear', '/inspections', '/faults', '/staff', '/settings', '/mailbox', '/audit', '/account'];
     });
-  });
+  }, 240_000);
 });
