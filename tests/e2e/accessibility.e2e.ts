@@ -134,7 +134,7 @@ describe('axe finds nothing serious or critical on any page', () => {
       }
       await page.close();
       expect(problems.join('\n'), `\n${problems.join('\n')}`).toBe('');
-    }, 180_000);
+    }, 300_000);
   }
 });
 
