@@ -127,7 +127,7 @@ export async function deliverDue(ctx: MailCycleContext, mailer: Mailer, clock: C
     }
     let error: { message: string; serverDown: boolean } | null = null;
     try {
-      await mailer.send({ messageId: outboxMessageId(m, ctx.appUrl), ...mail });
+      await mailer.send({ messageId: outboxMessageId(m, ctx.appUrl), kind: m.kind, ...mail });
     } catch (err) {
       const code = (err as { code?: unknown } | null)?.code;
       error = { message: err instanceof Error ? err.message : String(err), serverDown: typeof code === 'string' && SERVER_DOWN.has(code) };

@@ -10,6 +10,8 @@ export interface CaughtMessage {
   text: string;
   html: string;
   receivedAt: string;
+  /** The X-Loftwise-Kind header (the outbox kind), null for mail from elsewhere. */
+  kind: string | null;
 }
 
 /** What the Mailbox page reads: the catcher itself, or (several processes) the primary's through IPC. */
@@ -55,6 +57,7 @@ export async function startFakeSmtp(port = 0, options: { keep?: number } = {}): 
             text: mail.text ?? '',
             html: typeof mail.html === 'string' ? mail.html : '',
             receivedAt: new Date().toISOString(),
+            kind: typeof mail.headers.get('x-loftwise-kind') === 'string' ? (mail.headers.get('x-loftwise-kind') as string) : null,
           });
           caught.length = Math.min(caught.length, keep);
           callback();

@@ -8,6 +8,8 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html: string;
+  /** The outbox kind, sent as an X-Loftwise-Kind header so the Mailbox can filter what it caught. */
+  kind?: string;
 }
 
 export interface Mailer {
@@ -40,7 +42,7 @@ export function smtpMailer(smtpUrl: string, from: string): Mailer {
   });
   return {
     async send(mail) {
-      await transport.sendMail({ from, messageId: mail.messageId, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html });
+      await transport.sendMail({ from, messageId: mail.messageId, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html, ...(mail.kind ? { headers: { 'X-Loftwise-Kind': mail.kind } } : {}) });
     },
     close: () => transport.close(),
   };

@@ -1,4 +1,4 @@
-import { Anchor, CalendarDays, ClipboardCheck, Contact, Mail, ScrollText, Settings, Sun, TriangleAlert, Users } from 'lucide-react';
+import { Anchor, CalendarDays, ClipboardCheck, Contact, Mail, ScrollText, Settings, Shapes, Sun, TriangleAlert, Users } from 'lucide-react';
 import type { Role } from '../../shared/schemas/vocabulary';
 import { paths } from '../lib/paths';
 
@@ -17,6 +17,7 @@ export const navItems: NavItem[] = [
   { to: paths.inspections, label: 'Inspections', Icon: ClipboardCheck, roles: ['owner', 'rigger'] },
   { to: paths.faults, label: 'Faults', Icon: TriangleAlert, roles: ['owner', 'reception', 'instructor', 'rigger'] },
   { to: paths.students, label: 'Students', Icon: Contact, roles: ['owner', 'reception', 'instructor'] },
+  { to: paths.classTypes, label: 'Class types', Icon: Shapes, roles: ['owner', 'reception'] },
   { to: paths.staff, label: 'Staff', Icon: Users, roles: ['owner', 'reception'] },
   { to: paths.settings, label: 'Settings', Icon: Settings, roles: ['owner'] },
   { to: paths.mailbox, label: 'Mailbox', Icon: Mail, roles: ['owner'] },

@@ -41,6 +41,7 @@ export const routes: RouteObject[] = [
       { path: paths.inspections, element: page(() => import('./routes/inspections/inspections-route')) },
       { path: `${paths.faults}/*`, element: page(() => import('./routes/faults/faults-route')) },
       { path: `${paths.students}/*`, element: page(() => import('./routes/students/students-route')) },
+      { path: paths.classTypes, element: page(() => import('./routes/class-types/class-types-route')) },
       { path: paths.staff, element: page(() => import('./routes/staff/staff-route')) },
       { path: paths.settings, element: page(() => import('./routes/settings/settings-route')) },
       { path: paths.account, element: page(() => import('./routes/account/account-route')) },

@@ -21,6 +21,7 @@ export const paths = {
   student: (id: number | string) => `/students/${id}`,
   /** The schedule on a class's week with its drawer open. */
   scheduleClass: (id: number | string, day?: string) => `/schedule?${day ? `date=${day}&view=week&` : ''}class=${id}`,
+  classTypes: '/class-types',
   staff: '/staff',
   settings: '/settings',
   mailbox: '/mailbox',

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
-import { apiCall, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs } from './browser';
+import { apiCall, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, pageErrors, withoutRefusals } from './browser';
 
 /*
  * The accessibility gate (PRODUCT.md §9: keyboard reachable, WCAG AA contrast): axe-core on every
@@ -26,9 +26,9 @@ const visits = (): Visit[] => [
   {
     role: 'owner',
     viewport: DESKTOP,
-    pages: ['/today', '/schedule', '/rig', '/rig/gear', `/rig/points/${ids.point}`, `/rig/gear/${ids.gear}`, '/rig/labels', '/inspections', '/faults', '/faults/new', '/staff', '/settings', '/mailbox', '/audit'],
+    pages: ['/today', '/schedule', '/rig', '/rig/gear', `/rig/points/${ids.point}`, `/rig/gear/${ids.gear}`, '/rig/labels', '/inspections', '/faults', '/faults/new', '/staff', '/class-types', '/settings', '/mailbox', '/audit'],
   },
-  { role: 'reception', viewport: DESKTOP, pages: ['/today', '/schedule', '/rig', '/faults', '/staff'] },
+  { role: 'reception', viewport: DESKTOP, pages: ['/today', '/schedule', '/class-types', '/rig', '/faults', '/staff'] },
   { role: 'instructor', viewport: PHONE, pages: ['/today', '/schedule', '/rig', '/faults'] },
   { role: 'instructor', viewport: DESKTOP, pages: ['/today', '/schedule', '/rig', '/faults'] },
   { role: 'rigger', viewport: DESKTOP, pages: ['/today', '/rig', '/rig/gear', '/inspections', '/faults', '/schedule'] },
@@ -134,7 +134,7 @@ describe('axe finds nothing serious or critical on any page', () => {
       }
       await page.close();
       expect(problems.join('\n'), `\n${problems.join('\n')}`).toBe('');
-    }, 180_000);
+    }, 300_000);
   }
 });
 
@@ -258,5 +258,11 @@ describe('the keyboard reaches and works the main actions', () => {
     await page.waitForURL(`**${href}`);
     await settled(page);
     await shot(page, 'a11y-keyboard-rig-point');
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

@@ -12,14 +12,27 @@ export const DESKTOP = { width: 1366, height: 900 };
 // Flags that keep Debian's Chromium off the closed network and runnable as root.
 const FLAGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
 
+/**
+ * Console errors and uncaught page errors of every page any `openBrowser` context of this test file
+ * opened, each with its address. A file ends with `expect(withoutRefusals(pageErrors, […])).toEqual([])`.
+ */
+export const pageErrors: string[] = [];
+
 export async function openBrowser(viewport = DESKTOP): Promise<BrowserContext> {
   mkdirSync(SCREENSHOTS, { recursive: true });
-  return chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'loftwise-chromium-')), {
+  const context = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'loftwise-chromium-')), {
     executablePath: CHROMIUM,
     headless: true,
     args: FLAGS,
     viewport,
   });
+  const watch = (p: Page) => {
+    p.on('console', (m) => { if (m.type() === 'error') pageErrors.push(`${p.url()}: ${m.text()}`); });
+    p.on('pageerror', (e) => pageErrors.push(`${p.url()}: ${e.message}`));
+  };
+  context.pages().forEach(watch);
+  context.on('page', watch);
+  return context;
 }
 
 export async function signInAs(page: Page, baseUrl: string, email: string, password = DEMO_PASSWORD) {
@@ -97,3 +110,25 @@ export async function createFabricPoint(page: Page, baseUrl: string, { roomId, l
   }
   return point.id;
 }
+
+/**
+ * Console errors and uncaught page errors of every page opened in a browser context, each with the
+ * page's address. Call once right after `openBrowser`; a test then asserts the list is empty.
+ */
+export function watchConsole(context: BrowserContext): string[] {
+  const errors: string[] = [];
+  const watch = (p: Page) => {
+    p.on('console', (m) => { if (m.type() === 'error') errors.push(`${p.url()}: ${m.text()}`); });
+    p.on('pageerror', (e) => errors.push(`${p.url()}: ${e.message}`));
+  };
+  context.pages().forEach(watch);
+  context.on('page', watch);
+  return errors;
+}
+
+/**
+ * Errors a test caused on purpose, not faults of a page: the browser logs every 4xx answer as a
+ * console error ("Failed to load resource: … 409"), which a test of a refusal expects.
+ */
+export const withoutRefusals = (errors: string[], statuses: number[]) =>
+  errors.filter((e) => !statuses.some((s) => e.includes(`Failed to load resource: the server responded with a status of ${s}`)));

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs, studioDate, uniqueTag } from './browser';
+import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs, studioDate, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 /*
  * PRODUCT.md §4.7 in a real browser: a hoop class booked on a point with a fabric mounted shows
@@ -127,5 +127,11 @@ describe('apparatus changeovers in the browser', () => {
     await expect.poll(() => row.innerText(), { timeout: 15_000 }).toContain('Changeover needed: fabric');
     expect(await row.innerText()).toContain('Can take this class');
     await shot(desk, 'changeover-picker');
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

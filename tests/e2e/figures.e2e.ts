@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag } from './browser';
+import { apiOf, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 // Issue 11: figures shown honestly (PRODUCT.md §4.8) and a policy change confirmed after its
 // effect is shown (§4.9). Each test makes its own rows; the studio policy is put back as it was.
@@ -212,5 +212,11 @@ describe('a policy change', () => {
       expect(res.ok()).toBe(true);
       await page.close();
     }
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

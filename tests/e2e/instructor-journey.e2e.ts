@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { openBrowser, PHONE, shotScreen, signInAs, TINY_PNG } from './browser';
+import { openBrowser, PHONE, shot, shotScreen, signInAs, TINY_PNG } from './browser';
 
 /*
  * The instructor on a phone (issue 14; JOURNEYS.md Instructor 1–3) at 390 × 844: Back during
@@ -68,6 +68,23 @@ describe('the instructor reports a fault on a phone without losing it', () => {
     await dialog.waitFor({ state: 'hidden' });
     expect(new URL(page.url()).pathname).toBe('/today');
     expect(await page.getByRole('dialog', { name: 'Discard this fault report?' }).isVisible()).toBe(false);
+  });
+
+  it('shows each class within one phone screen, and the caution once, below the classes', async () => {
+    await page.goto(`${baseUrl}/today`);
+    const classes = page.getByRole('region', { name: 'Today’s classes' }).getByRole('article');
+    await classes.first().waitFor();
+    const count = await classes.count();
+    expect(count).toBeGreaterThanOrEqual(2);
+    for (let i = 0; i < count; i++) {
+      const box = await classes.nth(i).boundingBox();
+      expect(box!.height, `class ${i + 1} is ${box!.height} px tall`).toBeLessThanOrEqual(PHONE.height);
+    }
+    const caution = page.getByTestId('safety-caution');
+    expect(await caution.count()).toBe(1);
+    const [first, cautionBox] = [await classes.first().boundingBox(), await caution.boundingBox()];
+    expect(cautionBox!.y).toBeGreaterThan(first!.y + first!.height);
+    await shot(page, 'instructor-today');
   });
 
   it('showed no console error on any of these pages', () => {

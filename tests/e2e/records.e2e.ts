@@ -4,7 +4,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, openBrowser, shot, signInAs, uniqueTag } from './browser';
+import { apiOf, createFabricPoint, openBrowser, shot, signInAs, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 // The owner's records: the audit page's filters, and the printable inspection log on paper.
 const baseUrl = inject('baseUrl');
@@ -134,5 +134,11 @@ describe('the inspection log on screen and on paper', () => {
     expect(text).toMatch(/Printed \d+ \w+ \d{4}/);
     expect(text).not.toContain('Report a fault');
     expect(text).not.toContain('Edit load path');
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

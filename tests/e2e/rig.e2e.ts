@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
 import { fixedToward, formatFactor, formatForce, formatLoad } from '../../shared/rigging';
-import { apiOf, DESKTOP, openBrowser, shot, signInAs, uniqueTag } from './browser';
+import { apiOf, DESKTOP, openBrowser, shot, signInAs, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 // The rigger's journeys on the rig pages (JOURNEYS.md, Rigger 4 and 5), at a desktop's width.
 // Every test makes its own room, points and gear, so nothing here leans on another file's data.
@@ -340,5 +340,11 @@ describe('the rigger builds and checks load paths', () => {
     expect(await sheet.getByRole('img', { name: /^QR code for / }).count()).toBe(points.length);
     await shot(page, 'rig-12-labels');
     await page.close();
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

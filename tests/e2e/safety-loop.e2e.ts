@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
 import { TZDate } from '@date-fns/tz';
-import { apiOf, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, TINY_PNG, uniqueTag } from './browser';
+import { apiOf, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, TINY_PNG, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 // The safety loop (JOURNEYS.md, Instructor 1–3 and Rigger 2–3): a rigger clears a lapsed point; an
 // instructor on a phone reports a fault with a photo; the rigger resolves it, re-inspects and clears;
@@ -261,5 +261,11 @@ describe('the safety loop, from a lapsed point to a fault and back to cleared', 
     expect(await card.innerText()).toContain('Cleared');
     expect(await card.getByRole('button', { name: `Check again for ${checked.label}` }).isVisible()).toBe(true);
     await shot(instructor, 'loop-12-phone-preuse-recorded');
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

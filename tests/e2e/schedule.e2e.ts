@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
-import { apiCall, createFabricPoint, DEMO_PASSWORD, DESKTOP, openBrowser, shot, shotScreen, signInAs, studioDate, uniqueTag } from './browser';
+import { apiCall, createFabricPoint, DEMO_PASSWORD, DESKTOP, openBrowser, shot, shotScreen, signInAs, studioDate, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 /*
  * The reception journey (JOURNEYS.md, Reception 1–3; PRODUCT.md §4.4) on the desk's screen, in a
@@ -357,5 +357,11 @@ describe('an instructor filters the schedule by instructor', () => {
       await instructor.close();
       await owner.close();
     }
+  });
+});
+
+describe('the browser console', () => {
+  it('showed no error on any page this file opened', () => {
+    expect(withoutRefusals(pageErrors, [])).toEqual([]);
   });
 });

@@ -66,6 +66,13 @@ describe('access declarations', () => {
     expect(ctx.app.locals.routes.filter((r) => r.access === 'signed_in').every((r) => !allows(r.access, 'student'))).toBe(true);
   });
 
+  it('lets the desk and the owner add, rename and retire class types, and everyone read them', () => {
+    const access = (key: string) => ctx.app.locals.routes.find((r) => `${r.method} ${r.path}` === key)?.access;
+    expect(access('post /api/class-types')).toEqual(['reception', 'owner']);
+    expect(access('patch /api/class-types/:id')).toEqual(['reception', 'owner']);
+    expect(access('get /api/class-types')).toBe('signed_in');
+  });
+
   it('lets riggers and instructors mount an apparatus (a changeover), and no one else', () => {
     const access = (key: string) => ctx.app.locals.routes.find((r) => `${r.method} ${r.path}` === key)?.access;
     expect(access('post /api/points/:id/apparatus')).toEqual(['rigger', 'instructor']);

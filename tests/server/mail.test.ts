@@ -779,6 +779,61 @@ describe('a move undone within the undo window (the desk’s Undo after a drag)'
   });
 });
 
+describe('the Mailbox filters: by kind and by recipient', () => {
+  async function enqueueSome() {
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    const m = (kind: 'digest' | 'fault' | 'reminder', key: string, to: string[]) => ({ kind, uniqueKey: key, to, subject: `${kind} ${key}`, text: 'Body', html: '<p>Body</p>' });
+    await ctx.db.transaction(async (trx) => {
+      await outbox.enqueue(trx, m('digest', 'd1', ['rigger@mail.test']));
+      await outbox.enqueue(trx, m('fault', 'f1', ['rigger@mail.test', 'second_rigger@mail.test']));
+      await outbox.enqueue(trx, m('reminder', 'r1', ['ada@mail.test']));
+      await outbox.enqueue(trx, m('fault', 'f2', ['secondXrigger@mail.test']));
+    });
+  }
+  const subjects = (body: { items: Array<{ subject: string }> }) => body.items.map((i) => i.subject);
+
+  it('GET /api/outbox filters on the server by kind and by one recipient (any case), through the pages', async () => {
+    await enqueueSome();
+    const owner = await as(ctx, 'owner');
+    expect(subjects((await owner.get('/api/outbox?kind=fault')).body)).toEqual(['fault f2', 'fault f1']);
+    expect(subjects((await owner.get('/api/outbox?to=Rigger@Mail.test')).body)).toEqual(['fault f1', 'digest d1']);
+    expect(subjects((await owner.get('/api/outbox?kind=fault&to=rigger@mail.test')).body)).toEqual(['fault f1']);
+    // An underscore in the address is a letter, not a LIKE wildcard.
+    expect(subjects((await owner.get('/api/outbox?to=second_rigger@mail.test')).body)).toEqual(['fault f1']);
+    expect(subjects((await owner.get('/api/outbox?kind=reminder&to=rigger@mail.test')).body)).toEqual([]);
+    const first = await owner.get('/api/outbox?to=rigger@mail.test&limit=1');
+    expect(subjects(first.body)).toEqual(['fault f1']);
+    const next = await owner.get(`/api/outbox?to=rigger@mail.test&limit=1&cursor=${first.body.nextCursor}`);
+    expect(subjects(next.body)).toEqual(['digest d1']);
+    expect(next.body.nextCursor).toBeNull();
+  });
+
+  it('answers 400 in plain words for an unknown kind or a recipient that is no address', async () => {
+    const owner = await as(ctx, 'owner');
+    const bad = await owner.get('/api/outbox?kind=spam');
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.details.fields.kind).toBe('Pick a kind of message from the list');
+    expect((await owner.get(`/api/outbox?to=${'a'.repeat(300)}`)).status).toBe(400);
+    expect((await owner.get('/api/dev/mailbox?kind=spam')).status).toBe(400);
+  });
+
+  it('GET /api/dev/mailbox keeps what the catcher received of that kind and for that recipient', async () => {
+    await ctx.close();
+    ctx = await createTestApp({ now: '2026-12-01T10:00:00Z', deps: { mailer, fakeSmtp: fake } });
+    await enqueueSome();
+    await worker().runOnce();
+    expect(received()).toHaveLength(4);
+    expect(received().map((m) => m.kind)).toEqual(['digest', 'fault', 'reminder', 'fault']);
+    const owner = await as(ctx, 'owner');
+    const faults = await owner.get('/api/dev/mailbox?kind=fault');
+    expect(faults.status).toBe(200);
+    expect(faults.body.map((m: { subject: string }) => m.subject)).toEqual(['fault f2', 'fault f1']);
+    const forRigger = await owner.get('/api/dev/mailbox?to=RIGGER@mail.test');
+    expect(forRigger.body.map((m: { subject: string }) => m.subject)).toEqual(['fault f1', 'digest d1']);
+    expect((await owner.get('/api/dev/mailbox')).body).toHaveLength(4);
+  });
+});
+
 describe('mail templates', () => {
   it('escapes every value in the HTML and loads nothing remote', async () => {
     const mail = sessionChangeMessage({

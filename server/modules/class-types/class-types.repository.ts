@@ -1,6 +1,6 @@
 import type { Db } from '../../db/knex';
 import { valueTaken } from '../../db/queries';
-import type { ClassType, CreateClassType } from '../../../shared/schemas/class-types';
+import type { ClassType, CreateClassType, UpdateClassType } from '../../../shared/schemas/class-types';
 
 interface Row {
   id: number;
@@ -34,7 +34,13 @@ export function classTypesRepository(db: Db) {
       const r = await trx<Row>('class_types').where({ id }).first();
       return r ? toClassType(r) : null;
     },
-    nameTaken: (name: string) => valueTaken(db, 'class_types', 'name', name),
+    nameTaken: (name: string, exceptId?: number) => valueTaken(db, 'class_types', 'name', name, exceptId),
+    async update(id: number, patch: UpdateClassType, trx: Db): Promise<void> {
+      const row: Record<string, unknown> = {};
+      if (patch.name !== undefined) row.name = patch.name;
+      if (patch.active !== undefined) row.active = patch.active;
+      if (Object.keys(row).length) await trx('class_types').where({ id }).update(row);
+    },
     async insert(c: CreateClassType, at: Date, trx: Db = db): Promise<number> {
       const [row] = await trx('class_types')
         .insert({

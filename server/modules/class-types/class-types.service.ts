@@ -3,7 +3,7 @@ import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
-import type { CreateClassType, ClassType } from '../../../shared/schemas/class-types';
+import type { CreateClassType, ClassType, UpdateClassType } from '../../../shared/schemas/class-types';
 import type { Policy } from '../../../shared/schemas/policy';
 import { profileFor } from '../../../shared/clearance';
 import type { ClassTypesRepository } from './class-types.repository';
@@ -27,6 +27,23 @@ export function classTypesService(deps: { db: Db; repo: ClassTypesRepository; au
         const newId = await repo.insert(input, clock.now(), trx);
         await audit.record(trx, { actorId, action: 'class_type.created', entity: 'class_type', entityId: newId, after: input }, clock.now());
         return newId;
+      });
+      return this.get(id);
+    },
+    /** Rename, retire or bring back; a name looking like another type's is refused as on create. */
+    async update(id: number, patch: UpdateClassType, actorId: number) {
+      const before = await this.get(id);
+      if (patch.name !== undefined) {
+        const takenBy = await repo.nameTaken(patch.name, id);
+        if (takenBy) throw conflict('name_taken', takenMessage('Class type', patch.name, takenBy), { fields: { name: takenBy === patch.name ? 'Already used' : `Looks the same as “${takenBy}”` }, existing: takenBy });
+      }
+      const changed = (patch.name !== undefined && patch.name !== before.name) || (patch.active !== undefined && patch.active !== before.active);
+      if (!changed) return before;
+      await writeTransaction(db, async (trx) => {
+        const now = clock.now();
+        await repo.update(id, patch, trx);
+        const action = patch.active === false && before.active ? 'class_type.retired' : patch.active === true && !before.active ? 'class_type.restored' : 'class_type.updated';
+        await audit.record(trx, { actorId, action, entity: 'class_type', entityId: id, before: { name: before.name, active: before.active }, after: patch }, now);
       });
       return this.get(id);
     },

@@ -1,12 +1,10 @@
 import { writeTransaction, type Db } from '../../db/knex';
 import { cutPage, keyset, pageLimit, type Page } from '../../db/keyset';
 
-import { outboxStates } from '../../../shared/schemas/outbox';
+import { outboxStates, type OutboxKind, type StudentOutboxKind } from '../../../shared/schemas/outbox';
 export { outboxStates };
+export type { OutboxKind, StudentOutboxKind };
 export type OutboxState = (typeof outboxStates)[number];
-/** Students' messages (PRODUCT.md §11): each at most once per key, like every other. */
-export type StudentOutboxKind = 'booking_confirmed' | 'waitlist_place_offered' | 'class_moved_student' | 'class_cancelled_student' | 'sign_in_link';
-export type OutboxKind = 'reminder' | 'at_risk' | 'session_change' | 'digest' | 'fault' | StudentOutboxKind;
 
 export interface OutboxRow {
   id: number;
@@ -223,9 +221,12 @@ export function outboxRepository(db: Db) {
     },
 
     /** Newest first, keyset on id (PRODUCT.md §10). */
-    async page(filter: { state?: OutboxState; cursor?: [number]; limit?: number }): Promise<Page<OutboxMessage>> {
+    async page(filter: { state?: OutboxState; kind?: OutboxKind; to?: string; cursor?: [number]; limit?: number }): Promise<Page<OutboxMessage>> {
       const q = db<OutboxRow>('outbox_messages');
       if (filter.state) q.where('state', filter.state);
+      if (filter.kind) q.where('kind', filter.kind);
+      // Recipients are kept as a JSON array of addresses: one of them is the quoted address.
+      if (filter.to) q.whereRaw("LOWER(recipients_json) LIKE ? ESCAPE '\\'", [`%${JSON.stringify(filter.to.toLowerCase()).replace(/[\\%_]/g, (c) => `\\${c}`)}%`]);
       const rows = (await keyset(q, [{ col: 'id', dir: 'desc' }], filter.cursor).limit(pageLimit(filter.limit))) as OutboxRow[];
       const page = cutPage(rows, filter.limit, (r) => [r.id]);
       return { items: page.rows.map(toMessage), nextCursor: page.nextCursor };

@@ -188,7 +188,7 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
     },
 
     /** For the owner's outbox page: newest first; failed ones carry their last error. */
-    async list(filter: { state?: OutboxState; cursor?: [number]; limit?: number }) {
+    async list(filter: { state?: OutboxState; kind?: OutboxKind; to?: string; cursor?: [number]; limit?: number }) {
       const page = await repo.page(filter);
       return { items: page.items.map(({ text: _text, html: _html, ...m }) => m), nextCursor: page.nextCursor };
     },

@@ -353,6 +353,8 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           }
         }
         const classType = await classTypeOrThrow(body.classTypeId, trx);
+        // A retired type keeps its classes already booked, but takes no new ones.
+        if (!classType.active) throw new HttpError(400, 'invalid_request', `“${classType.name}” is retired and takes no new bookings. Bring it back on the Class types page, or pick another.`, { source: 'body', fields: { classTypeId: `“${classType.name}” is retired: pick another class type` } });
         await checkInstructor(body.instructorId, trx);
         if (!(await rig.roomById(body.roomId, trx))) throw new HttpError(400, 'invalid_request', 'That room does not exist.', { source: 'body', fields: { roomId: 'Pick a room' } });
         const bundles = await bundlesFor(body.pointIds, trx);

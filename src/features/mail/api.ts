@@ -1,20 +1,28 @@
 import { infiniteQueryOptions, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../lib/api-client';
-import { outboxMessageSchema } from '../../../shared/schemas/outbox';
+import { outboxKinds, outboxMessageSchema, type MailFilter } from '../../../shared/schemas/outbox';
 import { pageSchema } from '../../../shared/schemas/page';
 
-export const caughtMessageSchema = z.object({ to: z.array(z.string()), subject: z.string(), text: z.string(), html: z.string(), receivedAt: z.string() });
+export const caughtMessageSchema = z.object({ to: z.array(z.string()), subject: z.string(), text: z.string(), html: z.string(), receivedAt: z.string(), kind: z.enum(outboxKinds).nullable().catch(null) });
 export type CaughtMessage = z.infer<typeof caughtMessageSchema>;
+
+/** The filter as query parameters, leaving out what is not set. */
+function filterParams(filter: MailFilter): Record<string, string> {
+  const out: Record<string, string> = {};
+  if (filter.kind) out.kind = filter.kind;
+  if (filter.to) out.to = filter.to;
+  return out;
+}
 
 export const mailQueries = {
   all: ['mail'] as const,
   /** Newest first, a page at a time. */
-  outbox: (state?: 'failed' | 'queued') =>
+  outbox: (state?: 'failed' | 'queued', filter: MailFilter = {}) =>
     infiniteQueryOptions({
-      queryKey: [...mailQueries.all, 'outbox', state ?? 'all'],
+      queryKey: [...mailQueries.all, 'outbox', state ?? 'all', filter.kind ?? '', filter.to ?? ''],
       queryFn: ({ pageParam }) => {
-        const s = new URLSearchParams();
+        const s = new URLSearchParams(filterParams(filter));
         if (state) s.set('state', state);
         if (pageParam) s.set('cursor', pageParam);
         const q = s.toString();
@@ -24,7 +32,15 @@ export const mailQueries = {
       getNextPageParam: (last) => last.nextCursor ?? undefined,
       refetchInterval: 15_000,
     }),
-  mailbox: () => queryOptions({ queryKey: [...mailQueries.all, 'mailbox'], queryFn: () => api('/dev/mailbox', { schema: z.array(caughtMessageSchema) }), refetchInterval: 10_000 }),
+  mailbox: (filter: MailFilter = {}) =>
+    queryOptions({
+      queryKey: [...mailQueries.all, 'mailbox', filter.kind ?? '', filter.to ?? ''],
+      queryFn: () => {
+        const q = new URLSearchParams(filterParams(filter)).toString();
+        return api(`/dev/mailbox${q ? `?${q}` : ''}`, { schema: z.array(caughtMessageSchema) });
+      },
+      refetchInterval: 10_000,
+    }),
 };
 
 /** The owner sends a failed message again; it goes at the mail worker's next cycle. */

@@ -1,33 +1,67 @@
 import { useState } from 'react';
+import { useSearchParams } from 'react-router-dom';
 import { useInfiniteQuery, useQuery } from '@tanstack/react-query';
 import { toast } from 'sonner';
 import { Card, EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { Button } from '../../components/ui/button';
 import { ConfirmDialog } from '../../components/ui/confirm';
 import { ApiError } from '../../lib/api-client';
-import type { OutboxMessageWire } from '../../../shared/schemas/outbox';
+import { SelectField } from '../../components/ui/field';
+import { formatInZone } from '../../components/ui/zoned-time';
+import { outboxKindLabels, outboxKinds, type MailFilter, type OutboxKind, type OutboxMessageWire } from '../../../shared/schemas/outbox';
+import { staffQueries } from '../staff/api';
+import { useStudioTimeZone } from '../today/api';
 import { mailQueries, useResendMessage, type CaughtMessage } from './api';
 
+/** The filter lives in the address (`?kind=&to=`), so a reload or a shared link keeps it. */
+function useMailFilter(): [MailFilter, (next: MailFilter) => void] {
+  const [params, setParams] = useSearchParams();
+  const kind = params.get('kind');
+  const filter: MailFilter = {
+    kind: kind && (outboxKinds as readonly string[]).includes(kind) ? (kind as OutboxKind) : undefined,
+    to: params.get('to')?.trim().toLowerCase() || undefined,
+  };
+  const set = (next: MailFilter) => {
+    const p = new URLSearchParams(params);
+    for (const key of ['kind', 'to'] as const) {
+      const v = next[key];
+      if (v) p.set(key, v);
+      else p.delete(key);
+    }
+    setParams(p, { replace: true });
+  };
+  return [filter, set];
+}
+
 export function MailboxPage() {
-  const box = useQuery(mailQueries.mailbox());
+  const [filter, setFilter] = useMailFilter();
+  const zone = useStudioTimeZone();
+  const box = useQuery(mailQueries.mailbox(filter));
   const [open, setOpen] = useState<number | null>(null);
+  const timeZone = zone.data ?? 'UTC';
+  const filtered = Boolean(filter.kind || filter.to);
   return (
     <div className="max-w-4xl">
-      <PageHeader title="Mailbox">E-mail waiting or failed in the outbox, and what the built-in mail catcher received.</PageHeader>
-      <OutboxTrouble />
+      <PageHeader title="Mailbox">E-mail waiting or failed in the outbox, and what the built-in mail catcher received. Times in {timeZone.replace(/_/g, ' ')}.</PageHeader>
+      <MailFilterBar filter={filter} onChange={(f) => { setOpen(null); setFilter(f); }} />
+      <OutboxTrouble filter={filter} timeZone={timeZone} />
       <h2 className="mb-3 mt-8 text-lg font-semibold">Caught by the built-in mail catcher</h2>
       {box.isError && box.error instanceof ApiError && box.error.status === 404 ? (
         <p className="rounded-xl border border-line bg-white p-5 text-sm text-muted">A real mail server is configured (SMTP_URL), so there is no catcher. Messages go out through it; failures are listed above.</p>
       ) : box.isPending ? <Loading /> : box.isError ? <ErrorState error={box.error} retry={() => box.refetch()} /> : box.data.length === 0 ? (
-        <EmptyState title="No e-mail caught yet">Reminders, alerts and digests appear here as they are sent.</EmptyState>
+        filtered ? (
+          <EmptyState title="No e-mail caught matches the filter">Choose another kind or recipient, or show all messages.</EmptyState>
+        ) : (
+          <EmptyState title="No e-mail caught yet">Reminders, alerts and digests appear here as they are sent.</EmptyState>
+        )
       ) : (
-        <ul className="space-y-2">
+        <ul className="space-y-2" aria-label="Caught messages">
           {box.data.map((m, i) => (
             <li key={i}>
               <Card className="p-0">
                 <button className="flex w-full flex-wrap items-baseline justify-between gap-2 px-5 py-3 text-left" aria-expanded={open === i} onClick={() => setOpen(open === i ? null : i)}>
                   <span className="font-medium">{m.subject || '(no subject)'}</span>
-                  <span className="text-sm text-muted">to {m.to.join(', ')} · {new Date(m.receivedAt).toLocaleString()}</span>
+                  <span className="text-sm text-muted">{m.kind ? `${outboxKindLabels[m.kind]} · ` : ''}to {m.to.join(', ')} · <time dateTime={m.receivedAt}>{formatInZone(m.receivedAt, timeZone)}</time></span>
                 </button>
                 {open === i ? <MessageBody m={m} /> : null}
               </Card>
@@ -39,10 +73,31 @@ export function MailboxPage() {
   );
 }
 
+/** Kind and recipient; recipients are the staff, the only people the studio mails. */
+function MailFilterBar({ filter, onChange }: { filter: MailFilter; onChange: (f: MailFilter) => void }) {
+  const staff = useQuery(staffQueries.list());
+  const people = (staff.data ?? []).slice().sort((a, b) => a.name.localeCompare(b.name));
+  const known = !filter.to || people.some((p) => p.email.toLowerCase() === filter.to);
+  return (
+    <div role="search" aria-label="Filter the mailbox" className="mb-6 flex flex-wrap items-end gap-3">
+      <SelectField label="Kind" value={filter.kind ?? ''} onChange={(e) => onChange({ ...filter, kind: (e.target.value || undefined) as OutboxKind | undefined })}>
+        <option value="">Every kind</option>
+        {outboxKinds.map((k) => <option key={k} value={k}>{outboxKindLabels[k]}</option>)}
+      </SelectField>
+      <SelectField label="Recipient" value={filter.to ?? ''} onChange={(e) => onChange({ ...filter, to: e.target.value || undefined })}>
+        <option value="">Anyone</option>
+        {!known ? <option value={filter.to}>{filter.to}</option> : null}
+        {people.map((p) => <option key={p.id} value={p.email.toLowerCase()}>{p.name} ({p.email})</option>)}
+      </SelectField>
+      {filter.kind || filter.to ? <Button variant="secondary" onClick={() => onChange({})}>Show all messages</Button> : null}
+    </div>
+  );
+}
+
 /** Failed and waiting messages, so the owner sees a mail problem in production too. */
-function OutboxTrouble() {
-  const failed = useInfiniteQuery(mailQueries.outbox('failed'));
-  const queued = useInfiniteQuery(mailQueries.outbox('queued'));
+function OutboxTrouble({ filter, timeZone }: { filter: MailFilter; timeZone: string }) {
+  const failed = useInfiniteQuery(mailQueries.outbox('failed', filter));
+  const queued = useInfiniteQuery(mailQueries.outbox('queued', filter));
   const resend = useResendMessage();
   const [asking, setAsking] = useState<OutboxMessageWire | null>(null);
   const confirm = () => {
@@ -66,14 +121,14 @@ function OutboxTrouble() {
     <Card>
       <h2 className="mb-2 text-lg font-semibold">Outbox</h2>
       {rows.length === 0 ? (
-        <p className="text-sm text-muted">Nothing failed and nothing is waiting: every message due has gone out.</p>
+        <p className="text-sm text-muted">{filter.kind || filter.to ? 'Nothing failed and nothing is waiting among the messages the filter keeps.' : 'Nothing failed and nothing is waiting: every message due has gone out.'}</p>
       ) : (
         <ul className="divide-y divide-line text-sm">
           {rows.map((m) => (
             <li key={m.id} className="flex flex-wrap items-center justify-between gap-2 py-2">
               <span>
                 <span className={`mr-2 font-medium ${m.state === 'failed' ? 'text-stop-700' : 'text-warn-700'}`}>{m.state === 'failed' ? 'Failed' : 'Waiting'}</span>
-                {m.subject} <span className="text-muted">to {m.to.join(', ')} · {m.attempts} attempt{m.attempts === 1 ? '' : 's'}{m.lastError ? ` · last error: ${m.lastError}` : ''}</span>
+                <span className="mr-1 text-muted">{outboxKindLabels[m.kind]}:</span> {m.subject} <span className="text-muted">to {m.to.join(', ')} · written {formatInZone(m.createdAt, timeZone)} · {m.attempts} attempt{m.attempts === 1 ? '' : 's'}{m.lastError ? ` · last error: ${m.lastError}` : ''}</span>
               </span>
               {m.state === 'failed' ? (
                 <Button variant="secondary" disabled={resend.isPending} onClick={() => setAsking(m)}>

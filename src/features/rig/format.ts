@@ -2,6 +2,7 @@ import { formatForce, gearKindLabels } from '../../../shared/rigging';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { Point } from '../../../shared/schemas/rig';
 import type { ApparatusKind, Gate, GearEventKind, GearStatus, LoadingMode, Material, Structure } from '../../../shared/schemas/vocabulary';
+import { formatInZone } from '../../components/ui/zoned-time';
 
 // Words for the wire's lower snake_case values, as the rig pages say them.
 export const structureLabels: Record<Structure, string> = { beam: 'Beam', truss: 'Truss', ceiling_anchor: 'Ceiling anchor', frame: 'Freestanding frame' };
@@ -12,7 +13,6 @@ export const gateLabels: Record<Gate, string> = { none: 'No gate', screw: 'Screw
 export const gearStatusLabels: Record<GearStatus, string> = { in_service: 'In service', quarantined: 'Quarantined', retired: 'Retired' };
 export const eventKindLabels: Record<GearEventKind, string> = { arrested_fall: 'Arrested fall', shock_load: 'Shock load', drop: 'Dropped', overload: 'Overload' };
 
-const DAY_ONLY = /^(\d{4})-(\d{2})-(\d{2})$/;
 
 export interface StudioFormat {
   policy: Policy;
@@ -28,33 +28,13 @@ export interface StudioFormat {
 /** Formatting bound to the studio's policy: its time zone and its display unit. */
 export function studioFormat(policy: Policy): StudioFormat {
   const zone = policy.timeZone;
-  const dateTime = new Intl.DateTimeFormat('en-GB', { timeZone: zone, day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', timeZoneName: 'short' });
-  const dayInZone = new Intl.DateTimeFormat('en-GB', { timeZone: zone, day: 'numeric', month: 'short', year: 'numeric' });
-  // A date with no time is a calendar day wherever it is read: no zone conversion.
-  const calendar = new Intl.DateTimeFormat('en-GB', { timeZone: 'UTC', day: 'numeric', month: 'short', year: 'numeric' });
-  const calendarDay = (m: RegExpExecArray) => calendar.format(new Date(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3]))));
-  const parse = (iso: string) => {
-    const d = new Date(iso);
-    return Number.isNaN(d.getTime()) ? null : d;
-  };
   return {
     policy,
     unit: policy.units,
     force: (kn) => (kn == null ? '—' : formatForce(kn, policy.units)),
-    when: (iso, fallback = '—') => {
-      if (!iso) return fallback;
-      const m = DAY_ONLY.exec(iso);
-      if (m) return calendarDay(m);
-      const d = parse(iso);
-      return d ? dateTime.format(d) : iso;
-    },
-    day: (iso, fallback = '—') => {
-      if (!iso) return fallback;
-      const m = DAY_ONLY.exec(iso);
-      if (m) return calendarDay(m);
-      const d = parse(iso);
-      return d ? dayInZone.format(d) : iso;
-    },
+    // The one date format of the product, in the studio's zone (components/ui/zoned-time).
+    when: (iso, fallback = '—') => formatInZone(iso, zone, 'dateTime', fallback),
+    day: (iso, fallback = '—') => formatInZone(iso, zone, 'day', fallback),
   };
 }
 

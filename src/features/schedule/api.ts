@@ -2,7 +2,7 @@ import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query
 import { z } from 'zod';
 import { api, ApiError } from '../../lib/api-client';
 import { classRecordPageSchema, pointVerdictSchema, sessionSchema, type AvailabilityQuery, type CreateSession, type UpdateSession, type CancelSession, type SwapPointsInput } from '../../../shared/schemas/sessions';
-import { classTypeSchema, type CreateClassType } from '../../../shared/schemas/class-types';
+import { classTypeSchema, type CreateClassType, type UpdateClassType } from '../../../shared/schemas/class-types';
 import { reasonSchema, roomSchema } from '../../../shared/schemas/rig';
 
 export type { Session } from '../../../shared/schemas/sessions';
@@ -105,6 +105,12 @@ export function useScheduleMutations() {
         qc.setQueryData(scheduleQueries.classTypes().queryKey, (old) => (old ? [...old.filter((c) => c.id !== created.id), created] : [created]));
         return qc.invalidateQueries({ queryKey: scheduleQueries.classTypes().queryKey });
       },
+    }),
+    /** Rename, retire or bring back a class type. */
+    updateClassType: useMutation({
+      mutationFn: ({ id, ...body }: UpdateClassType & { id: number }) => api(`/class-types/${id}`, { method: 'PATCH', body, schema: classTypeSchema }),
+      // Class names show on the calendar too.
+      onSettled: invalidate,
     }),
   };
 }

@@ -4,7 +4,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { toast } from 'sonner';
 import { UserPlus } from 'lucide-react';
-import { createUserSchema, type CreateUser, type Me, type User } from '../../../shared/schemas/staff';
+import { createUserSchema, resetPasswordSchema, type CreateUser, type Me, type User } from '../../../shared/schemas/staff';
 import { staffRoles, type StaffRole } from '../../../shared/schemas/vocabulary';
 import { Button } from '../../components/ui/button';
 import { SelectField, TextField } from '../../components/ui/field';
@@ -55,6 +55,7 @@ function StaffRow({ user, canEdit, isMe }: { user: User; canEdit: boolean; isMe:
   const { update, resetPassword } = useStaffMutations();
   const [confirmOff, setConfirmOff] = useState(false);
   const [pw, setPw] = useState<string | null>(null);
+  const [pwError, setPwError] = useState<string | null>(null);
   const setRole = (role: StaffRole) =>
     update.mutate({ id: user.id, role }, { onSuccess: () => toast.success(`${user.name} is now ${roleLabel[role].toLowerCase()}. They are signed out everywhere and sign in again to continue.`), onError: (e) => toast.error(errorMessage(e)) });
   return (
@@ -76,16 +77,37 @@ function StaffRow({ user, canEdit, isMe }: { user: User; canEdit: boolean; isMe:
         <td className="space-x-2 whitespace-nowrap px-4 py-3 text-right">
           {pw !== null ? (
             <form
-              className="inline-flex items-center gap-2"
+              className="inline-flex flex-wrap items-start justify-end gap-2"
+              noValidate
               onSubmit={(e) => {
                 e.preventDefault();
-                resetPassword.mutate({ id: user.id, password: pw }, { onSuccess: () => { toast.success(`New password set for ${user.name}. They are signed out everywhere.`); setPw(null); }, onError: (err) => toast.error(errorMessage(err)) });
+                // The field's message beside the field, in the same words the server would use.
+                const checked = resetPasswordSchema.safeParse({ password: pw });
+                if (!checked.success) return setPwError(checked.error.issues[0]?.message ?? 'Check this value');
+                setPwError(null);
+                resetPassword.mutate({ id: user.id, password: pw }, {
+                  onSuccess: () => { toast.success(`New password set for ${user.name}. They are signed out everywhere.`); setPw(null); },
+                  onError: (err) => (err instanceof ApiError && err.fields.password ? setPwError(err.fields.password) : toast.error(errorMessage(err))),
+                });
               }}
             >
-              <label className="sr-only" htmlFor={`pw-${user.id}`}>New password for {user.name}</label>
-              <input id={`pw-${user.id}`} type="password" autoComplete="new-password" value={pw} onChange={(e) => setPw(e.target.value)} placeholder="New password" className="min-h-11 rounded-lg border border-line px-2" />
+              <span className="inline-flex flex-col items-start text-left">
+                <label className="sr-only" htmlFor={`pw-${user.id}`}>New password for {user.name}</label>
+                <input
+                  id={`pw-${user.id}`}
+                  type="password"
+                  autoComplete="new-password"
+                  value={pw}
+                  onChange={(e) => { setPw(e.target.value); setPwError(null); }}
+                  placeholder="New password"
+                  aria-invalid={pwError ? true : undefined}
+                  aria-describedby={pwError ? `pw-${user.id}-error` : undefined}
+                  className="min-h-11 rounded-lg border border-line px-2 aria-[invalid=true]:border-stop-700"
+                />
+                {pwError ? <span id={`pw-${user.id}-error`} role="alert" className="mt-1 text-sm text-stop-700">{pwError}</span> : null}
+              </span>
               <Button type="submit" busy={resetPassword.isPending}>Save</Button>
-              <Button variant="ghost" type="button" onClick={() => setPw(null)}>Cancel</Button>
+              <Button variant="ghost" type="button" onClick={() => { setPw(null); setPwError(null); }}>Cancel</Button>
             </form>
           ) : (
             <Button variant="ghost" onClick={() => setPw('')}>Reset password</Button>

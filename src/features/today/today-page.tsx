@@ -29,10 +29,11 @@ export function TodayPage() {
   const card = (s: (typeof sessions)[number]) => <SessionCard key={s.id} session={s} timeZone={timeZone} showInstructor={!mine} canCheck={canCheck} canInspect={me.role === 'rigger'} now={now} onReportFault={setFaultOn} />;
 
   return (
-    <div className="mx-auto max-w-2xl space-y-4">
-      <header className="space-y-1">
-        <h1 className="text-2xl font-semibold">Today</h1>
-        <p className="text-lg text-pine-800">{formatInZone(studioDay, timeZone, 'weekday')}</p>
+    <div className="mx-auto max-w-2xl space-y-3">
+      <header>
+        <h1 className="text-2xl font-semibold">
+          Today <span className="text-lg font-normal text-pine-800">{formatInZone(studioDay, timeZone, 'weekday')}</span>
+        </h1>
         <p className="flex flex-wrap items-center gap-x-2 text-sm text-muted">
           <span>{mine ? 'Your classes' : 'Every class'} today · times in {timeZone.replace(/_/g, ' ')}</span>
           <button type="button" onClick={() => board.refetch()} className="inline-flex min-h-11 items-center gap-1 rounded-lg px-2 font-medium text-pine-700 hover:bg-pine-50">
@@ -41,13 +42,12 @@ export function TodayPage() {
           </button>
         </p>
       </header>
-      <Caution />
       {sessions.length === 0 ? (
         <EmptyState title={mine ? 'You have no classes today' : 'No classes today'}>
           Every point’s status is below, in case you need it.
         </EmptyState>
       ) : (
-        <section aria-label="Today’s classes" className="space-y-4">
+        <section aria-label="Today’s classes" className="space-y-3">
           {live.length === 0 ? <p className="rounded-xl bg-white p-4 text-muted">Every class today is cancelled.</p> : ahead.length === 0 ? <p className="rounded-xl bg-white p-4 text-muted">{mine ? 'Your classes are over for today.' : 'Today’s classes are over.'}</p> : null}
           {ahead.map(card)}
           {done.length ? (
@@ -58,6 +58,8 @@ export function TodayPage() {
           ) : null}
         </section>
       )}
+      {/* Once, after the classes: the statuses above are what it qualifies (PRODUCT.md §8). */}
+      <Caution />
       <AllPoints points={points} timeZone={timeZone} open={sessions.length === 0} onReportFault={setFaultOn} />
       <FaultDialog point={faultOn} onClose={() => setFaultOn(null)} />
     </div>

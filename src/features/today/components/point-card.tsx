@@ -15,7 +15,8 @@ const PreuseCheck = lazy(() => import('./preuse-check').then((m) => ({ default: 
 
 const gearWord = (g: { kind: string; serial: string }) => `${(gearKindLabels[g.kind as keyof typeof gearKindLabels] ?? g.kind).toLowerCase()} ${g.serial}`;
 
-const big = 'flex min-h-12 items-center justify-center gap-2 rounded-lg px-4 py-2 text-base font-medium';
+// Two actions side by side even on a phone, each a full 48 px high touch target.
+const big = 'flex min-h-12 items-center justify-center gap-1.5 rounded-lg px-2 py-2 text-sm font-semibold leading-tight sm:text-base';
 
 /** One booked point on the Today board: its status in large type, the pre-use check and a fault report, one tap each. */
 export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = false, showRoom = true, onReportFault }: { point: TodayPoint; timeZone: string; sessionId?: number; canCheck: boolean; canInspect?: boolean; showRoom?: boolean; onReportFault: (p: TodayPoint) => void }) {
@@ -27,16 +28,16 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
     requestAnimationFrame(() => opener.current?.focus());
   };
   return (
-    <li className={`rounded-xl border-2 bg-white p-4 ${blocked ? 'border-stop-700/50' : point.status === 'expiring' ? 'border-warn-700/40' : 'border-line'}`} data-testid={`point-card-${point.pointId}`}>
-      <div className="flex flex-wrap items-start justify-between gap-2">
-        <div>
-          <p className="text-2xl font-semibold leading-tight">{point.label}</p>
-          {showRoom ? <p className="text-sm text-muted">{point.roomName}</p> : null}
-        </div>
+    <li className={`rounded-xl border-2 bg-white p-3 ${blocked ? 'border-stop-700/50' : point.status === 'expiring' ? 'border-warn-700/40' : 'border-line'}`} data-testid={`point-card-${point.pointId}`}>
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <p className="text-xl font-semibold leading-tight">
+          {point.label}
+          {showRoom ? <span className="ml-2 text-sm font-normal text-muted">{point.roomName}</span> : null}
+        </p>
         <StatusBadge status={point.status} large />
       </div>
       {point.reasons.length ? (
-        <ul className="mt-3 space-y-1 text-sm text-stop-700">
+        <ul className="mt-1 space-y-0.5 text-sm text-stop-700">
           {point.reasons.map((r, i) => (
             <li key={`${r.code}-${i}`} className="flex gap-2">
               <TriangleAlert className="mt-0.5 size-4 shrink-0" aria-hidden />
@@ -45,28 +46,34 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
           ))}
         </ul>
       ) : point.clearedUntil ? (
-        <p className={`mt-3 text-sm ${point.status === 'expiring' ? 'text-warn-700' : 'text-muted'}`}>Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p>
+        <p className={`mt-1 text-sm ${point.status === 'expiring' ? 'text-warn-700' : 'text-muted'}`}>Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p>
       ) : null}
-      <p className="mt-3 flex items-center gap-2 text-base font-medium" data-testid="preuse-state">
+      {/* A blocked point takes no pre-use check, so its card does not ask for one. */}
+      {blocked ? null : <p className="mt-1 flex items-center gap-2 text-base font-medium" data-testid="preuse-state">
         {point.preuseDue ? (
           <><Clock className="size-5 text-warn-700" aria-hidden /> Pre-use check due</>
         ) : (
           <><CircleCheck className="size-5 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>
         )}
-      </p>
+      </p>}
       {sessionId !== undefined ? <PointCheckIn sessionId={sessionId} pointId={point.pointId} /> : null}
-      {blocked ? <p className="mt-2 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; {point.gearToInspect.length && !pointInspectionHelps(point) ? `a rigger has to inspect ${point.gearToInspect.map(gearWord).join(' and ')} first.` : 'a rigger has to clear the point first.'}</p> : null}
+      {blocked ? <p className="mt-1 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; {point.gearToInspect.length && !pointInspectionHelps(point) ? `a rigger has to inspect ${point.gearToInspect.map(gearWord).join(' and ')} first.` : 'a rigger has to clear the point first.'}</p> : null}
       {checking ? (
-        <Suspense fallback={<div className="mt-4"><Loading label="Opening the pre-use check…" /></div>}>
+        <Suspense fallback={<div className="mt-3"><Loading label="Opening the pre-use check…" /></div>}>
           <PreuseCheck pointId={point.pointId} label={point.label} sessionId={sessionId} onClose={close} onDone={close} />
         </Suspense>
       ) : (
-        <div className="mt-4 grid gap-2 sm:grid-cols-2">
+        <div className="mt-3 grid grid-cols-2 gap-2">
           {canCheck && !blocked ? (
-            <button ref={opener} type="button" onClick={() => setChecking(true)} className={`${big} bg-pine-700 text-white hover:bg-pine-800`}>
-              <ClipboardCheck className="size-5" aria-hidden />
-              {point.preuseDue ? 'Do the pre-use check' : 'Check again'}
-              <span className="sr-only"> for {point.label}</span>
+            <button
+              ref={opener}
+              type="button"
+              onClick={() => setChecking(true)}
+              aria-label={`${point.preuseDue ? 'Do the pre-use check' : 'Check again'} for ${point.label}`}
+              className={`${big} bg-pine-700 text-white hover:bg-pine-800`}
+            >
+              <ClipboardCheck className="size-5 shrink-0" aria-hidden />
+              {point.preuseDue ? 'Pre-use check' : 'Check again'}
             </button>
           ) : null}
           {canInspect && blocked
@@ -82,8 +89,8 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
               <ClipboardCheck className="size-5" aria-hidden /> Inspect and clear<span className="sr-only"> {point.label}</span>
             </Link>
           ) : null}
-          <button type="button" onClick={() => onReportFault(point)} className={`${big} border-2 border-stop-700 bg-white text-stop-700 hover:bg-stop-50`}>
-            <TriangleAlert className="size-5" aria-hidden />
+          <button type="button" onClick={() => onReportFault(point)} className={`${big} border-2 border-stop-700 bg-white text-stop-700 hover:bg-stop-50 ${(canCheck && !blocked) || (canInspect && blocked) ? '' : 'col-span-2'}`}>
+            <TriangleAlert className="size-5 shrink-0" aria-hidden />
             Report a fault<span className="sr-only"> on {point.label}</span>
           </button>
         </div>

@@ -14,13 +14,21 @@ export function SessionCard({ session, timeZone, showInstructor, canCheck, canIn
   // At risk is worked out for sessions yet to start; once one has begun, a blocked point still has to show.
   const blocked = session.points.filter((p) => p.status === 'blocked');
   const warn = session.atRisk || blocked.length > 0;
-  const reasons = session.atRisk ? session.riskReasons.map((r) => r.message) : blocked.map((p) => `Point ${p.label} is blocked`);
+  // A blocked point's reasons are on its own card just below: name the point here, once, and
+  // spell out only the reasons no card shows (a point fine now but not at the class's time).
+  const blockedIds = new Set(blocked.map((p) => p.pointId));
+  const reasons = [
+    ...(blocked.length ? [`${blocked.map((p) => p.label).join(', ')} ${blocked.length === 1 ? 'is' : 'are'} blocked (reasons below).`] : []),
+    ...(session.atRisk ? session.riskReasons.filter((r) => !blockedIds.has(r.pointId)).map((r) => r.message) : []),
+  ];
   return (
-    <article aria-labelledby={headingId} className={`rounded-2xl border bg-white p-4 ${session.cancelled || over ? 'border-line opacity-90' : 'border-line'}`} data-testid={`session-${session.id}`}>
-      <header className="space-y-1">
-        <p className="text-lg font-semibold text-pine-800"><time dateTime={session.startsAt}>{time}</time>{over && !session.cancelled ? <span className="ml-2 text-sm font-normal text-muted">(finished)</span> : null}</p>
-        <h2 id={headingId} className={`text-xl font-semibold ${session.cancelled ? 'line-through decoration-2' : ''}`}>{session.className}</h2>
-        <p className="text-muted">{session.roomName}{showInstructor ? ` · ${session.instructorName}` : ''}</p>
+    <article aria-labelledby={headingId} className={`rounded-2xl border bg-white p-3 ${session.cancelled || over ? 'border-line opacity-90' : 'border-line'}`} data-testid={`session-${session.id}`}>
+      <header>
+        <h2 id={headingId} className="text-xl font-semibold leading-snug">
+          <time dateTime={session.startsAt} className="mr-2 text-pine-800">{time}</time>
+          <span className={session.cancelled ? 'line-through decoration-2' : ''}>{session.className}</span>
+        </h2>
+        <p className="text-muted">{session.roomName}{showInstructor ? ` · ${session.instructorName}` : ''}{over && !session.cancelled ? ' · finished' : ''}</p>
       </header>
       {session.cancelled ? (
         <p className="mt-3 flex items-start gap-2 rounded-lg bg-canvas p-3 font-medium">
@@ -28,15 +36,21 @@ export function SessionCard({ session, timeZone, showInstructor, canCheck, canIn
           <span>Cancelled{session.cancelReason ? `: ${session.cancelReason}` : ''}. No pre-use check needed.</span>
         </p>
       ) : warn && !over ? (
-        <div className="mt-3 rounded-lg border border-stop-700/40 bg-stop-50 p-3 text-stop-700" role="note">
-          <p className="flex items-center gap-2 font-semibold"><TriangleAlert className="size-5" aria-hidden /> {session.atRisk ? 'At risk' : 'A point is blocked'}</p>
-          <ul className="mt-1 list-disc space-y-0.5 pl-6 text-sm">
-            {reasons.map((r, i) => <li key={i}>{r}</li>)}
-          </ul>
-          <p className="mt-1 text-sm">Reception can swap the point or move the class.</p>
+        <div className="mt-2 rounded-lg border border-stop-700/40 bg-stop-50 px-3 py-2 text-sm text-stop-700" role="note">
+          {reasons.length === 1 ? (
+            <p><TriangleAlert className="mr-1 inline size-5 align-text-bottom" aria-hidden /><strong className="text-base">{session.atRisk ? 'At risk:' : 'A point is blocked:'}</strong> {reasons[0]} Reception can swap the point or move the class.</p>
+          ) : (
+            <>
+              <p className="flex items-center gap-2 text-base font-semibold"><TriangleAlert className="size-5" aria-hidden /> {session.atRisk ? 'At risk' : 'A point is blocked'}</p>
+              <ul className="list-disc space-y-0.5 pl-5">
+                {reasons.map((r, i) => <li key={i}>{r}</li>)}
+              </ul>
+              <p>Reception can swap the point or move the class.</p>
+            </>
+          )}
         </div>
       ) : session.points.length && !over ? (
-        <p className="mt-3 flex items-center gap-2 text-sm text-ok-700"><CircleCheck className="size-4" aria-hidden /> Not at risk: every point is fit for this class.</p>
+        <p className="mt-2 flex items-center gap-2 text-sm text-ok-700"><CircleCheck className="size-4" aria-hidden /> Not at risk: every point is fit for this class.</p>
       ) : null}
       {session.cancelled ? null : <UnplacedStudents sessionId={session.id} />}
       {session.cancelled || over ? null : <Changeovers changeovers={session.changeovers} canMount={canCheck} className={session.className} />}
@@ -47,7 +61,7 @@ export function SessionCard({ session, timeZone, showInstructor, canCheck, canIn
       ) : session.points.length === 0 ? (
         <p className="mt-3 text-muted">No points are booked for this class. Ask reception.</p>
       ) : (
-        <ul className="mt-4 space-y-3" aria-label={`Points for ${session.className}`}>
+        <ul className="mt-3 space-y-2" aria-label={`Points for ${session.className}`}>
           {session.points.map((p) => <PointCard key={p.pointId} point={p} timeZone={timeZone} sessionId={session.id} canCheck={canCheck} canInspect={canInspect} showRoom={p.roomName !== session.roomName} onReportFault={onReportFault} />)}
         </ul>
       )}
