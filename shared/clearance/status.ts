@@ -93,10 +93,27 @@ export function splitPath(links: LinkSnapshot[]): SplitPath {
   return { fixed: links.slice(), apparatus: null };
 }
 
+// A frozen gear item cannot change under the cache; its service-life end is asked for at every
+// status check of every point it hangs in.
+const lifeEnds = new WeakMap<object, Map<string, Date | null>>();
+
 /** When a gear item reaches the end of its service life; null when no limit is known. */
 export function serviceLifeEnd(
   gear: Pick<GearSnapshot, 'manufacturedOn' | 'inServiceOn' | 'serviceLifeYears'>,
   timeZone = 'UTC',
+): Date | null {
+  if (!Object.isFrozen(gear)) return serviceLifeEndUncached(gear, timeZone);
+  let byZone = lifeEnds.get(gear);
+  if (!byZone) lifeEnds.set(gear, (byZone = new Map()));
+  let found = byZone.get(timeZone);
+  if (found === undefined) byZone.set(timeZone, (found = serviceLifeEndUncached(gear, timeZone)));
+  // A fresh Date each time: callers own what they are given.
+  return found && new Date(found.getTime());
+}
+
+function serviceLifeEndUncached(
+  gear: Pick<GearSnapshot, 'manufacturedOn' | 'inServiceOn' | 'serviceLifeYears'>,
+  timeZone: string,
 ): Date | null {
   const from = gear.manufacturedOn ?? gear.inServiceOn;
   if (from == null || gear.serviceLifeYears == null || !Number.isFinite(gear.serviceLifeYears)) return null;
@@ -213,17 +230,30 @@ export function blockingReasonsAt(snapshot: PointSnapshot, policy: Policy, t: Da
   return evaluateAt(snapshot, policy, t, clearanceTimes(snapshot, policy));
 }
 
-const reasonsMemo = snapshotMemo<Map<number, TaggedReason[]>>();
-const INSTANTS_PER_SNAPSHOT = 256;
+// The reasons at an instant depend on the instant only through which of the point's status
+// instants (clearance ends, the apparatus's inspection end, service-life ends: `statusInstants`)
+// it has reached, so they are kept per stretch between two of them: a calendar that asks about
+// the same point at every class's start works each stretch out once.
+const reasonsMemo = snapshotMemo<{ edges: number[]; byStretch: Map<number, TaggedReason[]> }>();
+
+/** How many of the sorted `edges` are at or before `at`: which stretch `at` falls in. */
+function stretchOf(edges: number[], at: number): number {
+  let lo = 0;
+  let hi = edges.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (edges[mid] <= at) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
 
 function evaluateAt(snapshot: PointSnapshot, policy: Policy, t: Date, times: { own: Date | null; until: Date | null }): TaggedReason[] {
-  const byInstant = reasonsMemo(snapshot, policy, () => new Map());
-  const at = t.getTime();
-  let found = byInstant.get(at);
-  if (!found) {
-    if (byInstant.size >= INSTANTS_PER_SNAPSHOT) byInstant.clear();
-    byInstant.set(at, (found = evaluateAtUncached(snapshot, policy, t, times)));
-  }
+  if (!isSealed(snapshot)) return evaluateAtUncached(snapshot, policy, t, times);
+  const memo = reasonsMemo(snapshot, policy, () => ({ edges: [...new Set(statusInstants(snapshot, policy).instants)].sort((a, b) => a - b), byStretch: new Map() }));
+  const stretch = stretchOf(memo.edges, t.getTime());
+  let found = memo.byStretch.get(stretch);
+  if (!found) memo.byStretch.set(stretch, (found = evaluateAtUncached(snapshot, policy, t, times)));
   return found;
 }
 
