@@ -143,7 +143,7 @@ async function latestClearances(trx: Db, pointIds: number[] | 'all'): Promise<La
     .orderBy([{ column: 'n.inspected_at', order: 'desc' }, { column: 'n.id', order: 'desc' }])
     .limit(1);
   const q = trx('points as p')
-    .join('inspections as i', 'i.id', '=', newest)
+    .join('inspections as i', (j) => j.on('i.id', '=', trx.raw('(?)', [newest])))
     .leftJoin('clearance_voids as v', 'v.inspection_id', 'i.id')
     .orderBy('i.id')
     .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.clearance_end', 'v.at as voided_at');
