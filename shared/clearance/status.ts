@@ -427,6 +427,24 @@ function dueReasons(snapshot: PointSnapshot, policy: Policy, end: Date, own: Dat
  * can renew it in time.
  */
 export function pointStatusOver(snapshot: PointSnapshot, policy: Policy, start: Date, end: Date): PointStatusOver {
+  if (!isSealed(snapshot)) return pointStatusOverUncached(snapshot, policy, start, end);
+  // `start` matters only through its stretch (see evaluateAt; "arising" compares the same instants
+  // strictly), `end` exactly: a calendar asks this of each class at its start and again from now.
+  const memo = overMemo(snapshot, policy, () => new Map());
+  const reasons = reasonsMemo(snapshot, policy, () => ({ edges: [...new Set(statusInstants(snapshot, policy).instants)].sort((a, b) => a - b), byStretch: new Map() }));
+  const key = `${stretchOf(reasons.edges, start.getTime())}|${end.getTime()}`;
+  let found = memo.get(key);
+  if (!found) {
+    if (memo.size >= INSTANTS_PER_SNAPSHOT) memo.clear();
+    memo.set(key, (found = pointStatusOverUncached(snapshot, policy, start, end)));
+  }
+  return found;
+}
+
+const overMemo = snapshotMemo<Map<string, PointStatusOver>>();
+const INSTANTS_PER_SNAPSHOT = 512;
+
+function pointStatusOverUncached(snapshot: PointSnapshot, policy: Policy, start: Date, end: Date): PointStatusOver {
   const times = clearanceTimes(snapshot, policy);
   const atStart = evaluateAt(snapshot, policy, start, times);
   const blockedReasons = atStart
