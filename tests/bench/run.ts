@@ -25,8 +25,17 @@ const dir = mkdtempSync(join(tmpdir(), 'loftwise-bench-'));
 const children: ChildProcess[] = [];
 const log = (s: string) => process.stderr.write(s + '\n');
 
-/** fetch, asked once more when a kept-alive socket the server had closed meanwhile fails (a race of keep-alive timeouts). */
-const fetchAgain = (url: string, init?: RequestInit) => fetch(url, init).catch(() => fetch(url, init));
+/** fetch, asked again when a kept-alive socket the server had closed meanwhile fails (a race of keep-alive timeouts). */
+async function fetchAgain(url: string, init?: RequestInit): Promise<Response> {
+  // Several pooled sockets may have been closed at once (a pause longer than the keep-alive timeout).
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await fetch(url, init);
+    } catch (err) {
+      if (attempt >= 4) throw err;
+    }
+  }
+}
 
 /** Mail goes to a catcher in this process, so the server under load does not also parse what it sends. */
 let smtpUrl = '';
@@ -209,6 +218,7 @@ async function main() {
   const firstCycleMs = await cycleMs();
   const steadyCycleMs = Math.min(await cycleMs(), await cycleMs());
   await mailDb.destroy();
+  log(`  first ${firstCycleMs} ms, steady ${steadyCycleMs} ms`);
 
   const cachedServer = await startServer(file, basePort);
   const coldServer = await startServer(file, basePort + 2, { LOFTWISE_DERIVED_CACHE: 'off' });
@@ -249,6 +259,7 @@ async function main() {
       cachedP99Ms: atMost(cached.p99Ms, 50, 'ms'),
       coldP99Ms: { value: cold.p99Ms, target: 'shown (50 connections queue behind one another)', pass: null },
     };
+    log(`  ${JSON.stringify({ cached, cold, baselineRps: b.rps })}`);
   }
 
   // One request at a time on the cold server, each range different (nothing to reuse).
@@ -264,6 +275,7 @@ async function main() {
     pointsMs: atMost(await median(n, () => coldGet('/api/points')), 8, 'ms'),
     widestRangeDays: widest,
   };
+  log(`  ${JSON.stringify(cold)}`);
 
   // The storm: 20 different widest ranges at once on the cold server, while the health check and one
   // point's status are asked one after another; their p99 is the figure.
@@ -297,6 +309,7 @@ async function main() {
     heavyP50Ms: pct(storm.heavyMs, 0.5),
     heavyMaxMs: pct(storm.heavyMs, 1),
   };
+  log(`  ${JSON.stringify(stormFigures)}`);
 
   // The streamed export of every inspection (20,000 on the full studio), as a rigger: time and the
   // server's resident memory at its peak during the export.
@@ -320,6 +333,7 @@ async function main() {
     peakRssMb: atMost(exportPeak, 400, 'MB'),
     rssGrowthMb: exportRssBefore === null ? null : exportPeak - exportRssBefore,
   };
+  log(`  ${JSON.stringify(exportFigures)}`);
 
   const rssAfter = { cached: rssMb(cachedServer.pid), cold: rssMb(coldServer.pid) };
   const memory = {
@@ -343,6 +357,7 @@ async function main() {
   const two = autocannon(`${pair.base}/api/sessions?${week}`, pairCookie, seconds);
   pair.child.kill('SIGTERM');
   const processes = { endpoint: 'sessionsWeek (cold)', oneRps: one.rps, twoRps: two.rps, ratio: atLeast(round(two.rps / one.rps, 2), 1.5, '× one process') };
+  log(`  ${JSON.stringify({ rssBefore, rssAfter, processes })}`);
 
   // Booking check at two calendar sizes: the same check, with ten or a thousand times the history.
   log('booking check…');
