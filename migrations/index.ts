@@ -12,6 +12,7 @@ import * as m012 from './012-idempotency-keys';
 import * as m013 from './013-data-versions';
 import * as m014 from './014-students-and-places';
 import * as m015 from './015-student-sign-in-and-feeds';
+import * as m017 from './017-cold-path-indexes';
 
 /**
  * Static list of migrations, append-only. A static source loads the same under vitest, tsx and
@@ -31,6 +32,7 @@ const migrations: Record<string, Knex.Migration> = {
   '013-data-versions': m013,
   '014-students-and-places': m014,
   '015-student-sign-in-and-feeds': m015,
+  '017-cold-path-indexes': m017,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

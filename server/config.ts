@@ -26,6 +26,8 @@ const envSchema = z.object({
   APP_URL: z.url({ message: 'APP_URL must be a full URL such as http://localhost:3000' }).optional(),
   TRUST_PROXY: z.coerce.number().int().min(0).max(5).default(0),
   LOFTWISE_SEED: z.enum(['demo', 'none']).default('demo'),
+  // Keep derived answers per data version (server/db/derived-cache.ts); `off` works each out afresh (the bench's cold figures).
+  LOFTWISE_DERIVED_CACHE: z.enum(['on', 'off']).default('on'),
   // How long a message being sent stays claimed (it goes again after a crash once this runs out),
   // and how often the mail worker runs. Tests shorten both; the defaults suit a studio.
   OUTBOX_LEASE_SECONDS: seconds('OUTBOX_LEASE_SECONDS', 1, 86_400, 300),
@@ -56,6 +58,7 @@ export interface Config {
   outboxLeaseMs: number;
   outboxIntervalMs: number;
   moveNoticeDelayMs: number;
+  cacheDerived: boolean;
 }
 
 /** 127.0.0.0/8, ::1 and localhost: mail to them never leaves the machine. */
@@ -125,6 +128,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     outboxLeaseMs: e.OUTBOX_LEASE_SECONDS * 1000,
     outboxIntervalMs: e.OUTBOX_INTERVAL_SECONDS * 1000,
     moveNoticeDelayMs: e.MOVE_NOTICE_DELAY_SECONDS * 1000,
+    cacheDerived: e.LOFTWISE_DERIVED_CACHE === 'on',
   };
 }
 

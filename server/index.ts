@@ -149,6 +149,7 @@ async function runServer(config: Config): Promise<void> {
     clientDir: resolve('dist'),
     trustProxyHops: config.trustProxyHops,
     moveNoticeDelayMs: config.moveNoticeDelayMs,
+    cacheDerived: config.cacheDerived,
     benchBaselineDbFile: process.env.LOFTWISE_BENCH_BASELINE === '1' && !config.databaseUrl ? config.dbFile : null,
   });
   // Classes that started while the server was down are recorded before any request can change the rig.

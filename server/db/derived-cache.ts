@@ -113,7 +113,17 @@ export const DERIVED_MAX_AGE_MS = 10_000;
 export function deriveAt<T>(policy: Policy, now: Date, build: (track: ValidityTracker) => T): Derived<T> {
   const track = validityTracker(policy, now);
   track.atMost(DERIVED_MAX_AGE_MS);
-  const value = build(track);
+  return derived(build(track), track, policy);
+}
+
+/** `deriveAt` for an answer built in pieces (with the event loop given a turn between them). */
+export async function deriveInPieces<T>(policy: Policy, now: Date, build: (track: ValidityTracker) => Promise<T>): Promise<Derived<T>> {
+  const track = validityTracker(policy, now);
+  track.atMost(DERIVED_MAX_AGE_MS);
+  return derived(await build(track), track, policy);
+}
+
+function derived<T>(value: T, track: ValidityTracker, policy: Policy): Derived<T> {
   const validity = track.result();
   const weight = Array.isArray(value) ? value.length : 1 + Object.values(value as object).reduce<number>((n, v) => n + (Array.isArray(v) ? v.length : 0), 0);
   return { value, holdsAt: (t) => stillValid(validity, t, policy), weight };

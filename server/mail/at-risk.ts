@@ -6,6 +6,10 @@ import { writeTransaction } from '../db/knex';
 import { placesRepository } from '../modules/places/places.repository';
 import { unfitReasons } from '../modules/places/session-places';
 import { shortDay, clockTime } from './templates/layout';
+import { setImmediate as nextTurn } from 'node:timers/promises';
+
+/** Sessions checked between two turns of the event loop: the worker shares the loop with requests. */
+const SESSIONS_PER_PIECE = 50;
 
 export const atRiskKeyPrefix = (sessionId: number, startsAt: string) => `at_risk:${sessionId}:${startsAt}:`;
 
@@ -42,11 +46,13 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
   const sessions = await ctx.data.sessionsToWatch(ctx.now);
   if (!sessions.length) return { alerts: 0, cleared: 0 };
   const pointIds = await ctx.data.pointIdsOf(sessions.map((s) => s.id));
+  await ctx.preloadHanging(sessions.map((s) => s.id));
   let alerts = 0;
   let cleared = 0;
 
   const turned = new Map<string, Array<{ s: MailSession; trouble: Trouble }>>();
-  for (const s of sessions) {
+  for (const [i, s] of sessions.entries()) {
+    if (i % SESSIONS_PER_PIECE === SESSIONS_PER_PIECE - 1) await nextTurn();
     const trouble = await troubleOf(ctx, s, pointIds.get(s.id) ?? []);
     if (!trouble) {
       if (s.atRisk && (await ctx.data.setAtRiskIf(s.id, true, false))) cleared += 1;
@@ -57,14 +63,19 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
     turned.set(cause, [...(turned.get(cause) ?? []), { s, trouble }]);
   }
 
-  for (const [cause, group] of turned) {
-    // Read before the write transaction (which holds the one writer's connection).
-    const students = await studentsWithoutFitPlace(ctx, group.map((g) => g.s));
-    await writeTransaction(ctx.db, async (trx) => {
+  // Every alert of the cycle in one write transaction: one commit (one fsync, on the event loop
+  // with SQLite) however many causes turned, rather than one per cause.
+  if (!turned.size) return { alerts, cleared };
+  // Read before the write transaction (which holds the one writer's connection).
+  const studentsOf = new Map<string, Awaited<ReturnType<typeof studentsWithoutFitPlace>>>();
+  for (const [cause, group] of turned) studentsOf.set(cause, await studentsWithoutFitPlace(ctx, group.map((g) => g.s)));
+  await writeTransaction(ctx.db, async (trx) => {
+    for (const [cause, group] of turned) {
+      const students = studentsOf.get(cause)!;
       // A flag flips only if nobody flipped it since we read it, so two workers cannot both alert.
       const flipped: typeof group = [];
       for (const g of group) if (await ctx.data.setAtRiskIf(g.s.id, false, true, trx)) flipped.push(g);
-      if (!flipped.length) return;
+      if (!flipped.length) continue;
       const [first] = flipped; // sessionsToWatch lists by start
       const mail = alertMessage(ctx, flipped.map((g) => g.s), first.trouble, students.filter((st) => flipped.some((g) => g.s.id === st.sessionId)));
       const prefix = atRiskKeyPrefix(first.s.id, first.s.startsAt);
@@ -85,8 +96,8 @@ export async function detectAtRisk(ctx: MailCycleContext): Promise<{ alerts: num
         ctx.now,
       );
       if (added && to.length) alerts += 1;
-    });
-  }
+    }
+  });
   return { alerts, cleared };
 }
 
@@ -152,9 +163,11 @@ export async function atRiskFor(ctx: MailCycleContext, s: MailSession, pointIds:
 export async function atRiskGroupFor(ctx: MailCycleContext, causePoints: number[]) {
   const watched = (await ctx.data.sessionsToWatch(ctx.now)).filter((s) => s.atRisk && !s.cancelled && new Date(s.startsAt) > ctx.now);
   const pointIds = await ctx.data.pointIdsOf(watched.map((s) => s.id));
+  await ctx.preloadHanging(watched.map((s) => s.id));
   const group: MailSession[] = [];
   const points = new Map<number, Trouble[number]>();
-  for (const s of watched) {
+  for (const [i, s] of watched.entries()) {
+    if (i % SESSIONS_PER_PIECE === SESSIONS_PER_PIECE - 1) await nextTurn();
     const trouble = await troubleOf(ctx, s, pointIds.get(s.id) ?? []);
     if (!trouble?.some((p) => causePoints.includes(p.pointId))) continue;
     group.push(s);

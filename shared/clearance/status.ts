@@ -93,10 +93,27 @@ export function splitPath(links: LinkSnapshot[]): SplitPath {
   return { fixed: links.slice(), apparatus: null };
 }
 
+// A frozen gear item cannot change under the cache; its service-life end is asked for at every
+// status check of every point it hangs in.
+const lifeEnds = new WeakMap<object, Map<string, Date | null>>();
+
 /** When a gear item reaches the end of its service life; null when no limit is known. */
 export function serviceLifeEnd(
   gear: Pick<GearSnapshot, 'manufacturedOn' | 'inServiceOn' | 'serviceLifeYears'>,
   timeZone = 'UTC',
+): Date | null {
+  if (!Object.isFrozen(gear)) return serviceLifeEndUncached(gear, timeZone);
+  let byZone = lifeEnds.get(gear);
+  if (!byZone) lifeEnds.set(gear, (byZone = new Map()));
+  let found = byZone.get(timeZone);
+  if (found === undefined) byZone.set(timeZone, (found = serviceLifeEndUncached(gear, timeZone)));
+  // A fresh Date each time: callers own what they are given.
+  return found && new Date(found.getTime());
+}
+
+function serviceLifeEndUncached(
+  gear: Pick<GearSnapshot, 'manufacturedOn' | 'inServiceOn' | 'serviceLifeYears'>,
+  timeZone: string,
 ): Date | null {
   const from = gear.manufacturedOn ?? gear.inServiceOn;
   if (from == null || gear.serviceLifeYears == null || !Number.isFinite(gear.serviceLifeYears)) return null;
@@ -213,17 +230,30 @@ export function blockingReasonsAt(snapshot: PointSnapshot, policy: Policy, t: Da
   return evaluateAt(snapshot, policy, t, clearanceTimes(snapshot, policy));
 }
 
-const reasonsMemo = snapshotMemo<Map<number, TaggedReason[]>>();
-const INSTANTS_PER_SNAPSHOT = 256;
+// The reasons at an instant depend on the instant only through which of the point's status
+// instants (clearance ends, the apparatus's inspection end, service-life ends: `statusInstants`)
+// it has reached, so they are kept per stretch between two of them: a calendar that asks about
+// the same point at every class's start works each stretch out once.
+const reasonsMemo = snapshotMemo<{ edges: number[]; byStretch: Map<number, TaggedReason[]> }>();
+
+/** How many of the sorted `edges` are at or before `at`: which stretch `at` falls in. */
+function stretchOf(edges: number[], at: number): number {
+  let lo = 0;
+  let hi = edges.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (edges[mid] <= at) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
 
 function evaluateAt(snapshot: PointSnapshot, policy: Policy, t: Date, times: { own: Date | null; until: Date | null }): TaggedReason[] {
-  const byInstant = reasonsMemo(snapshot, policy, () => new Map());
-  const at = t.getTime();
-  let found = byInstant.get(at);
-  if (!found) {
-    if (byInstant.size >= INSTANTS_PER_SNAPSHOT) byInstant.clear();
-    byInstant.set(at, (found = evaluateAtUncached(snapshot, policy, t, times)));
-  }
+  if (!isSealed(snapshot)) return evaluateAtUncached(snapshot, policy, t, times);
+  const memo = reasonsMemo(snapshot, policy, () => ({ edges: [...new Set(statusInstants(snapshot, policy).instants)].sort((a, b) => a - b), byStretch: new Map() }));
+  const stretch = stretchOf(memo.edges, t.getTime());
+  let found = memo.byStretch.get(stretch);
+  if (!found) memo.byStretch.set(stretch, (found = evaluateAtUncached(snapshot, policy, t, times)));
   return found;
 }
 
@@ -397,6 +427,24 @@ function dueReasons(snapshot: PointSnapshot, policy: Policy, end: Date, own: Dat
  * can renew it in time.
  */
 export function pointStatusOver(snapshot: PointSnapshot, policy: Policy, start: Date, end: Date): PointStatusOver {
+  if (!isSealed(snapshot)) return pointStatusOverUncached(snapshot, policy, start, end);
+  // `start` matters only through its stretch (see evaluateAt; "arising" compares the same instants
+  // strictly), `end` exactly: a calendar asks this of each class at its start and again from now.
+  const memo = overMemo(snapshot, policy, () => new Map());
+  const reasons = reasonsMemo(snapshot, policy, () => ({ edges: [...new Set(statusInstants(snapshot, policy).instants)].sort((a, b) => a - b), byStretch: new Map() }));
+  const key = `${stretchOf(reasons.edges, start.getTime())}|${end.getTime()}`;
+  let found = memo.get(key);
+  if (!found) {
+    if (memo.size >= INSTANTS_PER_SNAPSHOT) memo.clear();
+    memo.set(key, (found = pointStatusOverUncached(snapshot, policy, start, end)));
+  }
+  return found;
+}
+
+const overMemo = snapshotMemo<Map<string, PointStatusOver>>();
+const INSTANTS_PER_SNAPSHOT = 512;
+
+function pointStatusOverUncached(snapshot: PointSnapshot, policy: Policy, start: Date, end: Date): PointStatusOver {
   const times = clearanceTimes(snapshot, policy);
   const atStart = evaluateAt(snapshot, policy, start, times);
   const blockedReasons = atStart

@@ -130,22 +130,25 @@ interface LatestClearanceRow {
 
 /**
  * One query whatever the number of points: for each point the clearance (an inspection that
- * cleared it; only periodic point inspections ever do) with no later one, and the void of it. The
- * inner query reads only the (point_id, cleared, inspected_at) index.
+ * cleared it; only periodic point inspections ever do) with no later one, and the void of it.
+ * Each point's newest clearance is one seek down the (point_id, cleared, inspected_at) index (the
+ * row id, the tie-break, ends every index entry), so the cost follows the points asked for, not
+ * the inspections kept: grouping all of them read 20,000 index entries for 60 points.
  */
 async function latestClearances(trx: Db, pointIds: number[] | 'all'): Promise<LatestClearanceRow[]> {
-  const latest = trx('inspections').where('cleared', true).whereNotNull('point_id').groupBy('point_id').select('point_id', trx.raw('max(inspected_at) as latest_at'));
-  if (pointIds !== 'all') latest.whereIn('point_id', pointIds);
-  const rows = (await trx('inspections as i')
-    .join(latest.as('x'), (j) => j.on('x.point_id', '=', 'i.point_id').andOn('x.latest_at', '=', 'i.inspected_at'))
+  const newest = trx('inspections as n')
+    .select('n.id')
+    .whereRaw('?? = ??', ['n.point_id', 'p.id'])
+    .where('n.cleared', true)
+    .orderBy([{ column: 'n.inspected_at', order: 'desc' }, { column: 'n.id', order: 'desc' }])
+    .limit(1);
+  const q = trx('points as p')
+    .join('inspections as i', (j) => j.on('i.id', '=', trx.raw('(?)', [newest])))
     .leftJoin('clearance_voids as v', 'v.inspection_id', 'i.id')
-    .where('i.cleared', true)
     .orderBy('i.id')
-    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.clearance_end', 'v.at as voided_at')) as LatestClearanceRow[];
-  // Two clearances at the same instant: the one written last.
-  const byPoint = new Map<number, LatestClearanceRow>();
-  for (const r of rows) byPoint.set(r.point_id, r);
-  return [...byPoint.values()];
+    .select('i.point_id', 'i.id as inspection_id', 'i.inspected_at', 'i.clearance_end', 'v.at as voided_at');
+  if (pointIds !== 'all') q.whereIn('p.id', pointIds);
+  return (await q) as LatestClearanceRow[];
 }
 
 export const toPoint = (r: PointRow): PointRecord => ({

@@ -13,6 +13,7 @@ import type { GearRecord, RigRepository } from './rig.repository';
 import { loadApparatus, loadSnapshots, type SnapshotBundle } from './point-snapshots';
 import { voidClearance } from './clearance-voids';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
+import { unboundedWork, type HeavyWork } from '../../http/heavy-work';
 
 export const statusWire = (s: PointStatus) => ({ status: s.status, clearedUntil: s.clearedUntil?.toISOString() ?? null, reasons: s.reasons.map((r) => ({ code: r.code, message: r.message })) });
 
@@ -20,9 +21,10 @@ export interface ClassProfileSource {
   profileOf(classTypeId: number, policy: Policy): Promise<LoadProfile & { name: string }>;
 }
 
-export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource; derived?: DerivedCache }) {
+export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource; derived?: DerivedCache; heavy?: HeavyWork }) {
   const { db, rig, audit, studio, clock } = deps;
   const derived = deps.derived ?? noDerivedCache;
+  const heavy = deps.heavy ?? unboundedWork;
 
   const gearWire = (g: GearRecord, timeZone: string) => ({ ...g, serviceLifeEndsOn: serviceLifeEnd(g, timeZone)?.toISOString() ?? null });
 
@@ -79,16 +81,18 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
 
     // ---- points
     listPoints(filter: { roomId?: number }) {
-      return derived.get(`points|${filter.roomId ?? ''}`, async () => {
-        const { policy } = await studio.get();
-        const bundles = await loadSnapshots(db, rig, filter);
-        return deriveAt(policy, clock.now(), (track) =>
-          bundles.map((b) => {
-            track.snapshot(b.snapshot);
-            return pointWire(b, policy, track.now, false);
-          }),
-        );
-      });
+      return derived.get(`points|${filter.roomId ?? ''}`, () =>
+        heavy.run(async () => {
+          const { policy } = await studio.get();
+          const bundles = await loadSnapshots(db, rig, filter);
+          return deriveAt(policy, clock.now(), (track) =>
+            bundles.map((b) => {
+              track.snapshot(b.snapshot);
+              return pointWire(b, policy, track.now, false);
+            }),
+          );
+        }),
+      );
     },
     async getPoint(id: number) {
       const { policy } = await studio.get();

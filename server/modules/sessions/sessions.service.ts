@@ -17,7 +17,8 @@ import type { Policy } from '../../../shared/schemas/policy';
 import type { ClassType } from '../../../shared/schemas/class-types';
 import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery, SwapPoints, UpdateSession } from '../../../shared/schemas/sessions';
 import type { ApparatusChoice, SessionRecord, SessionsRepository } from './sessions.repository';
-import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
+import { deriveInPieces, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
+import { unboundedWork, type HeavyWork } from '../../http/heavy-work';
 import { sessionRecords, type SessionPointRecord, type SessionRecords } from './session-records';
 import type { Writable } from 'node:stream';
 import type { InspectionLogFilters } from '../../../shared/schemas/safety';
@@ -42,10 +43,14 @@ interface Occurrence {
  */
 const MAX_RANGE_DAYS = 43;
 
+/** Classes worked out between two turns of the event loop (a few milliseconds' work). */
+const SESSIONS_PER_PIECE = 40;
+
 const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
 
-export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords }) {
+export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords; heavy?: HeavyWork }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
+  const heavy = deps.heavy ?? unboundedWork;
   const records = deps.records ?? sessionRecords({ db, rig, studio });
   const derived = deps.derived ?? noDerivedCache;
 
@@ -250,15 +255,25 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       if (to.getTime() - from.getTime() > MAX_RANGE_DAYS * 86_400_000) throw new HttpError(400, 'invalid_request', `Ask for at most ${MAX_RANGE_DAYS} days at a time.`, { source: 'query', fields: { to: 'Range too long' } });
       // The calendar's week is asked for again and again; the answer holds until a record changes
       // or the clock passes an instant it depends on (a class starting, a clearance running out).
-      return derived.get(`sessions|${from.toISOString()}|${to.toISOString()}|${q.roomId ?? ''}|${q.instructorId ?? ''}`, async () => {
-        const { policy } = await studio.get();
-        const now = clock.now();
-        const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
-        const kept = await startRecords(sessions, now);
-        const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
-        const recorded = await loadRecorded(rig, sessions, db);
-        return deriveAt(policy, now, (track) => sessions.map((s) => view(s, bundles, recorded, policy, track.now, track, kept)));
-      });
+      // Worked out one range at a time, in pieces of SESSIONS_PER_PIECE classes (server/http/heavy-work.ts).
+      return derived.get(`sessions|${from.toISOString()}|${to.toISOString()}|${q.roomId ?? ''}|${q.instructorId ?? ''}`, () =>
+        heavy.run(async () => {
+          const { policy } = await studio.get();
+          const now = clock.now();
+          const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
+          const kept = await startRecords(sessions, now);
+          const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
+          const recorded = await loadRecorded(rig, sessions, db);
+          return deriveInPieces(policy, now, async (track) => {
+            const views = [];
+            for (let i = 0; i < sessions.length; i += SESSIONS_PER_PIECE) {
+              await heavy.pause();
+              for (const s of sessions.slice(i, i + SESSIONS_PER_PIECE)) views.push(view(s, bundles, recorded, policy, track.now, track, kept));
+            }
+            return views;
+          });
+        }),
+      );
     },
 
     async get(id: number) {

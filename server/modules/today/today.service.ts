@@ -15,6 +15,7 @@ import { placesRepository } from '../places/places.repository';
 import { studentsRepository } from '../students/students.repository';
 import { summarise, unfitReasons } from '../places/session-places';
 import { waiverStateAt } from '../../../shared/places';
+import { unboundedWork, type HeavyWork } from '../../http/heavy-work';
 
 /** The studio day [start, end) that contains `now`, in the studio's zone. */
 export function studioDayRange(now: Date, timeZone: string) {
@@ -22,9 +23,10 @@ export function studioDayRange(now: Date, timeZone: string) {
   return { start: new Date(start.getTime()), end: new Date(addDays(start, 1).getTime()) };
 }
 
-export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache }) {
+export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache; heavy?: HeavyWork }) {
   const { db, rig, studio, inspections, clock } = deps;
   const derived = deps.derived ?? noDerivedCache;
+  const heavy = deps.heavy ?? unboundedWork;
 
   /** Worked out once per data version and kept while it holds (see server/db/derived-cache.ts). */
   async function compute(user: CurrentUser) {
@@ -135,7 +137,7 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
 
   return {
     /** The signed-in instructor's sessions today (everyone's for the other roles), and every point's status now. */
-    today: (user: CurrentUser) => derived.get(`today|${user.role === 'instructor' ? `instructor:${user.id}` : 'studio'}`, () => compute(user)),
+    today: (user: CurrentUser) => derived.get(`today|${user.role === 'instructor' ? `instructor:${user.id}` : 'studio'}`, () => heavy.run(() => compute(user))),
   };
 }
 export type TodayService = ReturnType<typeof todayService>;

@@ -153,6 +153,22 @@ describe('sealed snapshots', () => {
     expect(() => (point.openFaults as unknown[]).push({})).toThrow(TypeError);
   });
 
+  it('a sealed snapshot answers exactly as an unsealed one at every instant (reasons kept per stretch between its status instants)', () => {
+    fc.assert(
+      fc.property(snapshotArb, policyArb, fc.array(instantArb, { minLength: 1, maxLength: 12 }), (snap, policy, instants) => {
+        const sealed = freezeSnapshot(structuredClone(snap));
+        // Asked in one order, then the other: what one instant kept must not leak into another.
+        for (const t of [...instants, ...instants.reverse()]) {
+          const at = new Date(t);
+          const end = new Date(t + 2 * HOUR);
+          expect(pointStatusAt(sealed, policy, at)).toEqual(pointStatusAt(snap, policy, at));
+          expect(pointStatusOver(sealed, policy, at, end)).toEqual(pointStatusOver(snap, policy, at, end));
+        }
+      }),
+      { numRuns: 500 },
+    );
+  });
+
   it('an unsealed snapshot is worked out afresh after a change', () => {
     const point = healthyPoint();
     const t = new Date('2025-06-10T00:00:00Z');

@@ -1,0 +1,53 @@
+import { setImmediate as nextTurn } from 'node:timers/promises';
+
+/**
+ * Heavy answers (a calendar range, Today, the rig list, worked out afresh) run one at a time, each
+ * starting on a fresh turn of the event loop and giving the loop back between its pieces, so
+ * light requests (the health check, one point's status, a booking) wait at most one piece, never
+ * a queue of them.
+ *
+ * Why a turn and not just `await`: knex on better-sqlite3 answers a query synchronously, so a
+ * request's chain of queries and the promise continuations around them run as microtasks, which
+ * the loop finishes before it reads a socket again; twenty such requests admitted together held a
+ * health check for seconds. `setImmediate` lets the poll phase (new connections, other requests'
+ * data) run first. And one at a time, because pieces admitted together all run in one check
+ * phase: the loop would still read sockets only after every one of them.
+ */
+export interface HeavyWork {
+  /** Runs `fn` when no other heavy answer is being worked out (first come, first served). */
+  run<T>(fn: () => Promise<T>): Promise<T>;
+  /** Gives the event loop a turn (between the pieces of one heavy answer). */
+  pause(): Promise<void>;
+  /** How many are running or waiting (for tests and the bench). */
+  readonly pending: number;
+}
+
+export function heavyWork(opts: { concurrency?: number } = {}): HeavyWork {
+  const concurrency = opts.concurrency ?? 1;
+  let running = 0;
+  const waiting: Array<() => void> = [];
+  return {
+    async run<T>(fn: () => Promise<T>): Promise<T> {
+      if (running < concurrency) running++;
+      else await new Promise<void>((admit) => waiting.push(admit));
+      try {
+        await nextTurn();
+        return await fn();
+      } finally {
+        // The place passes straight to the next in line (`running` stays), so none can jump the queue.
+        const next = waiting.shift();
+        if (next) next();
+        else running--;
+      }
+    },
+    pause: async () => {
+      await nextTurn();
+    },
+    get pending() {
+      return running + waiting.length;
+    },
+  };
+}
+
+/** For services built without one (tests, scripts): no queue, no pauses. */
+export const unboundedWork: HeavyWork = { run: (fn) => fn(), pause: async () => undefined, pending: 0 };
