@@ -9,29 +9,40 @@ import { studentsQueries, usePlaceMutations, type SessionBooking } from '../api'
 
 const HOLDS: readonly PlaceStatus[] = ['booked', 'attended', 'no_show'];
 const CHECKERS = new Set(['instructor', 'reception', 'owner']);
+/** Who may read a class's students (GET /api/sessions/:id/bookings). */
+const READERS = CHECKERS;
 
 /**
  * The students on one point of a class on the Today board, each with one tap for attended or
  * no-show. A student without a valid waiver is flagged before the class; a refused check-in shows
  * the server's words beside the student.
  */
-export function PointCheckIn({ sessionId, pointId }: { sessionId: number; pointId: number }) {
+export function PointCheckIn(props: { sessionId: number; pointId: number }) {
+  // Riggers keep the rig, not the register: they neither read a class's students nor check them in.
+  return READERS.has(useSignedIn().role) ? <PointStudents {...props} /> : null;
+}
+
+function PointStudents({ sessionId, pointId }: { sessionId: number; pointId: number }) {
   const me = useSignedIn();
   const q = useQuery(studentsQueries.sessionBookings(sessionId));
   if (q.isPending) return <p className="mt-3 text-sm text-muted" role="status">Loading students…</p>;
   if (q.isError) return <div className="mt-3"><ErrorState error={q.error} retry={() => q.refetch()} /></div>;
   const on = q.data.filter((b) => b.pointId === pointId && HOLDS.includes(b.status));
   return (
-    <section className="mt-3 border-t border-line pt-3" aria-label="Students on this point" data-testid={`checkin-${sessionId}-${pointId}`}>
-      <h3 className="text-base font-semibold">{on.length === 0 ? 'No students on this point' : on.length === 1 ? '1 student' : `${on.length} students`}</h3>
+    <section className="mt-2 border-t border-line pt-2" aria-label="Students on this point" data-testid={`checkin-${sessionId}-${pointId}`}>
+      <h3 className="text-sm font-semibold text-muted">{on.length === 0 ? 'No students on this point' : on.length === 1 ? '1 student' : `${on.length} students`}</h3>
       {on.some((b) => b.withoutFitPlace) ? <p className="mt-1 flex items-start gap-2 text-sm font-medium text-stop-700"><TriangleAlert className="mt-0.5 size-4 shrink-0" aria-hidden />Without a fit place: reception moves them to a free place.</p> : null}
-      {on.length ? <ul className="mt-2 space-y-3">{on.map((b) => <Student key={b.id} booking={b} canCheck={CHECKERS.has(me.role) && !b.withoutFitPlace} />)}</ul> : null}
+      {on.length ? <ul className="mt-1 divide-y divide-line">{on.map((b) => <Student key={b.id} booking={b} canCheck={CHECKERS.has(me.role) && !b.withoutFitPlace} />)}</ul> : null}
     </section>
   );
 }
 
 /** Students of a class left with no point at all (their point was lost and no fit place is left). */
-export function UnplacedStudents({ sessionId }: { sessionId: number }) {
+export function UnplacedStudents(props: { sessionId: number }) {
+  return READERS.has(useSignedIn().role) ? <Unplaced {...props} /> : null;
+}
+
+function Unplaced({ sessionId }: { sessionId: number }) {
   const q = useQuery(studentsQueries.sessionBookings(sessionId));
   const lost = (q.data ?? []).filter((b) => b.withoutFitPlace && b.pointId === null && b.status !== 'cancelled');
   if (!lost.length) return null;
@@ -52,11 +63,11 @@ function Student({ booking: b, canCheck }: { booking: SessionBooking; canCheck: 
     setPending(outcome);
     checkIn.mutate({ id: b.id, outcome }, { onError: (err) => setRefusal(errorMessage(err)), onSettled: () => setPending(null) });
   };
-  const tap = 'flex min-h-12 items-center justify-center gap-2 rounded-lg border-2 px-3 text-base font-medium disabled:opacity-60';
+  const tap = 'flex min-h-12 items-center justify-center gap-1 rounded-lg border-2 px-2 text-sm font-semibold disabled:opacity-60';
   return (
-    <li className="space-y-2" data-testid={`checkin-student-${b.id}`}>
-      <p className="flex flex-wrap items-center gap-2">
-        <span className="text-lg font-medium">{b.name}</span>
+    <li className="flex flex-wrap items-center gap-x-2 gap-y-1 py-1.5" data-testid={`checkin-student-${b.id}`}>
+      <p className="flex min-w-0 flex-1 flex-wrap items-center gap-x-2 gap-y-0.5">
+        <span className="text-base font-medium">{b.name}</span>
         {b.waiverOk ? null : (
           <span className="inline-flex items-center gap-1 rounded-full border border-stop-700/40 bg-stop-50 px-2 py-0.5 text-sm font-medium text-stop-700">
             <FileWarning className="size-4" aria-hidden />No valid waiver
@@ -66,18 +77,18 @@ function Student({ booking: b, canCheck }: { booking: SessionBooking; canCheck: 
         {b.status === 'no_show' ? <span className="inline-flex items-center gap-1 text-sm font-medium text-stop-700"><CircleX className="size-4" aria-hidden />No-show</span> : null}
       </p>
       {canCheck ? (
-        <div className="grid grid-cols-2 gap-2" role="group" aria-label={`Check in ${b.name}`}>
+        <div className="grid w-52 shrink-0 grid-cols-2 gap-1.5" role="group" aria-label={`Check in ${b.name}`}>
           <button type="button" aria-label={`Attended: ${b.name}`} aria-pressed={b.status === 'attended'} disabled={checkIn.isPending} aria-busy={pending === 'attended' || undefined} onClick={() => mark('attended')}
             className={`${tap} ${b.status === 'attended' ? 'border-ok-700 bg-ok-700 text-white' : 'border-ok-700 bg-white text-ok-700 hover:bg-ok-50'}`}>
-            <UserCheck className="size-5" aria-hidden />Attended
+            <UserCheck className="size-4" aria-hidden />Attended
           </button>
           <button type="button" aria-label={`No-show: ${b.name}`} aria-pressed={b.status === 'no_show'} disabled={checkIn.isPending} aria-busy={pending === 'no_show' || undefined} onClick={() => mark('no_show')}
             className={`${tap} ${b.status === 'no_show' ? 'border-stop-700 bg-stop-700 text-white' : 'border-stop-700 bg-white text-stop-700 hover:bg-stop-50'}`}>
-            <CircleX className="size-5" aria-hidden />No-show
+            <CircleX className="size-4" aria-hidden />No-show
           </button>
         </div>
       ) : null}
-      {refusal ? <p role="alert" className="rounded-lg bg-stop-50 p-2 text-sm font-medium text-stop-700">{refusal}</p> : null}
+      {refusal ? <p role="alert" className="basis-full rounded-lg bg-stop-50 p-2 text-sm font-medium text-stop-700">{refusal}</p> : null}
     </li>
   );
 }
