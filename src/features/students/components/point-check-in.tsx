@@ -28,11 +28,19 @@ function PointStudents({ sessionId, pointId }: { sessionId: number; pointId: num
   if (q.isPending) return <p className="mt-3 text-sm text-muted" role="status">Loading students…</p>;
   if (q.isError) return <div className="mt-3"><ErrorState error={q.error} retry={() => q.refetch()} /></div>;
   const on = q.data.filter((b) => b.pointId === pointId && HOLDS.includes(b.status));
+  // No line for an empty point: the drawer and the student list say who is where; Today stays one screen a class.
+  if (!on.length) return null;
+  const lost = on.filter((b) => b.withoutFitPlace);
+  const placed = on.filter((b) => !b.withoutFitPlace);
   return (
-    <section className="mt-2 border-t border-line pt-2" aria-label="Students on this point" data-testid={`checkin-${sessionId}-${pointId}`}>
-      <h3 className="text-sm font-semibold text-muted">{on.length === 0 ? 'No students on this point' : on.length === 1 ? '1 student' : `${on.length} students`}</h3>
-      {on.some((b) => b.withoutFitPlace) ? <p className="mt-1 flex items-start gap-2 text-sm font-medium text-stop-700"><TriangleAlert className="mt-0.5 size-4 shrink-0" aria-hidden />Without a fit place: reception moves them to a free place.</p> : null}
-      {on.length ? <ul className="mt-1 divide-y divide-line">{on.map((b) => <Student key={b.id} booking={b} canCheck={CHECKERS.has(me.role) && !b.withoutFitPlace} />)}</ul> : null}
+    <section className="mt-2 border-t border-line pt-1" aria-label={`Students on this point: ${on.length}`} data-testid={`checkin-${sessionId}-${pointId}`}>
+      {lost.length ? (
+        <p className="mt-1 flex items-start gap-2 text-sm font-medium text-stop-700">
+          <TriangleAlert className="mt-0.5 size-4 shrink-0" aria-hidden />
+          <span>Without a fit place: {lost.map((b) => `${b.name}${b.waiverOk ? '' : ' (no valid waiver)'}`).join(', ')}. Reception moves them to a free place.</span>
+        </p>
+      ) : null}
+      {placed.length ? <ul className="divide-y divide-line">{placed.map((b) => <Student key={b.id} booking={b} canCheck={CHECKERS.has(me.role)} />)}</ul> : null}
     </section>
   );
 }
@@ -77,7 +85,7 @@ function Student({ booking: b, canCheck }: { booking: SessionBooking; canCheck: 
         {b.status === 'no_show' ? <span className="inline-flex items-center gap-1 text-sm font-medium text-stop-700"><CircleX className="size-4" aria-hidden />No-show</span> : null}
       </p>
       {canCheck ? (
-        <div className="grid w-52 shrink-0 grid-cols-2 gap-1.5" role="group" aria-label={`Check in ${b.name}`}>
+        <div className="grid w-56 shrink-0 grid-cols-2 gap-1.5 whitespace-nowrap" role="group" aria-label={`Check in ${b.name}`}>
           <button type="button" aria-label={`Attended: ${b.name}`} aria-pressed={b.status === 'attended'} disabled={checkIn.isPending} aria-busy={pending === 'attended' || undefined} onClick={() => mark('attended')}
             className={`${tap} ${b.status === 'attended' ? 'border-ok-700 bg-ok-700 text-white' : 'border-ok-700 bg-white text-ok-700 hover:bg-ok-50'}`}>
             <UserCheck className="size-4" aria-hidden />Attended

@@ -45,17 +45,20 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
             </li>
           ))}
         </ul>
-      ) : point.clearedUntil ? (
-        <p className={`mt-1 text-sm ${point.status === 'expiring' ? 'text-warn-700' : 'text-muted'}`}>Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p>
       ) : null}
-      {/* A blocked point takes no pre-use check, so its card does not ask for one. */}
-      {blocked ? null : <p className="mt-1 flex items-center gap-2 text-base font-medium" data-testid="preuse-state">
-        {point.preuseDue ? (
-          <><Clock className="size-5 text-warn-700" aria-hidden /> Pre-use check due</>
-        ) : (
-          <><CircleCheck className="size-5 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>
-        )}
-      </p>}
+      {/* A blocked point takes no pre-use check, so its card does not ask for one; the rest say both on one line. */}
+      {blocked ? null : (
+        <div className="mt-1 flex flex-wrap items-center gap-x-3 gap-y-0.5">
+          <p className="flex items-center gap-2 text-base font-medium" data-testid="preuse-state">
+            {point.preuseDue ? (
+              <><Clock className="size-5 text-warn-700" aria-hidden /> Pre-use check due</>
+            ) : (
+              <><CircleCheck className="size-5 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>
+            )}
+          </p>
+          {point.clearedUntil ? <p className={`text-sm ${point.status === 'expiring' ? 'text-warn-700' : 'text-muted'}`}>Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p> : null}
+        </div>
+      )}
       {sessionId !== undefined ? <PointCheckIn sessionId={sessionId} pointId={point.pointId} /> : null}
       {blocked ? <p className="mt-1 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; {point.gearToInspect.length && !pointInspectionHelps(point) ? `a rigger has to inspect ${point.gearToInspect.map(gearWord).join(' and ')} first.` : 'a rigger has to clear the point first.'}</p> : null}
       {checking ? (
