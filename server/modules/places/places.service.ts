@@ -30,6 +30,11 @@ export const CHECK_IN_OPENS_MS = 12 * 3_600_000;
 
 const sameInstant = (a: string | Date, b: string | Date) => new Date(a).getTime() === new Date(b).getTime();
 
+/** A booking as the desk reads it: the stored place, with what the caller worked out about it. */
+function wireOf(p: PlaceRecord, found: Pick<SessionBooking, 'waiverOk' | 'position' | 'withoutFitPlace'>): SessionBooking {
+  return { id: p.id, studentId: p.studentId, name: p.studentName, email: p.studentEmail, pointId: p.pointId, pointLabel: p.pointLabel, status: p.status, ...found, checkedInAt: p.checkedInAt };
+}
+
 export function placesService(deps: { db: Db; repo: PlacesRepository; students: StudentsRepository; sessions: SessionsRepository; rig: RigRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; undoWindowMs?: number }) {
   const { db, repo, students, sessions, rig, studio, audit, clock } = deps;
   const outbox = outboxRepository(db);
@@ -92,19 +97,7 @@ export function placesService(deps: { db: Db; repo: PlacesRepository; students: 
   async function bookingWire(p: PlaceRecord, trx: Db = db): Promise<SessionBooking> {
     const latest = (await students.latestAcceptances([p.studentId], trx)).get(p.studentId) ?? null;
     const places = await repo.forSession(p.sessionId, trx);
-    return {
-      id: p.id,
-      studentId: p.studentId,
-      name: p.studentName,
-      email: p.studentEmail,
-      pointId: p.pointId,
-      pointLabel: p.pointLabel,
-      status: p.status,
-      waiverOk: waiverStateAt(latest, clock.now()) === 'valid',
-      position: p.status === 'waitlisted' ? positionOf(places, p.id) : null,
-      withoutFitPlace: false,
-      checkedInAt: p.checkedInAt,
-    };
+    return wireOf(p, { waiverOk: waiverStateAt(latest, clock.now()) === 'valid', position: p.status === 'waitlisted' ? positionOf(places, p.id) : null, withoutFitPlace: false });
   }
 
   return {
@@ -155,19 +148,7 @@ export function placesService(deps: { db: Db; repo: PlacesRepository; students: 
       const at = new Date(s.startsAt) > now ? new Date(s.startsAt) : now;
       return [...places]
         .sort((a, b) => rank(a) - rank(b) || (a.status === 'waitlisted' ? waitlist.indexOf(a) - waitlist.indexOf(b) : (a.pointLabel ?? '~').localeCompare(b.pointLabel ?? '~') || a.id - b.id))
-        .map((p) => ({
-          id: p.id,
-          studentId: p.studentId,
-          name: p.studentName,
-          email: p.studentEmail,
-          pointId: p.pointId,
-          pointLabel: p.pointLabel,
-          status: p.status,
-          waiverOk: waiverStateAt(waivers.get(p.studentId) ?? null, at) === 'valid',
-          position: p.status === 'waitlisted' ? waitlist.indexOf(p) + 1 : null,
-          withoutFitPlace: without.has(p.id),
-          checkedInAt: p.checkedInAt,
-        }));
+        .map((p) => wireOf(p, { waiverOk: waiverStateAt(waivers.get(p.studentId) ?? null, at) === 'valid', position: p.status === 'waitlisted' ? waitlist.indexOf(p) + 1 : null, withoutFitPlace: without.has(p.id) }));
     },
 
     /**

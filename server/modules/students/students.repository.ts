@@ -3,14 +3,8 @@ import { cutPage, keyset, pageLimit } from '../../db/keyset';
 import type { WaiverMethod } from '../../../shared/schemas/vocabulary';
 
 /** A student as stored (PRODUCT.md §11); `mergedIntoId` set on a duplicate merged into another. */
-export interface StudentRecord {
+export interface StudentRecord extends StudentFields {
   id: number;
-  name: string;
-  email: string;
-  emailKey: string;
-  phone: string | null;
-  emergencyName: string | null;
-  emergencyPhone: string | null;
   mergedIntoId: number | null;
   createdAt: string;
   updatedAt: string;
