@@ -258,6 +258,15 @@ describe('the instructor checks students in on a phone', () => {
     await desk.getByRole('button', { name: 'Record a paper waiver' }).click();
     const form = desk.getByRole('form', { name: 'Record a paper waiver' });
     await form.getByText(/signed version \d+ of the waiver on paper/).waitFor();
+    // Cancel with a changed name asks first; keeping it keeps what was typed.
+    const name = form.getByLabel('Full name as signed');
+    await name.fill(`${ALMA.name} M.`);
+    await form.getByRole('button', { name: 'Cancel' }).click();
+    const ask = desk.getByRole('dialog', { name: 'Discard this paper waiver?' });
+    await ask.waitFor();
+    await ask.getByRole('button', { name: 'Keep editing' }).click();
+    expect(await name.inputValue()).toBe(`${ALMA.name} M.`);
+    await name.fill(ALMA.name);
     await form.getByRole('button', { name: 'Record waiver' }).click();
     await desk.getByText('Waiver valid', { exact: true }).waitFor();
     await shot(desk, 'students-paper-waiver-recorded');

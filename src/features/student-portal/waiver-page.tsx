@@ -10,6 +10,7 @@ import { Card, EmptyState, ErrorState, Loading, PageHeader } from '../../compone
 import { formatInZone } from '../../components/ui/zoned-time';
 import { ApiError, errorMessage } from '../../lib/api-client';
 import { studentPortalQueries, useSignWaiver } from './api';
+import { useWarnBeforeUnload } from '../../lib/use-warn-before-unload';
 
 /** The studio's waiver: read it, type your full name, sign (PRODUCT.md §11). */
 export function WaiverPage() {
@@ -17,6 +18,8 @@ export function WaiverPage() {
   const studio = useQuery(studentPortalQueries.studio());
   const sign = useSignWaiver();
   const form = useForm<SignWaiver>({ resolver: zodResolver(signWaiverSchema), defaultValues: { version: 0, fullName: '' } });
+  // A typed signature is not lost to a reload or a closed tab without asking.
+  useWarnBeforeUnload(form.formState.isDirty);
   const tz = studio.data?.timeZone ?? 'UTC';
 
   if (waiver.isPending) return <Loading label="Loading the waiver…" />;

@@ -8,6 +8,8 @@ import { FileSignature } from 'lucide-react';
 import { paperWaiverSchema, type PaperWaiver } from '../../../../shared/schemas/students';
 import { Button } from '../../../components/ui/button';
 import { TextField } from '../../../components/ui/field';
+import { ConfirmDialog } from '../../../components/ui/confirm';
+import { useWarnBeforeUnload } from '../../../lib/use-warn-before-unload';
 import { ApiError, errorMessage } from '../../../lib/api-client';
 import { studentsQueries, useStudentMutations, type Student } from '../api';
 
@@ -17,11 +19,15 @@ const todayIn = (timeZone: string) => new Intl.DateTimeFormat('en-CA', { timeZon
 /** The desk records a waiver the student signed on paper: the name as signed, the day, the current text. */
 export function PaperWaiverForm({ student, timeZone }: { student: Student; timeZone: string }) {
   const [open, setOpen] = useState(false);
+  const [askDiscard, setAskDiscard] = useState(false);
   const waivers = useQuery({ ...studentsQueries.waivers(), enabled: open });
   const current = waivers.data?.current ?? undefined;
   const { recordWaiver } = useStudentMutations();
   const form = useForm<FormValues, unknown, PaperWaiver>({ resolver: zodResolver(paperWaiverSchema), defaultValues: { fullName: student.name, signedOn: todayIn(timeZone) } });
   const e = form.formState.errors;
+  const dirty = open && form.formState.isDirty;
+  useWarnBeforeUnload(dirty);
+  const close = () => { form.reset(); setOpen(false); };
   if (!open)
     return (
       <Button variant="secondary" className="mt-3" onClick={() => setOpen(true)}>
@@ -38,16 +44,29 @@ export function PaperWaiverForm({ student, timeZone }: { student: Student; timeZ
     }),
   );
   return (
-    <form onSubmit={submit} noValidate aria-label="Record a paper waiver" className="mt-4 space-y-3 border-t border-line pt-4">
-      <p className="text-sm text-muted">
-        {waivers.isPending ? 'Loading the current waiver…' : waivers.isError ? errorMessage(waivers.error) : current ? <>Records that {student.name} signed version {current.version} of the waiver on paper. Keep the paper copy.</> : 'The owner has not published a waiver text yet, so none can be recorded.'}
-      </p>
-      <TextField label="Full name as signed" autoComplete="off" error={e.fullName?.message} {...form.register('fullName')} />
-      <TextField label="Signed on" type="date" max={todayIn(timeZone)} error={e.signedOn?.message} {...form.register('signedOn')} />
-      <div className="flex gap-2">
-        <Button type="submit" busy={recordWaiver.isPending} disabled={!current}>Record waiver</Button>
-        <Button type="button" variant="secondary" onClick={() => { form.reset(); setOpen(false); }}>Cancel</Button>
-      </div>
-    </form>
+    <>
+      <form onSubmit={submit} noValidate aria-label="Record a paper waiver" className="mt-4 space-y-3 border-t border-line pt-4">
+        <p className="text-sm text-muted">
+          {waivers.isPending ? 'Loading the current waiver…' : waivers.isError ? errorMessage(waivers.error) : current ? <>Records that {student.name} signed version {current.version} of the waiver on paper. Keep the paper copy.</> : 'The owner has not published a waiver text yet, so none can be recorded.'}
+        </p>
+        <TextField label="Full name as signed" autoComplete="off" error={e.fullName?.message} {...form.register('fullName')} />
+        <TextField label="Signed on" type="date" max={todayIn(timeZone)} error={e.signedOn?.message} {...form.register('signedOn')} />
+        <div className="flex gap-2">
+          <Button type="submit" busy={recordWaiver.isPending} disabled={!current}>Record waiver</Button>
+          <Button type="button" variant="secondary" onClick={() => (dirty ? setAskDiscard(true) : close())}>Cancel</Button>
+        </div>
+      </form>
+      {/* Outside the form: its buttons must never submit it. */}
+      <ConfirmDialog
+          open={askDiscard}
+          title="Discard this paper waiver?"
+          confirmLabel="Discard what I typed"
+          cancelLabel="Keep editing"
+          onCancel={() => setAskDiscard(false)}
+          onConfirm={() => { setAskDiscard(false); close(); }}
+        >
+          Nothing is recorded yet. Cancelling throws away the name and date you changed.
+        </ConfirmDialog>
+    </>
   );
 }

@@ -6,6 +6,7 @@ import { useNavigate } from 'react-router-dom';
 import { toast } from 'sonner';
 import { Button } from '../../../components/ui/button';
 import { ConfirmDialog } from '../../../components/ui/confirm';
+import { useWarnBeforeUnload } from '../../../lib/use-warn-before-unload';
 import { TextField } from '../../../components/ui/field';
 import { Sheet } from '../../../components/ui/sheet';
 import { ApiError, errorMessage } from '../../../lib/api-client';
@@ -54,12 +55,7 @@ function StudentForm({ student, onDone, onCancel, onDirty }: { student?: Student
   const isDirty = form.formState.isDirty;
   useEffect(() => onDirty(isDirty), [isDirty, onDirty]);
   // A reload or closing the tab with typed data asks too.
-  useEffect(() => {
-    if (!isDirty) return;
-    const warn = (e: BeforeUnloadEvent) => e.preventDefault();
-    window.addEventListener('beforeunload', warn);
-    return () => window.removeEventListener('beforeunload', warn);
-  }, [isDirty]);
+  useWarnBeforeUnload(isDirty);
   const onError = (err: unknown) => {
     if (err instanceof ApiError) {
       for (const [k, v] of Object.entries(err.fields)) if ((FIELDS as readonly string[]).includes(k)) form.setError(k as (typeof FIELDS)[number], { message: v });
