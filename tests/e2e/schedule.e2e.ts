@@ -234,7 +234,7 @@ describe('reception books and fixes classes on the schedule', () => {
     await suggestions.getByRole('button', { name: 'Swap in point SE-4 for point SE-1' }).click();
     await expect.poll(() => drawer.innerText(), { timeout: 20_000 }).toContain('Swapped SE-1 → SE-4');
     await desk.unroute('**/api/sessions/*/alternatives');
-    expect(await drawer.getByRole('status').innerText()).toContain('The class is all clear.');
+    expect(await drawer.getByRole('status').filter({ hasText: /\S/ }).innerText()).toContain('The class is all clear.');
     await expect.poll(() => drawer.getByText('All clear', { exact: true }).count()).toBeGreaterThan(0);
     expect(await drawer.getByRole('alert').filter({ hasText: 'At risk' }).count()).toBe(0);
     const booked = (await drawer.getByRole('region', { name: 'Booked points' }).getByRole('link').allInnerTexts()).sort();
@@ -303,8 +303,8 @@ describe('reception moves an at-risk class to another room', () => {
     expect((await apiCall<{ roomId: number }>(desk, baseUrl, 'GET', `/sessions/${booked.id}`)).roomId).toBe(loftId);
     await confirm.getByRole('button', { name: `Move to ${ANNEX}` }).click();
 
-    await expect.poll(() => drawer.getByRole('status').innerText(), { timeout: 20_000 }).toContain(`Moved to ${ANNEX} on point SA-1.`);
-    expect(await drawer.getByRole('status').innerText()).toContain('The class is all clear.');
+    await expect.poll(() => drawer.getByRole('status').filter({ hasText: /\S/ }).innerText(), { timeout: 20_000 }).toContain(`Moved to ${ANNEX} on point SA-1.`);
+    expect(await drawer.getByRole('status').filter({ hasText: /\S/ }).innerText()).toContain('The class is all clear.');
     await expect.poll(() => drawer.getByText('All clear', { exact: true }).count()).toBeGreaterThan(0);
     expect(await drawer.locator('dl').first().innerText()).toMatch(new RegExp(`Room\\s+${ANNEX}`));
     const points = await drawer.getByRole('region', { name: 'Booked points' }).getByRole('link').allInnerTexts();
