@@ -186,7 +186,7 @@ describe('the desk books without a catch', () => {
     await form.locator('label').filter({ hasText: 'This and the following' }).click();
     await shotScreen(desk, 'desk-swap-following');
     await form.getByRole('button', { name: 'Save points' }).click();
-    await expect.poll(() => drawer.getByRole('status').innerText()).toContain('for this and the following classes');
+    await expect.poll(() => drawer.getByRole('status').filter({ hasText: /\S/ }).innerText()).toContain('for this and the following classes');
     for (const id of series.sessionIds) expect((await apiCall<{ pointIds: number[] }>(desk, baseUrl, 'GET', `/sessions/${id}`)).pointIds).toEqual([points['DW-4']]);
   });
 
@@ -207,7 +207,7 @@ describe('the desk books without a catch', () => {
     await pointBox(form, 'DW-6').check();
     await shotScreen(desk, 'desk-move-with-point');
     await form.getByRole('button', { name: 'Move', exact: true }).click();
-    await expect.poll(() => drawer.getByRole('status').innerText()).toContain('Moved to');
+    await expect.poll(() => drawer.getByRole('status').filter({ hasText: /\S/ }).innerText()).toContain('Moved to');
     const after = await apiCall<{ pointIds: number[]; atRisk: boolean }>(desk, baseUrl, 'GET', `/sessions/${booked.id}`);
     expect(after).toMatchObject({ pointIds: [points['DW-6']], atRisk: false });
   });
