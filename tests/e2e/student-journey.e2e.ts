@@ -23,9 +23,18 @@ let className = '';
 const consoleErrors: string[] = [];
 const axeFindings: string[] = [];
 
+/**
+ * Toasts sit over the top of a phone screen for a few seconds, and a pointer resting on one keeps it
+ * there: move the pointer off and wait until they have gone.
+ */
+async function toastsGone(p: Page) {
+  await p.mouse.move(5, PHONE.height - 5);
+  for (let i = 0; i < 60 && (await p.locator('[data-sonner-toast]').count()) > 0; i++) await p.waitForTimeout(250);
+}
+
 async function axe(p: Page) {
   // Toasts come and go (sonner's own colours); the page is checked once they have gone.
-  for (let i = 0; i < 40 && (await p.locator('[data-sonner-toast]').count()) > 0; i++) await p.waitForTimeout(250);
+  await toastsGone(p);
   const { violations } = await new AxeBuilder({ page: p }).analyze();
   for (const v of violations) if (v.impact === 'serious' || v.impact === 'critical') axeFindings.push(`${new URL(p.url()).pathname}: ${v.id} (${v.impact}) ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
 }
@@ -140,6 +149,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
   });
 
   it('signs the waiver by typing the full name', async () => {
+    await toastsGone(page);
     await page.getByRole('link', { name: 'Waiver', exact: true }).click();
     await page.getByLabel('Type your full name to sign').fill(fullName);
     await shot(page, 'student-waiver');
@@ -151,6 +161,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
   });
 
   it('makes a calendar link on the account page', async () => {
+    await toastsGone(page);
     await page.getByRole('link', { name: 'Account', exact: true }).click();
     await page.getByRole('button', { name: 'Make my calendar link' }).click();
     const url = await page.getByTestId('feed-url').inputValue();
@@ -163,6 +174,7 @@ describe('a student books, signs the waiver and cancels on a phone', () => {
   });
 
   it('cancels the booking after confirming', async () => {
+    await toastsGone(page);
     await page.getByRole('link', { name: 'My bookings', exact: true }).click();
     const mine = page.getByTestId('my-booking').filter({ hasText: className }).first();
     await mine.getByRole('button', { name: /^Cancel / }).click();
