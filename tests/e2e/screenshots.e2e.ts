@@ -61,7 +61,7 @@ describe('a screenshot of every page at its role’s width', () => {
       const errors = watchConsole(context);
       const page = await context.newPage();
       await page.goto(`${baseUrl}/sign-in`);
-      await page.getByLabel('E-mail').waitFor();
+      await page.getByLabel('E-mail', { exact: true }).waitFor();
       await shot(page, `page-sign-in-${name}`);
       expect(errors).toEqual([]);
     }
