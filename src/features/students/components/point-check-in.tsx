@@ -1,11 +1,12 @@
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { CircleX, FileWarning, TriangleAlert, UserCheck } from 'lucide-react';
+import { CircleX, TriangleAlert, UserCheck } from 'lucide-react';
 import type { PlaceStatus } from '../../../../shared/schemas/vocabulary';
 import { ErrorState } from '../../../components/ui/states';
 import { errorMessage } from '../../../lib/api-client';
 import { useSignedIn } from '../../../app/use-me';
 import { studentsQueries, usePlaceMutations, type SessionBooking } from '../api';
+import { WaiverMissing } from './badges';
 
 const HOLDS: readonly PlaceStatus[] = ['booked', 'attended', 'no_show'];
 const CHECKERS = new Set(['instructor', 'reception', 'owner']);
@@ -76,11 +77,7 @@ function Student({ booking: b, canCheck }: { booking: SessionBooking; canCheck: 
     <li className="flex flex-wrap items-center gap-x-2 gap-y-1 py-1.5" data-testid={`checkin-student-${b.id}`}>
       <p className="flex min-w-0 flex-1 flex-wrap items-center gap-x-2 gap-y-0.5">
         <span className="text-base font-medium">{b.name}</span>
-        {b.waiverOk ? null : (
-          <span className="inline-flex items-center gap-1 rounded-full border border-stop-700/40 bg-stop-50 px-2 py-0.5 text-sm font-medium text-stop-700">
-            <FileWarning className="size-4" aria-hidden />No valid waiver
-          </span>
-        )}
+        {b.waiverOk ? null : <WaiverMissing />}
         {b.status === 'attended' ? <span className="inline-flex items-center gap-1 text-sm font-medium text-ok-700"><UserCheck className="size-4" aria-hidden />Attended</span> : null}
         {b.status === 'no_show' ? <span className="inline-flex items-center gap-1 text-sm font-medium text-stop-700"><CircleX className="size-4" aria-hidden />No-show</span> : null}
       </p>
