@@ -363,6 +363,35 @@ describe('instructor reminders', () => {
     expect((await rows({ id: digest.id }))[0].state).toBe('sent');
   });
 
+  it('keeps no sign-in link in the outbox once it has gone out or failed for good, and will not send a failed one again', async () => {
+    const outbox = outboxService({ db: ctx.db, clock: ctx.clock, studio: studioRepository(ctx.db), appUrl: APP_URL });
+    const link = `${APP_URL}/auth/callback/nodemailer?token=secret-token-1&email=s%40mail.test`;
+    const mail = (n: number) => ({ kind: 'sign_in_link' as const, uniqueKey: `sign_in_link:${n}`, to: ['s@mail.test'], subject: 'Your sign-in link', text: `Sign in: ${link}`, html: `<a href="${link}">Sign in</a>` });
+    await ctx.db.transaction((trx) => outbox.enqueue(trx, mail(1)));
+    await ctx.db.transaction((trx) => outbox.enqueue(trx, { kind: 'digest', uniqueKey: 'digest:kept', to: ['r@mail.test'], subject: 'Rigging digest', text: 'Nothing due', html: '<p>Nothing due</p>' }));
+    const w = worker();
+    await w.runOnce();
+    // The student got the link; the row that sent it no longer holds it. Other mail keeps its body.
+    expect(received(fake).find((m) => m.subject === 'Your sign-in link')?.text).toContain('secret-token-1');
+    const [sent] = await rows({ kind: 'sign_in_link' });
+    expect(sent.state).toBe('sent');
+    expect(`${sent.text_body}${sent.html_body}`).not.toContain('secret-token-1');
+    expect((await rows({ kind: 'digest' }))[0].text_body).toBe('Nothing due');
+
+    await ctx.db.transaction((trx) => outbox.enqueue(trx, mail(2)));
+    await fake.close();
+    for (let attempt = 1; attempt <= MAX_ATTEMPTS; attempt++) {
+      await w.runOnce();
+      ctx.clock.advance(retryDelayMs(attempt));
+    }
+    const failed = (await rows({ kind: 'sign_in_link' })).find((r) => r.state === 'failed')!;
+    expect(`${failed.text_body}${failed.html_body}`).not.toContain('secret-token-1');
+    const owner = await as(ctx, 'owner');
+    const again = await owner.post(`/api/outbox/${failed.id}/resend`);
+    expect(again.status).toBe(409);
+    expect(again.body.error.code).toBe('ask_for_new_link');
+  });
+
   it('writes a waiting reminder afresh as it goes out: a fault reported meanwhile and a new instructor', async () => {
     const s = await studio();
     const a = await point(s, 'A-1', '2026-11-29T10:00:00Z');

@@ -104,6 +104,16 @@ export function nextTry(m: Pick<OutboxMessage, 'kind' | 'sessionStartsAt'>, atte
   return { state: attempt >= MAX_ATTEMPTS ? 'failed' : 'queued', at };
 }
 
+/** What a sign-in link's row keeps once it has gone out or failed for good: no link to sign in by. */
+export const LINK_FORGOTTEN = 'A sign-in link was e-mailed here. The link itself is not kept.';
+
+/** Column updates that blank a sign-in link's body and leave every other kind's as it is. */
+function forgetLink(db: Db) {
+  const keepUnlessLink = (column: 'text_body' | 'html_body') =>
+    db.raw(`CASE WHEN kind = 'sign_in_link' THEN ? ELSE ${column} END`, [column === 'html_body' ? `<p>${LINK_FORGOTTEN}</p>` : LINK_FORGOTTEN]);
+  return { text_body: keepUnlessLink('text_body'), html_body: keepUnlessLink('html_body') };
+}
+
 export function outboxRepository(db: Db) {
   return {
     /** Inserts in the caller's transaction; a key already present is left as it is. Returns whether a row was added. */
@@ -162,8 +172,11 @@ export function outboxRepository(db: Db) {
       });
     },
 
+    /** Marks a message sent; a sign-in link's body is blanked then (the link is a credential and has done its job). */
     async markSent(id: number, now: Date): Promise<void> {
-      await db('outbox_messages').where({ id, state: 'sending' }).update({ state: 'sent', sent_at: now.toISOString(), lease_until: null, last_error: null });
+      await db('outbox_messages')
+        .where({ id, state: 'sending' })
+        .update({ state: 'sent', sent_at: now.toISOString(), lease_until: null, last_error: null, ...forgetLink(db) });
     },
 
     /** Records a failed attempt: back to the queue after a back-off while still useful (`nextTry`), else `failed`. Returns the new state. */
@@ -177,6 +190,7 @@ export function outboxRepository(db: Db) {
           last_error: error.slice(0, 1000),
           lease_until: null,
           next_attempt_at: next.at.toISOString(),
+          ...(next.state === 'failed' ? forgetLink(db) : {}),
         });
       return next.state;
     },

@@ -204,6 +204,7 @@ export function outboxService(deps: { db: Db; clock: Clock; studio: StudioReposi
         const m = await repo.byId(id, trx);
         if (!m) throw notFound('That message');
         if (m.state !== 'failed') throw conflict('not_failed', `Only a failed message can be sent again; this one is ${m.state}.`);
+        if (m.kind === 'sign_in_link') throw conflict('ask_for_new_link', 'A sign-in link is not kept once it fails; the student asks for a new one on the sign-in page.');
         if ((m.kind === 'reminder' || m.kind === 'at_risk') && m.sessionStartsAt && new Date(m.sessionStartsAt).getTime() <= now.getTime()) {
           throw conflict('no_longer_useful', 'Its class has already begun, so this message is no longer worth sending.');
         }

@@ -130,7 +130,9 @@ function OutboxTrouble({ filter, timeZone }: { filter: MailFilter; timeZone: str
                 <span className={`mr-2 font-medium ${m.state === 'failed' ? 'text-stop-700' : 'text-warn-700'}`}>{m.state === 'failed' ? 'Failed' : 'Waiting'}</span>
                 <span className="mr-1 text-muted">{outboxKindLabels[m.kind]}:</span> {m.subject} <span className="text-muted">to {m.to.join(', ')} · written {formatInZone(m.createdAt, timeZone)} · {m.attempts} attempt{m.attempts === 1 ? '' : 's'}{m.lastError ? ` · last error: ${m.lastError}` : ''}</span>
               </span>
-              {m.state === 'failed' ? (
+              {m.state === 'failed' && m.kind === 'sign_in_link' ? (
+                <span className="text-muted">Not kept: the student asks for a new link</span>
+              ) : m.state === 'failed' ? (
                 <Button variant="secondary" disabled={resend.isPending} onClick={() => setAsking(m)}>
                   Send again
                 </Button>
