@@ -50,7 +50,14 @@ async function startOnce(o: { dbFile: string; uploadDir: string; env?: Record<st
 }
 
 /** Signs in through Auth.js's credentials flow; returns the session cookie. */
-export async function signInTo(base: string, email: string): Promise<string> {
+export async function signInTo(base: string, email: string, password = TEST_PASSWORD): Promise<string> {
+  const { cookie } = await signInAttempt(base, email, password);
+  if (!cookie) throw new Error(`could not sign in as ${email}`);
+  return cookie;
+}
+
+/** One credentials sign-in as the form posts it: the answer's status and the session cookie ('' when refused). */
+export async function signInAttempt(base: string, email: string, password: string): Promise<{ status: number; cookie: string }> {
   const csrf = await fetch(`${base}/auth/csrf`);
   const { csrfToken } = (await csrf.json()) as { csrfToken: string };
   const cookie = (csrf.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).join('; ');
@@ -58,11 +65,10 @@ export async function signInTo(base: string, email: string): Promise<string> {
     method: 'POST',
     redirect: 'manual',
     headers: { 'Content-Type': 'application/x-www-form-urlencoded', cookie },
-    body: new URLSearchParams({ email, password: TEST_PASSWORD, csrfToken }),
+    body: new URLSearchParams({ email, password, csrfToken }),
   });
   const session = (res.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).find((c) => c.startsWith('authjs.session-token='));
-  if (!session) throw new Error(`could not sign in as ${email}`);
-  return session;
+  return { status: res.status, cookie: session ?? '' };
 }
 
 /** Resident memory now and at its peak since the process started, in MB (/proc/<pid>/status). */

@@ -7,8 +7,9 @@ import Database from 'better-sqlite3';
 import { createDb, migrate } from '../../server/db/knex';
 import { startFakeSmtp, type CaughtMessage, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { outboxMessageId } from '../../server/mail/deliver';
-import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_AUDIT_KEY, TEST_PASSWORD } from '../helpers/factories';
+import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_AUDIT_KEY } from '../helpers/factories';
 import { freePort } from '../helpers/free-port';
+import { signInTo } from '../helpers/child-server';
 
 // The real server as a child process, killed with SIGKILL mid-load again and again, restarted on
 // the same database: every acknowledged write must survive, the file must stay sound, and every
@@ -105,19 +106,6 @@ async function start(port: number): Promise<ChildProcess> {
   }
 }
 
-async function signIn(base: string, email: string): Promise<string> {
-  const csrf = await fetch(`${base}/auth/csrf`);
-  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
-  const cookie = (csrf.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).join('; ');
-  const res = await fetch(`${base}/auth/callback/credentials`, {
-    method: 'POST',
-    redirect: 'manual',
-    headers: { 'Content-Type': 'application/x-www-form-urlencoded', cookie },
-    body: new URLSearchParams({ email, password: TEST_PASSWORD, csrfToken }),
-  });
-  return (res.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).filter((c) => c.includes('session-token')).join('; ');
-}
-
 /** 18:00 UTC on the day `day` days from now, for an hour. */
 function eveningSlot(day: number) {
   const startsAt = new Date(Date.now() + day * DAY);
@@ -135,8 +123,8 @@ describe('crash safety', () => {
       const port = await freePort();
       const base = `http://127.0.0.1:${port}`;
       const child = await start(port);
-      const desk = await signIn(base, 'desk@crash.test');
-      const teacher = await signIn(base, 'teach@crash.test');
+      const desk = await signInTo(base, 'desk@crash.test');
+      const teacher = await signInTo(base, 'teach@crash.test');
       type Body = { id?: number; inspectionId?: number; startsAt?: string } | null;
       const call = (cookie: string, method: string, path: string, body?: unknown) =>
         fetch(base + path, { method, headers: { 'Content-Type': 'application/json', Origin: base, cookie }, body: body === undefined ? undefined : JSON.stringify(body) }).then(async (r) => ({ status: r.status, body: (await r.json().catch(() => null)) as Body }));

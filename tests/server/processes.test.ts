@@ -9,6 +9,7 @@ import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
 import { makePoint, makeRoom, makeStandardPath, makeUser, TEST_PASSWORD } from '../helpers/factories';
 import { freePort } from '../helpers/free-port';
 import { freshDatabase, onPostgres, type TestDatabase } from '../helpers/database';
+import { signInAttempt, signInTo } from '../helpers/child-server';
 
 // The real server as child processes (`tsx server/index.ts`) on one database: a SQLite file, or
 // PostgreSQL when TEST_DATABASE_URL is set.
@@ -103,23 +104,6 @@ async function untilServing(port: number, s: Started) {
   }
 }
 
-async function signIn(base: string, email: string, password = TEST_PASSWORD): Promise<string> {
-  return (await signInAttempt(base, email, password)).cookie;
-}
-
-async function signInAttempt(base: string, email: string, password: string): Promise<{ status: number; cookie: string }> {
-  const csrf = await fetch(`${base}/auth/csrf`);
-  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
-  const cookie = (csrf.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).join('; ');
-  const res = await fetch(`${base}/auth/callback/credentials`, {
-    method: 'POST',
-    redirect: 'manual',
-    headers: { 'Content-Type': 'application/x-www-form-urlencoded', cookie },
-    body: new URLSearchParams({ email, password, csrfToken }),
-  });
-  return { status: res.status, cookie: (res.headers.getSetCookie() ?? []).map((c) => c.split(';')[0]).filter((c) => c.includes('session-token')).join('; ') };
-}
-
 const stop = async (s: Started) => {
   if (s.child.exitCode === null) s.child.kill('SIGTERM');
   await s.exit;
@@ -159,7 +143,7 @@ describe(`two server processes on ${DB_NAME}`, () => {
     try {
       await Promise.all(ports.map((p, i) => untilServing(p, servers[i])));
       const bases = ports.map((p) => `http://127.0.0.1:${p}`);
-      const desks = await Promise.all(bases.map((b) => signIn(b, 'desk@processes.test')));
+      const desks = await Promise.all(bases.map((b) => signInTo(b, 'desk@processes.test')));
       const call = (i: number, method: string, path: string, body?: unknown) =>
         fetch(bases[i] + path, { method, headers: { 'Content-Type': 'application/json', Origin: bases[i], cookie: desks[i] }, body: body === undefined ? undefined : JSON.stringify(body) }).then(async (r) => ({
           status: r.status,
@@ -239,7 +223,7 @@ describe(`what several processes on ${DB_NAME} promise (PRODUCT.md §12)`, () =>
     }));
 
   it('book one point and slot 30 times at once through both: exactly one 201 and no 5xx', async () => {
-    const desks = await Promise.all(bases.map((b) => signIn(b, 'desk@processes.test')));
+    const desks = await Promise.all(bases.map((b) => signInTo(b, 'desk@processes.test')));
     const startsAt = new Date(Date.now() + 10 * DAY);
     startsAt.setUTCHours(12, 0, 0, 0);
     const endsAt = new Date(startsAt.getTime() + 3600_000);
@@ -265,7 +249,7 @@ describe(`what several processes on ${DB_NAME} promise (PRODUCT.md §12)`, () =>
   }, 60_000);
 
   it('block a point through the other process on the very next request once a fault is opened', async () => {
-    const riggers = await Promise.all(bases.map((b) => signIn(b, 'rigger@processes.test')));
+    const riggers = await Promise.all(bases.map((b) => signInTo(b, 'rigger@processes.test')));
     const statusOf = async (i: number) => {
       const r = await call(bases[i], riggers[i], 'GET', '/api/points');
       expect(r.status).toBe(200);
@@ -289,7 +273,7 @@ describe(`what several processes on ${DB_NAME} promise (PRODUCT.md §12)`, () =>
   }, 60_000);
 
   it('deliver each reminder exactly once though both run a mail worker', async () => {
-    const desks = await Promise.all(bases.map((b) => signIn(b, 'desk@processes.test')));
+    const desks = await Promise.all(bases.map((b) => signInTo(b, 'desk@processes.test')));
     // Classes inside the 2-hour lead [studio choice, policy default]: each gets one catch-up reminder at once.
     const booked: number[] = [];
     for (let k = 0; k < 4; k++) {
