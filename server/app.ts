@@ -181,7 +181,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   classTypesRoutes(api, classTypes);
   faultsRoutes(api, faults, docs, limits);
   inspectionsRoutes(api, inspections);
-  auditRoutes(api, audit, auditService({ db, audit, rig: rigRepo }));
+  auditRoutes(api, audit, auditService({ audit, rig: rigRepo, inspections: inspectionsRepo }));
   todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
   // Students and their places (PRODUCT.md §11): a change to a class tells its instructor (outbox)
   // and then its students, who also move with their points (places).

@@ -41,6 +41,30 @@ export interface ChainCheck {
   publishedHead?: ChainHead & { found: boolean; problem: string | null };
 }
 
+/** A point's label and clearance columns as stored (`points.last_cleared_at`, `clearance_voided_at`). */
+export interface PointAsStored {
+  id: number;
+  label: string;
+  lastClearedAt: string | null;
+  clearanceVoidedAt: string | null;
+}
+
+/** A `clearance_voids` row: the void of the clearance by inspection `inspectionId`. */
+export interface ClearanceVoidOnRecord {
+  inspectionId: number;
+  pointId: number;
+  at: string;
+  reason: string;
+}
+
+/** An audit entry of a clearance or of its void; `inspectionId` is NaN when the entry names none. */
+export interface ClearanceEntry {
+  action: 'point.cleared' | 'point.clearance_voided';
+  pointId: number;
+  at: string;
+  inspectionId: number;
+}
+
 /** The key chaining audit entries; kept outside the database (AUDIT_KEY or a file beside the auth secret). */
 export type AuditKey = string | Buffer;
 
@@ -226,6 +250,25 @@ export function auditRepository(db: Db, key?: AuditKey) {
       const actions = (await db('audit_entries').distinct('action').orderBy('action')) as Array<{ action: string }>;
       const entities = (await db('audit_entries').distinct('entity').orderBy('entity')) as Array<{ entity: string }>;
       return { actions: actions.map((r) => r.action), entities: entities.map((r) => r.entity) };
+    },
+
+    // ---- what the verify compares: the rows as stored, read raw (not through the rules that
+    // derive a status from them), since a hand edit of any of them is what it looks for.
+
+    /** Every point's label and stored clearance columns, by label. */
+    async pointsAsStored(trx: Db = db): Promise<PointAsStored[]> {
+      const rows = (await trx('points').orderBy('label').select('id', 'label', 'last_cleared_at', 'clearance_voided_at')) as Array<{ id: number; label: string; last_cleared_at: string | null; clearance_voided_at: string | null }>;
+      return rows.map((r) => ({ id: r.id, label: r.label, lastClearedAt: r.last_cleared_at, clearanceVoidedAt: r.clearance_voided_at }));
+    },
+    /** Every void of a clearance on record. */
+    async clearanceVoidsOnRecord(trx: Db = db): Promise<ClearanceVoidOnRecord[]> {
+      const rows = (await trx('clearance_voids').select('inspection_id', 'point_id', 'at', 'reason')) as Array<{ inspection_id: number; point_id: number; at: string; reason: string }>;
+      return rows.map((r) => ({ inspectionId: r.inspection_id, pointId: r.point_id, at: r.at, reason: r.reason }));
+    },
+    /** The chain's entries of clearances and their voids, with the inspection each names. */
+    async clearanceEntries(trx: Db = db): Promise<ClearanceEntry[]> {
+      const rows = (await trx('audit_entries').whereIn('action', ['point.cleared', 'point.clearance_voided']).select('action', 'entity_id', 'at', 'after_json')) as Array<{ action: ClearanceEntry['action']; entity_id: number; at: string; after_json: string | null }>;
+      return rows.map((r) => ({ action: r.action, pointId: r.entity_id, at: r.at, inspectionId: Number((JSON.parse(r.after_json ?? '{}') as { inspectionId?: number }).inspectionId) }));
     },
   };
 }

@@ -1,7 +1,7 @@
-import type { Db } from '../../db/knex';
 import { HttpError } from '../../http/errors';
 import type { RigRepository } from '../rig/rig.repository';
-import { parseHead, type AuditRepository, type ChainCheck } from './audit.repository';
+import type { InspectionsRepository } from '../inspections/inspections.repository';
+import { parseHead, type AuditRepository, type ChainCheck, type ClearanceEntry } from './audit.repository';
 
 export interface ClearanceMismatch {
   pointId: number;
@@ -24,26 +24,26 @@ const sameInstant = (a: string | null, b: string | null) => (a === null || b ===
  * of `points.last_cleared_at` cannot clear a point (the status reads the rows), and it is reported
  * here by the point's label.
  */
-export function auditService(deps: { db: Db; audit: AuditRepository; rig: RigRepository }) {
-  const { db, audit, rig } = deps;
+export function auditService(deps: { audit: AuditRepository; rig: Pick<RigRepository, 'clearanceStates'>; inspections: Pick<InspectionsRepository, 'clearancesOnRecord'> }) {
+  const { audit, rig, inspections } = deps;
 
   async function clearanceMismatches(): Promise<ClearanceMismatch[]> {
-    const points = (await db('points').orderBy('label').select('id', 'label', 'last_cleared_at', 'clearance_voided_at')) as Array<{ id: number; label: string; last_cleared_at: string | null; clearance_voided_at: string | null }>;
+    const points = await audit.pointsAsStored();
     const rows = await rig.clearanceStates('all');
     const out: ClearanceMismatch[] = [];
     for (const p of points) {
       const c = rows.get(p.id) ?? null;
       const say = (message: string) => out.push({ pointId: p.id, label: p.label, message: `Point ${p.label}: ${message}` });
-      if (!c && p.last_cleared_at) say(`marked cleared on ${p.last_cleared_at} with no inspection behind it.`);
-      else if (c && !p.last_cleared_at) say(`its clearance by inspection #${c.inspectionId} (${c.at}) is missing from the point’s record.`);
-      else if (c && !sameInstant(c.at, p.last_cleared_at)) say(`marked cleared on ${p.last_cleared_at}, but its latest clearance, inspection #${c.inspectionId}, was on ${c.at}.`);
+      if (!c && p.lastClearedAt) say(`marked cleared on ${p.lastClearedAt} with no inspection behind it.`);
+      else if (c && !p.lastClearedAt) say(`its clearance by inspection #${c.inspectionId} (${c.at}) is missing from the point’s record.`);
+      else if (c && !sameInstant(c.at, p.lastClearedAt)) say(`marked cleared on ${p.lastClearedAt}, but its latest clearance, inspection #${c.inspectionId}, was on ${c.at}.`);
       if (!c) {
-        if (p.clearance_voided_at) say(`marked voided on ${p.clearance_voided_at} with no clearance on record.`);
+        if (p.clearanceVoidedAt) say(`marked voided on ${p.clearanceVoidedAt} with no clearance on record.`);
         continue;
       }
-      if (c.voidedAt && !p.clearance_voided_at) say(`shown as cleared, but its clearance was voided on ${c.voidedAt}.`);
-      else if (!c.voidedAt && p.clearance_voided_at) say(`marked voided on ${p.clearance_voided_at} with no void on record.`);
-      else if (!sameInstant(c.voidedAt, p.clearance_voided_at)) say(`marked voided on ${p.clearance_voided_at}, but the void on record is of ${c.voidedAt}.`);
+      if (c.voidedAt && !p.clearanceVoidedAt) say(`shown as cleared, but its clearance was voided on ${c.voidedAt}.`);
+      else if (!c.voidedAt && p.clearanceVoidedAt) say(`marked voided on ${p.clearanceVoidedAt} with no void on record.`);
+      else if (!sameInstant(c.voidedAt, p.clearanceVoidedAt)) say(`marked voided on ${p.clearanceVoidedAt}, but the void on record is of ${c.voidedAt}.`);
     }
     return out;
   }
@@ -54,11 +54,11 @@ export function auditService(deps: { db: Db; audit: AuditRepository; rig: RigRep
    * or a void row deleted, is reported by the point's label.
    */
   async function recordsOutsideTheChain(): Promise<ClearanceMismatch[]> {
-    const labels = new Map(((await db('points').select('id', 'label')) as Array<{ id: number; label: string }>).map((p) => [p.id, p.label]));
-    const cleared = (await db('inspections').where('cleared', true).whereNotNull('point_id').select('id', 'point_id', 'inspected_at')) as Array<{ id: number; point_id: number; inspected_at: string }>;
-    const voids = (await db('clearance_voids').select('inspection_id', 'point_id', 'at', 'reason')) as Array<{ inspection_id: number; point_id: number; at: string; reason: string }>;
-    const audited = (await db('audit_entries').whereIn('action', ['point.cleared', 'point.clearance_voided']).select('action', 'entity_id', 'at', 'after_json')) as Array<{ action: string; entity_id: number; at: string; after_json: string | null }>;
-    const named = (action: string) => new Map(audited.filter((a) => a.action === action).map((a) => [Number((JSON.parse(a.after_json ?? '{}') as { inspectionId?: number }).inspectionId), a]));
+    const labels = new Map((await audit.pointsAsStored()).map((p) => [p.id, p.label]));
+    const cleared = await inspections.clearancesOnRecord();
+    const voids = await audit.clearanceVoidsOnRecord();
+    const audited = await audit.clearanceEntries();
+    const named = (action: ClearanceEntry['action']) => new Map(audited.filter((a) => a.action === action).map((a) => [a.inspectionId, a]));
     const clearedInChain = named('point.cleared');
     const voidsInChain = named('point.clearance_voided');
     const out: ClearanceMismatch[] = [];
@@ -67,12 +67,12 @@ export function auditService(deps: { db: Db; audit: AuditRepository; rig: RigRep
       out.push({ pointId, label, message: `Point ${label}: ${message}` });
     };
     const clearedIds = new Set(cleared.map((c) => c.id));
-    for (const c of cleared) if (!clearedInChain.has(c.id)) say(c.point_id, `inspection #${c.id} clearing it on ${c.inspected_at} is not in the audit chain: it was not recorded through Loftwise.`);
-    for (const [id, a] of clearedInChain) if (!clearedIds.has(id)) say(a.entity_id, `its clearance by inspection #${id} of ${a.at}, in the audit chain, is missing from the inspection records.`);
-    const voidIds = new Set(voids.map((v) => v.inspection_id));
+    for (const c of cleared) if (!clearedInChain.has(c.id)) say(c.pointId, `inspection #${c.id} clearing it on ${c.inspectedAt} is not in the audit chain: it was not recorded through Loftwise.`);
+    for (const [id, a] of clearedInChain) if (!clearedIds.has(id)) say(a.pointId, `its clearance by inspection #${id} of ${a.at}, in the audit chain, is missing from the inspection records.`);
+    const voidIds = new Set(voids.map((v) => v.inspectionId));
     // Voids carried over by migration 007 predate their audit entries; a void only ever blocks.
-    for (const v of voids) if (v.reason !== 'voided_before_records' && !voidsInChain.has(v.inspection_id)) say(v.point_id, `the void of its clearance on ${v.at} is not in the audit chain.`);
-    for (const [id, a] of voidsInChain) if (!voidIds.has(id)) say(a.entity_id, `the void of its clearance (inspection #${id}) on ${a.at}, in the audit chain, is missing from the records: the point may read as cleared.`);
+    for (const v of voids) if (v.reason !== 'voided_before_records' && !voidsInChain.has(v.inspectionId)) say(v.pointId, `the void of its clearance on ${v.at} is not in the audit chain.`);
+    for (const [id, a] of voidsInChain) if (!voidIds.has(id)) say(a.pointId, `the void of its clearance (inspection #${id}) on ${a.at}, in the audit chain, is missing from the records: the point may read as cleared.`);
     return out;
   }
 

@@ -194,6 +194,12 @@ export function inspectionsRepository(db: Db) {
       const rows = (await trx('inspections').where({ kind: 'pre_use', studio_day: studioDay }).groupBy('point_id').select('point_id', trx.raw('max(inspected_at) as at'))) as Array<{ point_id: number; at: string }>;
       return new Map(rows.map((r) => [r.point_id, r.at]));
     },
+
+    /** Every inspection that cleared a point, as stored (the audit verify matches each to its audit entry). */
+    async clearancesOnRecord(trx: Db = db): Promise<Array<{ id: number; pointId: number; inspectedAt: string }>> {
+      const rows = (await trx('inspections').where('cleared', true).whereNotNull('point_id').select('id', 'point_id', 'inspected_at')) as Array<{ id: number; point_id: number; inspected_at: string }>;
+      return rows.map((r) => ({ id: r.id, pointId: r.point_id, inspectedAt: r.inspected_at }));
+    },
   };
 }
 export type InspectionsRepository = ReturnType<typeof inspectionsRepository>;
