@@ -25,6 +25,7 @@ import { rigRepository } from './modules/rig/rig.repository';
 import { rigService } from './modules/rig/rig.service';
 import { rigRoutes } from './modules/rig/rig.router';
 import { documentsService } from './modules/documents/documents.service';
+import { documentsRepository } from './modules/documents/documents.repository';
 import { documentsRoutes } from './modules/documents/documents.router';
 import { classTypesRepository } from './modules/class-types/class-types.repository';
 import { classTypesService } from './modules/class-types/class-types.service';
@@ -160,7 +161,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const version = dataVersion(db);
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
   const rigRepo = rigRepository(db);
-  const docs = documentsService({ db, clock, uploadDir: deps.uploadDir, audit });
+  const docs = documentsService({ repo: documentsRepository(db), clock, uploadDir: deps.uploadDir, audit });
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
   const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });

@@ -9,6 +9,7 @@ import type { Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import { HttpError, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
+import type { DocumentRecord, DocumentsRepository, OwnerType } from './documents.repository';
 
 export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
 export const MAX_FILES = 6;
@@ -18,7 +19,7 @@ const HEAD_BYTES = 4100;
 /** Where uploads are streamed while the request is read, under UPLOAD_DIR (same disk, so storing is a rename). */
 export const INCOMING = '.incoming';
 
-export type OwnerType = 'point' | 'gear' | 'fault' | 'inspection';
+export type { OwnerType };
 
 /** An uploaded file as the upload engine leaves it on `req.files`. */
 export interface UploadedFile extends Express.Multer.File {
@@ -124,28 +125,16 @@ export function uploadMiddleware(uploadDir: string, field: string, maxCount = 1)
   };
 }
 
-interface DocRow {
-  id: number;
-  owner_type: OwnerType;
-  owner_id: number;
-  kind: string;
-  original_name: string;
-  stored_name: string;
-  mime: string;
-  size: number;
-  uploaded_at: string;
-}
-
-const toWire = (r: DocRow) => ({
-  id: r.id,
-  ownerType: r.owner_type,
-  ownerId: r.owner_id,
-  kind: r.kind,
-  originalName: r.original_name,
-  mime: r.mime,
-  size: r.size,
-  uploadedAt: r.uploaded_at,
-  url: `/api/documents/${r.id}/file`,
+const toWire = (d: DocumentRecord) => ({
+  id: d.id,
+  ownerType: d.ownerType,
+  ownerId: d.ownerId,
+  kind: d.kind,
+  originalName: d.originalName,
+  mime: d.mime,
+  size: d.size,
+  uploadedAt: d.uploadedAt,
+  url: `/api/documents/${d.id}/file`,
 });
 
 /** A display name with no path and no control characters. */
@@ -172,8 +161,8 @@ function storageReason(code: string | null): string {
   return 'the server could not write it';
 }
 
-export function documentsService(deps: { db: Db; clock: Clock; uploadDir: string; audit: AuditRepository }) {
-  const { db, clock, uploadDir } = deps;
+export function documentsService(deps: { repo: DocumentsRepository; clock: Clock; uploadDir: string; audit: AuditRepository }) {
+  const { repo, clock, uploadDir } = deps;
   mkdirSync(uploadDir, { recursive: true });
 
   /** Refuses the upload as a whole for an empty file or one that is not a PDF, JPEG or PNG (read from its first bytes). */
@@ -216,12 +205,9 @@ export function documentsService(deps: { db: Db; clock: Clock; uploadDir: string
           notStored.push({ name, reason: storageReason(f.writeError) });
           continue;
         }
-        const [row] = await trx('documents')
-          .insert({ owner_type: owner.type, owner_id: owner.id, kind, original_name: displayName(name, ext), stored_name: storedName, mime: f.detectedMime, size: f.size, uploaded_by: actorId, uploaded_at: clock.now().toISOString() })
-          .returning('*');
-        const doc = row as DocRow;
+        const doc = await repo.insert({ owner, kind, originalName: displayName(name, ext), storedName, mime: f.detectedMime!, size: f.size, uploadedBy: actorId }, clock.now(), trx);
         stored.push(toWire(doc));
-        await deps.audit.record(trx, { actorId, action: 'document.added', entity: 'document', entityId: doc.id, after: { ownerType: owner.type, ownerId: owner.id, kind, name: doc.original_name, mime: doc.mime, size: doc.size } }, clock.now());
+        await deps.audit.record(trx, { actorId, action: 'document.added', entity: 'document', entityId: doc.id, after: { ownerType: owner.type, ownerId: owner.id, kind, name: doc.originalName, mime: doc.mime, size: doc.size } }, clock.now());
       }
       return { stored, notStored };
     } catch (err) {
@@ -236,12 +222,12 @@ export function documentsService(deps: { db: Db; clock: Clock; uploadDir: string
     checkFiles,
     store,
     async list(owner: { type: OwnerType; id: number }) {
-      return (await db<DocRow>('documents').where({ owner_type: owner.type, owner_id: owner.id }).orderBy('uploaded_at', 'desc')).map(toWire);
+      return (await repo.forOwner(owner)).map(toWire);
     },
     async file(id: number) {
-      const row = await db<DocRow>('documents').where({ id }).first();
-      if (!row) throw notFound('That document');
-      return { path: join(uploadDir, row.stored_name), mime: row.mime, name: displayName(row.original_name, ALLOWED[row.mime]) };
+      const doc = await repo.byId(id);
+      if (!doc) throw notFound('That document');
+      return { path: join(uploadDir, doc.storedName), mime: doc.mime, name: displayName(doc.originalName, ALLOWED[doc.mime]) };
     },
   };
 }
