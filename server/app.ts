@@ -206,7 +206,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   // The student's side (PRODUCT.md §11): their own data through the places and students services,
   // their calendar feeds, the public timetable.
   myRoutes(api, myService({ db, clock, studio: studioRepo, places, students }));
-  const feeds = feedsService({ db, clock, appUrl: deps.appUrl, studio: studioRepo, sessions });
+  const feeds = feedsService({ db, clock, appUrl: deps.appUrl, studio: studioRepo, accounts: staffRepo, sessions });
   feedsRoutes(api, feeds);
 
   if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);

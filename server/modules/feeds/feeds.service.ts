@@ -3,6 +3,7 @@ import ical, { ICalEventStatus } from 'ical-generator';
 import { writeTransaction, type Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import type { StudioRepository } from '../studio/studio.repository';
+import type { StaffRepository } from '../staff/staff.repository';
 import type { SessionsService } from '../sessions/sessions.service';
 import type { CurrentUser } from '../../http/auth';
 import { HttpError } from '../../http/errors';
@@ -20,6 +21,8 @@ export interface FeedsDeps {
   clock: Clock;
   appUrl: string;
   studio: StudioRepository;
+  /** Accounts: an instructor's, and the student record a student's account is linked to. */
+  accounts: Pick<StaffRepository, 'byId' | 'studentIdOfAccount'>;
   sessions: Pick<SessionsService, 'list'>;
 }
 
@@ -35,9 +38,9 @@ export function feedsService(deps: FeedsDeps) {
   async function ownerOf(user: CurrentUser): Promise<FeedOwner> {
     if (user.role === 'instructor') return { userId: user.id };
     if (user.role === 'student') {
-      const row = (await db('users').where({ id: user.id }).first('student_id')) as { student_id: number | null } | undefined;
-      if (!row?.student_id) throw new HttpError(404, 'not_found', 'Your account is not linked to a student record.');
-      return { studentId: row.student_id };
+      const studentId = await deps.accounts.studentIdOfAccount(user.id);
+      if (!studentId) throw new HttpError(404, 'not_found', 'Your account is not linked to a student record.');
+      return { studentId };
     }
     throw new HttpError(403, 'forbidden', 'Calendar feeds are for instructors and students.');
   }
@@ -79,31 +82,10 @@ export function feedsService(deps: FeedsDeps) {
     const now = clock.now();
     const from = new Date(now.getTime() - FEED_WINDOW.pastDays * DAY).toISOString();
     const to = new Date(now.getTime() + FEED_WINDOW.aheadDays * DAY).toISOString();
-    const rows = (await db('places as pl')
-      .join('sessions as s', 's.id', 'pl.session_id')
-      .join('class_types as ct', 'ct.id', 's.class_type_id')
-      .join('rooms as r', 'r.id', 's.room_id')
-      .leftJoin('points as p', 'p.id', 'pl.point_id')
-      .where('pl.student_id', studentId)
-      .whereIn('pl.status', ['booked', 'waitlisted', 'attended'])
-      .andWhere('s.ends_at', '>', from)
-      .andWhere('s.starts_at', '<', to)
-      .orderBy('s.starts_at')
-      .orderBy('pl.id')
-      .select('pl.id as placeId', 'pl.status as status', 's.id as sessionId', 's.starts_at as startsAt', 's.ends_at as endsAt', 's.cancelled as cancelled', 'ct.name as className', 'r.name as roomName', 'p.label as pointLabel')) as Array<{
-      placeId: number;
-      status: string;
-      sessionId: number;
-      startsAt: string;
-      endsAt: string;
-      cancelled: number | boolean;
-      className: string;
-      roomName: string;
-      pointLabel: string | null;
-    }>;
+    const rows = await repo.studentPlacesBetween(studentId, from, to);
     const cal = ical({ name: `${studioName}: my classes`, timezone: policy.timeZone, prodId: { company: 'Loftwise', product: 'class-feed', language: 'EN' }, ttl: 15 * 60 });
     for (const r of rows) {
-      const cancelled = Boolean(r.cancelled);
+      const cancelled = r.cancelled;
       const waitlisted = r.status === 'waitlisted';
       cal.createEvent({
         id: `place-${r.placeId}@loftwise`,
@@ -146,7 +128,7 @@ export function feedsService(deps: FeedsDeps) {
       const owner = await repo.byHash(feedTokenHash(token));
       if (!owner) return null;
       if ('userId' in owner) {
-        const user = (await db('users').where({ id: owner.userId }).first('id', 'name', 'role', 'active')) as { id: number; name: string; role: string; active: number | boolean } | undefined;
+        const user = await deps.accounts.byId(owner.userId);
         if (!user || !user.active || user.role !== 'instructor') return null;
         return instructorCalendar(user.id, user.name);
       }

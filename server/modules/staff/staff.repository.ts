@@ -36,6 +36,11 @@ export function staffRepository(db: Db) {
       const row = await db<UserRow>('users').where({ id }).first();
       return row ? toUser(row) : null;
     },
+    /** The student record a student's account is linked to (null when none, or no such account). */
+    async studentIdOfAccount(id: number, trx: Db = db): Promise<number | null> {
+      const row = (await trx('users').where({ id }).first('student_id')) as { student_id: number | null } | undefined;
+      return row?.student_id ?? null;
+    },
     /** The person with the version a session cookie must carry (never part of a User on the wire). */
     async withSessionVersion(id: number): Promise<(User & { sessionVersion: number }) | null> {
       const row = await db<UserRow>('users').where({ id }).first();
