@@ -62,6 +62,7 @@ import { feedRoute, feedsRoutes } from './modules/feeds/feeds.router';
 import { publicService } from './modules/public/public.service';
 import { publicRoutes } from './modules/public/public.router';
 import { myService } from './modules/my/my.service';
+import { myRepository } from './modules/my/my.repository';
 import { myRoutes } from './modules/my/my.router';
 
 export interface AppDeps {
@@ -205,7 +206,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   app.locals.places = places;
   // The student's side (PRODUCT.md §11): their own data through the places and students services,
   // their calendar feeds, the public timetable.
-  myRoutes(api, myService({ db, clock, studio: studioRepo, places, students }));
+  myRoutes(api, myService({ clock, studio: studioRepo, repo: myRepository(db), accounts: staffRepo, studentRecords: studentsRepo, placeRecords: placesRepo, places, students }));
   const feeds = feedsService({ db, clock, appUrl: deps.appUrl, studio: studioRepo, accounts: staffRepo, sessions });
   feedsRoutes(api, feeds);
 

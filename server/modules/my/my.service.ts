@@ -1,8 +1,11 @@
-import type { Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import type { CurrentUser } from '../../http/auth';
 import { HttpError } from '../../http/errors';
 import type { StudioRepository } from '../studio/studio.repository';
+import type { StaffRepository } from '../staff/staff.repository';
+import type { StudentsRepository } from '../students/students.repository';
+import type { PlacesRepository } from '../places/places.repository';
+import type { MyRepository } from './my.repository';
 import type { BookingResult } from '../../../shared/schemas/places';
 import type { OnlineWaiver, Student, StudentDetail, WaiverAcceptance, WaiverVersion } from '../../../shared/schemas/students';
 import type { MyBooking, MyProfile, MyWaiver } from '../../../shared/schemas/my';
@@ -16,9 +19,13 @@ interface StudentActor {
 
 /** What the student's side asks of the places and students services (server/modules/places, students). */
 export interface MyDeps {
-  db: Db;
   clock: Clock;
   studio: StudioRepository;
+  repo: MyRepository;
+  /** The student record the caller's account is linked to. */
+  accounts: Pick<StaffRepository, 'studentIdOfAccount'>;
+  studentRecords: Pick<StudentsRepository, 'byId'>;
+  placeRecords: Pick<PlacesRepository, 'byId'>;
   places: {
     book(sessionId: number, body: { studentId: number }, actor: StudentActor): Promise<BookingResult>;
     cancel(placeId: number, actor: StudentActor): Promise<unknown>;
@@ -37,17 +44,16 @@ export interface MyDeps {
  * waitlist, cut-off, waiver validity) are the places and students services' own.
  */
 export function myService(deps: MyDeps) {
-  const { db, clock } = deps;
+  const { clock } = deps;
 
   /** The caller's student (following a merge to the student kept). */
   async function studentIdOf(user: CurrentUser): Promise<number> {
-    const row = (await db('users').where({ id: user.id }).first('student_id')) as { student_id: number | null } | undefined;
-    let id = row?.student_id ?? null;
+    let id = await deps.accounts.studentIdOfAccount(user.id);
     for (let hops = 0; id !== null && hops < 10; hops++) {
-      const s = (await db('students').where({ id }).first('id', 'merged_into_id')) as { id: number; merged_into_id: number | null } | undefined;
+      const s = await deps.studentRecords.byId(id);
       if (!s) break;
-      if (s.merged_into_id === null) return s.id;
-      id = s.merged_into_id;
+      if (s.mergedIntoId === null) return s.id;
+      id = s.mergedIntoId;
     }
     throw new HttpError(404, 'not_found', 'Your account is not linked to a student record. Please contact the studio.');
   }
@@ -64,9 +70,7 @@ export function myService(deps: MyDeps) {
       const { policy } = await deps.studio.get();
       const now = clock.now();
       const all = [...detail.upcoming, ...detail.past];
-      const rooms = new Map<number, string>(
-        ((await db('sessions').join('rooms', 'rooms.id', 'sessions.room_id').whereIn('sessions.id', [...new Set(all.map((b) => b.sessionId))]).select('sessions.id as id', 'rooms.name as name')) as Array<{ id: number; name: string }>).map((r) => [r.id, r.name]),
-      );
+      const rooms = await deps.repo.roomNamesOfSessions(all.map((b) => b.sessionId));
       const cutoffMs = policy.studentCancelCutoffHours * 3_600_000;
       return all.map((b) => {
         const startsAt = new Date(b.startsAt);
@@ -96,8 +100,8 @@ export function myService(deps: MyDeps) {
     /** Only the caller's own place: another student's answers 404, as one that does not exist. */
     async cancel(user: CurrentUser, placeId: number) {
       const studentId = await studentIdOf(user);
-      const owner = (await db('places').where({ id: placeId }).first('student_id')) as { student_id: number } | undefined;
-      if (!owner || owner.student_id !== studentId) throw new HttpError(404, 'not_found', 'There is no such booking of yours.');
+      const owner = await deps.placeRecords.byId(placeId);
+      if (!owner || owner.studentId !== studentId) throw new HttpError(404, 'not_found', 'There is no such booking of yours.');
       await deps.places.cancel(placeId, { userId: user.id, asStudentId: studentId });
       return (await this.bookings(user)).find((b) => b.id === placeId)!;
     },
