@@ -1,5 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { APP_URL, as, createTestApp, type TestContext } from '../helpers/app';
+import { APP_URL, as, createTestApp, signIn, withOrigin, type TestContext } from '../helpers/app';
+import { todaySchema } from '../../shared/schemas/today';
 import { runMailCycle } from '../../server/mail/worker';
 import { makePoint, makeRoom, makeStandardPath, makeUser } from '../helpers/factories';
 
@@ -317,5 +318,29 @@ describe('check-in', () => {
     const refused = await desk.post(`/api/bookings/${booking.body.id}/check-in`).send({ outcome: 'attended' });
     expect(refused.status).toBe(409);
     expect(refused.body.error.message).toMatch(/expired/);
+  });
+});
+
+describe('the Today board (GET /api/today)', () => {
+  it('carries each class’s students point by point as the board reads them, and a check-in shows on the next read', async () => {
+    const desk = await as(ctx, 'reception');
+    const s = await studio(2);
+    const sessionId = await bookClass(desk, s);
+    const booked: Array<{ id: number; pointId: number }> = [];
+    for (const name of ['Ada Board', 'Ben Board']) booked.push((await desk.post(`/api/sessions/${sessionId}/bookings`).send({ studentId: (await student(desk, name)).id })).body);
+    ctx.clock.set('2026-12-03T17:50:00Z');
+    const instructor = withOrigin((await signIn(ctx.app, s.instructor.email)).agent);
+
+    // The board's own schema (shared/schemas/today.ts) reads the answer: one request draws every class's students.
+    const read = async () => todaySchema.parse((await instructor.get('/api/today')).body).sessions.find((x) => x.id === sessionId)!;
+    const cls = await read();
+    const list = (await desk.get(`/api/sessions/${sessionId}/bookings`)).body as Array<{ id: number; name: string; pointId: number; status: string; waiverOk: boolean; withoutFitPlace: boolean }>;
+    const pick = (x: { name: string; pointId: number | null; status: string; waiverOk: boolean; withoutFitPlace: boolean }) => ({ name: x.name, pointId: x.pointId, status: x.status, waiverOk: x.waiverOk, withoutFitPlace: x.withoutFitPlace });
+    expect(cls.students.map((x) => ({ id: x.bookingId, ...pick(x) })).sort((a, b) => a.id - b.id)).toEqual(list.map((x) => ({ id: x.id, ...pick(x) })).sort((a, b) => a.id - b.id));
+    expect(cls.students.map((x) => [x.name, x.pointId, x.waiverOk]).sort()).toEqual([['Ada Board', booked[0].pointId, false], ['Ben Board', booked[1].pointId, false]]);
+
+    // A no-show needs no waiver; the board's next answer has it (the kept answer does not outlive the write).
+    expect((await instructor.post(`/api/bookings/${booked[0].id}/check-in`).send({ outcome: 'no_show' })).status).toBe(200);
+    expect((await read()).students.find((x) => x.bookingId === booked[0].id)?.status).toBe('no_show');
   });
 });

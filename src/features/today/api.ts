@@ -3,50 +3,12 @@ import { z } from 'zod';
 import { api } from '../../lib/api-client';
 import { studioQueries } from '../settings/api';
 import { reasonSchema } from '../../../shared/schemas/rig';
-import { changeoverSchema } from '../../../shared/schemas/sessions';
+import { todaySchema } from '../../../shared/schemas/today';
+import { pointStatuses } from '../../../shared/schemas/vocabulary';
 import type { PreuseBody } from '../../../shared/schemas/safety';
 
-// GET /api/today has no schema in shared/ yet; this is the part of it the board reads.
-const statusWord = z.enum(['cleared', 'expiring', 'blocked']);
-export const todayPointSchema = z.object({
-  pointId: z.number(),
-  label: z.string(),
-  roomName: z.string(),
-  status: statusWord,
-  clearedUntil: z.string().nullable(),
-  reasons: z.array(reasonSchema),
-  /** Gear whose own inspection would unblock the point (a quarantined item, the apparatus's own inspection). */
-  gearToInspect: z.array(z.object({ gearId: z.number(), kind: z.string(), serial: z.string(), inspection: z.enum(['after_incident', 'periodic']), standing: z.string() })).default([]),
-  preuseDue: z.boolean(),
-  lastPreuseAt: z.string().nullable(),
-});
-export type TodayPoint = z.infer<typeof todayPointSchema>;
-
-export const todaySessionSchema = z.object({
-  id: z.number(),
-  className: z.string(),
-  apparatus: z.string(),
-  roomName: z.string(),
-  instructorName: z.string(),
-  startsAt: z.string(),
-  endsAt: z.string(),
-  cancelled: z.boolean(),
-  cancelReason: z.string().nullable(),
-  atRisk: z.boolean(),
-  riskReasons: z.array(reasonSchema.extend({ pointId: z.number() })),
-  points: z.array(todayPointSchema),
-  /** Apparatus to mount before the class (PRODUCT.md §4.7). */
-  changeovers: z.array(changeoverSchema).default([]),
-});
-export type TodaySession = z.infer<typeof todaySessionSchema>;
-
-export const todaySchema = z.object({
-  studioDay: z.string(),
-  timeZone: z.string(),
-  sessions: z.array(todaySessionSchema),
-  points: z.array(todayPointSchema),
-});
-export type Today = z.infer<typeof todaySchema>;
+export type { Today, TodayPoint, TodaySession, TodayStudent } from '../../../shared/schemas/today';
+const statusWord = z.enum(pointStatuses);
 
 export const preuseListSchema = z.object({ items: z.array(z.object({ key: z.string(), label: z.string(), notApplicable: z.boolean().optional() })) });
 export const preuseResultSchema = z.object({
