@@ -226,9 +226,18 @@ describe('the desk books students onto points', () => {
 
 describe('the instructor checks students in on a phone', () => {
   const student = (name: string) => phone.getByTestId(`checkin-${sessionId}-${points.SD1}`).or(phone.getByTestId(`checkin-${sessionId}-${points.SD2}`)).locator('li').filter({ hasText: name });
+  // The check-in folds behind one "Check in" per class, so the class fits the phone's screen.
+  async function openCheckIn() {
+    const open = phone.getByTestId(`session-${sessionId}`).getByRole('button', { name: /^Check in/ });
+    await open.waitFor();
+    if ((await open.getAttribute('aria-expanded')) !== 'true') await open.click();
+  }
 
   it('flags the student without a waiver before class and refuses their check-in with the server’s words', async () => {
     await phone.goto(`${baseUrl}/today`);
+    // The missing waiver shows on the point's line before anything is opened.
+    await phone.getByTestId(`session-${sessionId}`).getByTestId('point-students').filter({ hasText: ALMA.name }).getByText('No valid waiver').waitFor();
+    await openCheckIn();
     const alma = student(ALMA.name);
     await alma.waitFor();
     await alma.getByText('No valid waiver').waitFor();
@@ -272,6 +281,7 @@ describe('the instructor checks students in on a phone', () => {
     await shot(desk, 'students-paper-waiver-recorded');
 
     await phone.reload();
+    await openCheckIn();
     const alma = student(ALMA.name);
     await alma.waitFor();
     expect(await alma.getByText('No valid waiver').count()).toBe(0);

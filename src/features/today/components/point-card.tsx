@@ -7,8 +7,8 @@ import { Loading } from '../../../components/ui/states';
 import { formatInZone } from '../../../components/ui/zoned-time';
 import { pointInspectionHelps } from '../../../../shared/clearance/gear-standing';
 import { gearKindLabels } from '../../../../shared/rigging/strength';
-import type { TodayPoint } from '../api';
-import { PointCheckIn } from '../../students/components/point-check-in';
+import type { TodayPoint, TodayStudent } from '../api';
+import { PointStudentsLine } from '../../students/components/point-check-in';
 
 // The checklist loads when a check is opened, so the board's first paint on a phone stays small.
 const PreuseCheck = lazy(() => import('./preuse-check').then((m) => ({ default: m.PreuseCheck })));
@@ -18,8 +18,11 @@ const gearWord = (g: { kind: string; serial: string }) => `${(gearKindLabels[g.k
 // Two actions side by side even on a phone, each a full 48 px high touch target.
 const big = 'flex min-h-12 items-center justify-center gap-1.5 rounded-lg px-2 py-2 text-sm font-semibold leading-tight sm:text-base';
 
-/** One booked point on the Today board: its status in large type, the pre-use check and a fault report, one tap each. */
-export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = false, showRoom = true, onReportFault }: { point: TodayPoint; timeZone: string; sessionId?: number; canCheck: boolean; canInspect?: boolean; showRoom?: boolean; onReportFault: (p: TodayPoint) => void }) {
+/**
+ * One booked point on the Today board: its status in large type, why it is blocked (always in words,
+ * never behind a tap), its students in one line, the pre-use check and a fault report, one tap each.
+ */
+export function PointCard({ point, timeZone, sessionId, students = [], canCheck, canInspect = false, showRoom = true, onReportFault }: { point: TodayPoint; timeZone: string; sessionId?: number; students?: TodayStudent[]; canCheck: boolean; canInspect?: boolean; showRoom?: boolean; onReportFault: (p: TodayPoint) => void }) {
   const [checking, setChecking] = useState(false);
   const opener = useRef<HTMLButtonElement>(null);
   const blocked = point.status === 'blocked';
@@ -27,46 +30,46 @@ export function PointCard({ point, timeZone, sessionId, canCheck, canInspect = f
     setChecking(false);
     requestAnimationFrame(() => opener.current?.focus());
   };
+  const due = point.preuseDue;
   return (
-    <li className={`rounded-xl border-2 bg-white p-3 ${blocked ? 'border-stop-700/50' : point.status === 'expiring' ? 'border-warn-700/40' : 'border-line'}`} data-testid={`point-card-${point.pointId}`}>
-      <div className="flex flex-wrap items-center justify-between gap-2">
-        <p className="text-xl font-semibold leading-tight">
-          {point.label}
-          {showRoom ? <span className="ml-2 text-sm font-normal text-muted">{point.roomName}</span> : null}
-        </p>
+    <li className={`rounded-xl border-2 bg-white p-2.5 ${blocked ? 'border-stop-700/50' : point.status === 'expiring' ? 'border-warn-700/40' : 'border-line'}`} data-testid={`point-card-${point.pointId}`}>
+      <div className="flex items-start justify-between gap-2">
+        <div className="min-w-0">
+          <p className="text-xl font-semibold leading-tight">
+            {point.label}
+            {showRoom ? <span className="ml-2 text-sm font-normal text-muted">{point.roomName}</span> : null}
+          </p>
+          {/* A blocked point takes no pre-use check, so its card does not ask for one. */}
+          {blocked ? (
+            <p className="mt-0.5 text-base font-semibold text-stop-700">Do not use this point.</p>
+          ) : (
+            <p className="mt-0.5 flex items-center gap-1.5 text-base font-medium" data-testid="preuse-state">
+              {due ? <><Clock className="size-5 shrink-0 text-warn-700" aria-hidden /> Pre-use check due</> : <><CircleCheck className="size-5 shrink-0 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>}
+            </p>
+          )}
+        </div>
         <StatusBadge status={point.status} large />
       </div>
       {point.reasons.length ? (
         <ul className="mt-1 space-y-0.5 text-sm text-stop-700">
           {point.reasons.map((r, i) => (
-            <li key={`${r.code}-${i}`} className="flex gap-2">
+            <li key={`${r.code}-${i}`} className="flex gap-1.5">
               <TriangleAlert className="mt-0.5 size-4 shrink-0" aria-hidden />
               <span>{r.message}</span>
             </li>
           ))}
         </ul>
       ) : null}
-      {/* A blocked point takes no pre-use check, so its card does not ask for one; the rest say both on one line. */}
-      {blocked ? null : (
-        <div className="mt-1 flex flex-wrap items-center gap-x-3 gap-y-0.5">
-          <p className="flex items-center gap-2 text-base font-medium" data-testid="preuse-state">
-            {point.preuseDue ? (
-              <><Clock className="size-5 text-warn-700" aria-hidden /> Pre-use check due</>
-            ) : (
-              <><CircleCheck className="size-5 text-ok-700" aria-hidden /> Checked at {formatInZone(point.lastPreuseAt, timeZone, 'time')}</>
-            )}
-          </p>
-          {point.clearedUntil ? <p className={`text-sm ${point.status === 'expiring' ? 'text-warn-700' : 'text-muted'}`}>Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p> : null}
-        </div>
-      )}
-      {sessionId !== undefined ? <PointCheckIn sessionId={sessionId} pointId={point.pointId} /> : null}
-      {blocked ? <p className="mt-1 text-sm font-medium text-stop-700">Do not use this point. Reception can move the class; {point.gearToInspect.length && !pointInspectionHelps(point) ? `a rigger has to inspect ${point.gearToInspect.map(gearWord).join(' and ')} first.` : 'a rigger has to clear the point first.'}</p> : null}
+      {blocked ? <p className="mt-1 text-sm font-medium text-stop-700">{point.gearToInspect.length && !pointInspectionHelps(point) ? `A rigger has to inspect ${point.gearToInspect.map(gearWord).join(' and ')} first.` : 'A rigger has to clear it first.'}</p> : null}
+      {/* The clearance's end matters to the class only when it is close (the point is expiring); a cleared point's badge says enough. */}
+      {point.status === 'expiring' && point.clearedUntil ? <p className="mt-1 text-sm font-medium text-warn-700">Cleared until {formatInZone(point.clearedUntil, timeZone, 'dateTime')}</p> : null}
+      <PointStudentsLine students={students} />
       {checking ? (
         <Suspense fallback={<div className="mt-3"><Loading label="Opening the pre-use check…" /></div>}>
           <PreuseCheck pointId={point.pointId} label={point.label} sessionId={sessionId} onClose={close} onDone={close} />
         </Suspense>
       ) : (
-        <div className="mt-3 grid grid-cols-2 gap-2">
+        <div className="mt-2 grid grid-cols-2 gap-2">
           {canCheck && !blocked ? (
             <button
               ref={opener}
