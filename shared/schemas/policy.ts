@@ -26,11 +26,13 @@ export const policySchema = z.object({
     straps: z.number().min(1).max(20),
     trapeze: z.number().min(1).max(20),
   }),
-  reminderLeadHours: z.array(z.number().min(0.25).max(24 * 14)).max(6),
+  reminderLeadHours: z
+    .array(z.number().min(0.25, 'Each reminder at least 0.25 hours (15 minutes) before class').max(24 * 14, 'Each reminder at most 336 hours (14 days) before class'))
+    .max(6, 'At most 6 reminders'),
   /** How long a signed waiver holds, in months (PRODUCT.md §11). */
   waiverValidMonths: z.number().int().min(1, 'At least one month').max(120, 'At most 120 months'),
   /** How many hours before class a student may still cancel their own place. */
-  studentCancelCutoffHours: z.number().min(0).max(24 * 14),
+  studentCancelCutoffHours: z.number().min(0, 'Zero hours or more (0: up to the start of the class)').max(24 * 14, 'At most 336 hours (14 days) before class'),
 });
 export type Policy = z.infer<typeof policySchema>;
 

@@ -5,7 +5,8 @@ import { apiCall, DESKTOP, openBrowser, pageErrors, withoutRefusals, shot, shotS
 /*
  * The desk renames, retires and brings back a class type (issue 14), at 1366 × 900; the owner
  * filters the Mailbox by kind and recipient, and the filter survives a reload. Every date on the
- * Mailbox is the studio's one format ("2 Dec 2026, 05:03"), never the browser's.
+ * Mailbox is the studio's one format ("2 Dec 2026, 05:03"), never the browser's. A settings value
+ * out of range is named beside its field in words, and nothing is saved.
  */
 
 const baseUrl = inject('baseUrl');
@@ -110,7 +111,48 @@ describe('the owner’s Mailbox', () => {
     await owner.waitForURL((u) => !u.search.includes('kind='));
     await expect.poll(() => caught.count()).toBeGreaterThanOrEqual(all);
   });
+});
 
+describe('the owner’s settings', () => {
+  it('says what is wrong beside a settings field, in words, and saves nothing', async () => {
+    if (!owner) {
+      owner = await browser.newPage();
+      await signInAs(owner, baseUrl, 'owner@loftwise.test');
+    }
+    const before = await apiCall<{ name: string; policy: { reminderLeadHours: number[]; studentCancelCutoffHours: number } }>(owner, baseUrl, 'GET', '/studio');
+    await owner.goto(`${baseUrl}/settings`);
+    const reminders = owner.getByLabel('Reminder lead times (hours before class)');
+    const cutoff = owner.getByLabel('Students cancel up to (hours before class)');
+    await reminders.waitFor();
+    /** The message the field points at (aria-describedby), once it is marked invalid. */
+    const messageOf = async (field: typeof reminders) => {
+      await expect.poll(() => field.getAttribute('aria-invalid')).toBe('true');
+      const id = (await field.getAttribute('aria-describedby'))!;
+      return owner.locator(`[id="${id}"]`).innerText();
+    };
+    // A reminder at 0 hours passes the list's shape; its value is out of range, and the field says so.
+    await reminders.fill('24, 0');
+    await cutoff.fill('400');
+    await owner.getByRole('button', { name: 'Save policy' }).click();
+    const reminderSays = await messageOf(reminders);
+    const cutoffSays = await messageOf(cutoff);
+    for (const said of [reminderSays, cutoffSays]) expect(said).not.toMatch(/Too (small|big)|expected|>=|<=|Invalid/);
+    expect(reminderSays).toBe('Each reminder at least 0.25 hours (15 minutes) before class');
+    expect(cutoffSays).toBe('At most 336 hours (14 days) before class');
+    await shotScreen(owner, 'settings-field-errors');
+    expect(await owner.getByRole('dialog', { name: 'Save this policy change?' }).count()).toBe(0);
+
+    // Nothing was saved: a reload shows the studio's values as they were.
+    await owner.reload();
+    await reminders.waitFor();
+    expect(await reminders.inputValue()).toBe(before.policy.reminderLeadHours.join(', '));
+    expect(Number(await cutoff.inputValue())).toBe(before.policy.studentCancelCutoffHours);
+    const after = await apiCall<typeof before>(owner, baseUrl, 'GET', '/studio');
+    expect(after.policy).toEqual(before.policy);
+  });
+});
+
+describe('the browser console', () => {
   it('showed no console error on any of these pages', () => {
     // 409: the rename to a name another type has, refused on purpose above.
     expect(withoutRefusals(pageErrors, [409])).toEqual([]);

@@ -127,3 +127,17 @@ describe('PATCH /api/studio with a required factor below 5', () => {
     expect((await rigger.get(`/api/points/${pointId}/load-check?classTypeId=${classTypeId}`)).body.requiredFactorReason).toBeNull();
   });
 });
+
+describe('PATCH /api/studio with a value out of range', () => {
+  it('names each field in words (a reminder at 0 hours, a cut-off past 14 days) and saves nothing', async () => {
+    const owner = await as(ctx, 'owner');
+    const res = await owner.patch('/api/studio').send({ policy: policyWith({ reminderLeadHours: [24, 0], studentCancelCutoffHours: 400 }) });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.fields).toEqual({
+      'policy.reminderLeadHours.1': 'Each reminder at least 0.25 hours (15 minutes) before class',
+      'policy.studentCancelCutoffHours': 'At most 336 hours (14 days) before class',
+    });
+    const policy = (await owner.get('/api/studio')).body.policy;
+    expect(policy).toMatchObject({ reminderLeadHours: defaultPolicy.reminderLeadHours, studentCancelCutoffHours: defaultPolicy.studentCancelCutoffHours });
+  });
+});

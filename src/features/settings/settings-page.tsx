@@ -5,7 +5,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { toast } from 'sonner';
 import { z } from 'zod';
 import { strictPolicyFields, type PolicyPreview } from '../../../shared/schemas/studio';
-import { defaultPolicy, FACTOR_NEEDS_REASON_BELOW, requireFactorReason, type Policy } from '../../../shared/schemas/policy';
+import { defaultPolicy, FACTOR_NEEDS_REASON_BELOW, policySchema, requireFactorReason, type Policy } from '../../../shared/schemas/policy';
 import { formatFactor, formatRequiredFactor } from '../../../shared/rigging';
 import { units } from '../../../shared/schemas/vocabulary';
 import { Button } from '../../components/ui/button';
@@ -31,11 +31,20 @@ const SOURCES = {
   cutoff: `Studio choice. Default ${defaultPolicy.studentCancelCutoffHours}; the desk may cancel any time.`,
 };
 
+const leadHours = (text: string) => text.split(',').map((h) => Number(h.trim()));
+
 const formSchema = z.object({
   name: z.string().trim().min(1, 'Enter the studio name').max(120),
   policy: strictPolicyFields
     .extend({
-      reminderLeadHours: z.string().regex(/^\s*\d+(\.\d+)?(\s*,\s*\d+(\.\d+)?)*\s*$/, 'List hours separated by commas, e.g. 24, 2'),
+      reminderLeadHours: z
+        .string()
+        .regex(/^\s*\d+(\.\d+)?(\s*,\s*\d+(\.\d+)?)*\s*$/, 'List hours separated by commas, e.g. 24, 2')
+        // Each hour within the policy's own limits, worded by the policy schema, so the field says it before the server does.
+        .superRefine((text, ctx) => {
+          const checked = policySchema.shape.reminderLeadHours.safeParse(leadHours(text));
+          if (!checked.success) ctx.addIssue({ code: 'custom', message: checked.error.issues[0].message });
+        }),
     })
     .superRefine(requireFactorReason),
 });
@@ -67,7 +76,8 @@ function SettingsForm({ name, policy }: { name: string; policy: Policy }) {
   const factor = form.watch('policy.requiredFactor');
   const needsReason = Number.isFinite(factor) && factor < FACTOR_NEEDS_REASON_BELOW;
   const onError = (err: unknown) => {
-    if (err instanceof ApiError) for (const [k, m] of Object.entries(err.fields)) form.setError(k as never, { message: m });
+    // A message about one item of a list (`policy.reminderLeadHours.1`) belongs to the list's field.
+    if (err instanceof ApiError) for (const [k, m] of Object.entries(err.fields)) form.setError(k.replace(/(\.\d+)+$/, '') as never, { message: m });
     toast.error(errorMessage(err));
   };
   const store = (body: Pending['body']) =>
@@ -80,7 +90,7 @@ function SettingsForm({ name, policy }: { name: string; policy: Policy }) {
     const proposed: Policy = {
       ...v.policy,
       requiredFactorReason: v.policy.requiredFactor < FACTOR_NEEDS_REASON_BELOW ? (v.policy.requiredFactorReason ?? '').trim() || null : null,
-      reminderLeadHours: v.policy.reminderLeadHours.split(',').map((s) => Number(s.trim())),
+      reminderLeadHours: leadHours(v.policy.reminderLeadHours),
     };
     const body = { name: v.name, policy: proposed };
     const changes = describePolicyChanges(policy, proposed);
