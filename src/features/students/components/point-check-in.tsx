@@ -89,7 +89,7 @@ export function ClassCheckIn({ session }: { session: TodaySession }) {
       <button
         type="button"
         aria-expanded={open}
-        aria-controls={listId}
+        aria-controls={open ? listId : undefined}
         onClick={() => setOpen((o) => !o)}
         className="flex min-h-12 w-full items-center justify-between gap-2 rounded-lg border-2 border-pine-700 bg-white px-3 text-left font-semibold text-pine-800 hover:bg-pine-50"
       >
