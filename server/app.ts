@@ -55,6 +55,7 @@ import { placesRoutes } from './modules/places/places.router';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
+import { heavyWork } from './http/heavy-work';
 import { DEFAULT_PERSON_LIMITS, personLimiters, type PersonLimits } from './http/person-limits';
 import { signInLinkGuard, studentAccounts, studentEmailProvider } from './modules/my/student-sign-in';
 import { feedsService } from './modules/feeds/feeds.service';
@@ -161,11 +162,14 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
   const version = dataVersion(db);
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
+  // Heavy answers worked out afresh (calendar ranges, Today, the rig list) one at a time, in pieces (server/http/heavy-work.ts).
+  const heavy = heavyWork();
+  app.locals.heavy = heavy;
   const rigRepo = rigRepository(db);
   const docs = documentsService({ repo: documentsRepository(db), clock, uploadDir: deps.uploadDir, audit });
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
-  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived });
+  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived, heavy });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   // What each class kept of its points as it started (PRODUCT.md §10); the exports read them too.
@@ -184,7 +188,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   faultsRoutes(api, faults, docs, limits);
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit, auditService({ audit, rig: rigRepo, inspections: inspectionsRepo }));
-  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived }));
+  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived, heavy }));
   // Students and their places (PRODUCT.md §11): a change to a class tells its instructor (outbox)
   // and then its students, who also move with their points (places).
   const sessionsRepo = sessionsRepository(db);
@@ -198,8 +202,8 @@ export function createApp(deps: AppDeps): LoftwiseApp {
       await places.sessionChanged(trx, change);
     },
   };
-  const sessions = sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records });
-  sessionsRoutes(api, sessions, places);
+  const sessions = sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records, heavy, places: placesRepo });
+  sessionsRoutes(api, sessions);
   studentsRoutes(api, students);
   placesRoutes(api, places);
   app.locals.students = students;
@@ -213,7 +217,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   if (deps.benchBaselineDbFile) benchBaselineRoutes(api, deps.benchBaselineDbFile);
 
   app.get('/api/health', (_req, res) => void res.json({ status: 'ok' }));
-  publicRoutes(app, publicService({ db, clock, studio: studioRepo, sessions, places }));
+  publicRoutes(app, publicService({ db, clock, studio: studioRepo, sessions }));
   feedRoute(app, feeds);
   app.use(
     '/api',

@@ -103,38 +103,6 @@ export function placesService(deps: { db: Db; repo: PlacesRepository; students: 
   return {
     stateOf,
 
-    /** What the session view gains: capacity, places left, booked, waitlisted, who is without a fit place, students per point. */
-    async summaryFor(sessionId: number): Promise<Omit<PlacesSummary, 'points'>> {
-      const s = await sessionOrThrow(sessionId);
-      const { policy } = await studio.get();
-      const { points: _points, ...summary } = (await stateOf(s, policy, clock.now())).summary;
-      return summary;
-    },
-
-    /** Counts and places left of the classes overlapping a range (the calendar, the public timetable), by class. */
-    async summariesInRange(q: { from: Date; to: Date; roomId?: number; instructorId?: number }) {
-      return this.summaries(await sessions.list(q));
-    },
-
-    /** The same for many classes: counts and places left only. */
-    async summaries(list: SessionRecord[]): Promise<Map<number, { capacity: number; placesLeft: number; booked: number; waitlisted: number; withoutFitPlace: PlacesSummary['withoutFitPlace'] }>> {
-      const { policy } = await studio.get();
-      const now = clock.now();
-      const out = new Map<number, { capacity: number; placesLeft: number; booked: number; waitlisted: number; withoutFitPlace: PlacesSummary['withoutFitPlace'] }>();
-      if (!list.length) return out;
-      const ids = [...new Set(list.flatMap((s) => s.pointIds))];
-      const bundles = new Map<number, SnapshotBundle>(ids.length ? (await loadSnapshots(db, rig, { ids })).map((b) => [b.point.id, b]) : []);
-      const recorded = await loadRecorded(rig, list, db);
-      const live = await repo.liveForSessions(list.map((s) => s.id));
-      const labels = new Map([...bundles.values()].map((b) => [b.point.id, b.point.label]));
-      for (const s of list) {
-        const unfit = unfitReasons(s, hangingOf(s, bundles, recorded), policy, now, new Date(s.endsAt));
-        const { capacity, placesLeft, booked, waitlisted, withoutFitPlace } = summarise({ cls: s, capacity: s.capacity, cancelled: s.cancelled, labels, unfit, places: live.get(s.id) ?? [] });
-        out.set(s.id, { capacity, placesLeft, booked, waitlisted, withoutFitPlace });
-      }
-      return out;
-    },
-
     /** `GET /api/sessions/:id/bookings`: booked (by point), then the waitlist in order, then the cancelled. */
     async listForSession(sessionId: number): Promise<SessionBooking[]> {
       const s = await sessionOrThrow(sessionId);

@@ -3,14 +3,13 @@ import type { Clock } from '../../clock';
 import type { SessionsService } from '../sessions/sessions.service';
 import type { PublicClass, PublicStudio, PublicTimetableQuery } from '../../../shared/schemas/my';
 import type { StudioRepository } from '../studio/studio.repository';
-import type { PlacesService } from '../places/places.service';
 
 /**
  * The public timetable (PRODUCT.md §11): upcoming classes with the places left, answered without
  * sign-in. Each entry is built field by field from the session, so no name, e-mail, room or point
  * of anyone can reach it.
  */
-export function publicService(deps: { db: Db; clock: Clock; studio: StudioRepository; sessions: Pick<SessionsService, 'list'>; places: Pick<PlacesService, 'summariesInRange'> }) {
+export function publicService(deps: { db: Db; clock: Clock; studio: StudioRepository; sessions: Pick<SessionsService, 'list'> }) {
   return {
     async studio(): Promise<PublicStudio> {
       const { name, policy } = await deps.studio.get();
@@ -18,9 +17,8 @@ export function publicService(deps: { db: Db; clock: Clock; studio: StudioReposi
     },
     async timetable(q: PublicTimetableQuery): Promise<PublicClass[]> {
       const now = deps.clock.now().getTime();
+      // Places left as the desk sees them (PRODUCT.md §11: capacity less the places taken), from the sessions' own view.
       const sessions = await deps.sessions.list({ from: q.from, to: q.to });
-      // Places left as the desk sees them (PRODUCT.md §11: capacity less the places taken).
-      const counts = await deps.places.summariesInRange({ from: new Date(q.from), to: new Date(q.to) });
       return sessions
         .filter((s) => !s.cancelled && new Date(s.startsAt).getTime() > now)
         .map((s) => ({
@@ -29,7 +27,7 @@ export function publicService(deps: { db: Db; clock: Clock; studio: StudioReposi
           apparatus: s.apparatus as PublicClass['apparatus'],
           startsAt: s.startsAt,
           endsAt: s.endsAt,
-          placesLeft: Math.max(0, counts.get(s.id)?.placesLeft ?? s.places),
+          placesLeft: Math.max(0, 'placesLeft' in s ? (s.placesLeft as number) : s.places),
         }));
     },
   };

@@ -3,22 +3,12 @@ import { idParams } from '../../../shared/schemas/common';
 import { availabilityQuery, cancelSessionSchema, createSessionSchema, sessionListQuery, swapPointsSchema, updateSessionSchema } from '../../../shared/schemas/sessions';
 import { inspectionLogFilters } from '../../../shared/schemas/safety';
 import type { SessionsService } from './sessions.service';
-import type { PlacesService } from '../places/places.service';
 
 const DESK = ['reception', 'owner'] as const;
 
-export function sessionsRoutes(api: ApiRouter, sessions: SessionsService, places?: PlacesService) {
-  // Each class with its places (PRODUCT.md §11): capacity, places left, booked, waitlisted.
-  api.get('/sessions', {
-    access: 'signed_in',
-    query: sessionListQuery,
-    handler: async ({ query }) => {
-      const list = await sessions.list(query);
-      if (!places) return list;
-      const counts = await places.summariesInRange({ from: new Date(query.from), to: new Date(query.to), roomId: query.roomId, instructorId: query.instructorId });
-      return list.map((s) => ({ ...s, ...counts.get(s.id) }));
-    },
-  });
+export function sessionsRoutes(api: ApiRouter, sessions: SessionsService) {
+  // Each class with its places (PRODUCT.md §11): capacity, places left, booked, waitlisted (worked out in the view).
+  api.get('/sessions', { access: 'signed_in', query: sessionListQuery, handler: ({ query }) => sessions.list(query) });
   api.get('/sessions/availability', { access: 'signed_in', query: availabilityQuery, handler: ({ query }) => sessions.availability(query) });
   // The classes held in a range as recorded at their start, streamed (PRODUCT.md §10); the log's filters, same access as its export.
   api.get('/sessions/records/export.csv', {
@@ -30,14 +20,7 @@ export function sessionsRoutes(api: ApiRouter, sessions: SessionsService, places
       return undefined;
     },
   });
-  api.get('/sessions/:id', {
-    access: 'signed_in',
-    params: idParams,
-    handler: async ({ params }) => {
-      const view = await sessions.get(params.id);
-      return places ? { ...view, ...(await places.summaryFor(params.id)) } : view;
-    },
-  });
+  api.get('/sessions/:id', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.get(params.id) });
   api.get('/sessions/:id/alternatives', { access: 'signed_in', params: idParams, handler: ({ params }) => sessions.alternatives(params.id) });
   api.post('/sessions', { access: DESK, body: createSessionSchema, status: 201, handler: ({ body, user }) => sessions.create(body, user.id) });
   api.patch('/sessions/:id', { access: DESK, params: idParams, body: updateSessionSchema, handler: ({ params, body, user }) => sessions.update(params.id, body, user.id) });

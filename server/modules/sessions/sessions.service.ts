@@ -6,11 +6,12 @@ import type { AuditRepository } from '../audit/audit.repository';
 import type { StudioRepository } from '../studio/studio.repository';
 import type { RigRepository } from '../rig/rig.repository';
 import { loadApparatus, loadSnapshots, type ApparatusBundle, type SnapshotBundle } from '../rig/point-snapshots';
-import { apparatusWire, changeoversOf, hangingOf, loadRecorded, riskOf } from './session-rig';
-import { statusWire } from '../rig/rig.service';
+import { loadRecorded } from './session-rig';
+import { sessionView } from './session-view';
+import type { PlacesRepository } from '../places/places.repository';
 import type { ClassTypesRepository } from '../class-types/class-types.repository';
 import { profileFor } from '../class-types/class-types.service';
-import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, formatStudioDay, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, placesFromRecords, pointStatusAt, pointStatusOver, reasonCodes, splitPath, type Reason, type ValidityTracker } from '../../../shared/clearance';
+import { apparatusUnfitReasons, bookingReasons, formatStudioDateTime, formatStudioDay, byStrength, gearName, hangFor, instructorReasons, noApparatusReason, reasonCodes, splitPath, type Reason } from '../../../shared/clearance';
 import { expandSeries, RecurrenceError } from '../../../shared/schedule/recurrence';
 import { shiftWallClock, wallClockDelta } from '../../../shared/schedule/wall-clock';
 import type { Policy } from '../../../shared/schemas/policy';
@@ -19,7 +20,7 @@ import type { AvailabilityQuery, CancelSession, CreateSession, SessionListQuery,
 import type { ApparatusChoice, SessionRecord, SessionsRepository } from './sessions.repository';
 import { deriveInPieces, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 import { unboundedWork, type HeavyWork } from '../../http/heavy-work';
-import { sessionRecords, type SessionPointRecord, type SessionRecords } from './session-records';
+import { sessionRecords, type SessionRecords } from './session-records';
 import type { Writable } from 'node:stream';
 import type { InspectionLogFilters } from '../../../shared/schemas/safety';
 import { streamHeldCsv } from './classes-held-export';
@@ -48,7 +49,7 @@ const SESSIONS_PER_PIECE = 40;
 
 const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
 
-export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords; heavy?: HeavyWork }) {
+export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords; heavy?: HeavyWork; places?: Pick<PlacesRepository, 'liveForSessions'> }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
   const heavy = deps.heavy ?? unboundedWork;
   const records = deps.records ?? sessionRecords({ db, rig, studio });
@@ -170,33 +171,6 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
   /** A refused point as the 409 lists it: its reasons and warnings (the apparatus it would have hung is moot). */
   const refusedPoint = <P extends { pointId: number; reasons: Reason[] }>({ apparatus: _a, ...p }: P & { apparatus?: unknown }) => p;
 
-  /**
-   * The wire view: each point's status at the session's time as it hangs for the class, at risk,
-   * changeovers, places. A class that has started shows what was kept at its start (PRODUCT.md §10),
-   * never today's status: its points and what hung on them come from the record.
-   */
-  function view(s: SessionRecord, bundles: Map<number, SnapshotBundle>, recorded: Map<number, ApparatusBundle>, policy: Policy, now: Date, track?: ValidityTracker, kept?: Map<number, SessionPointRecord[]>) {
-    const startsAt = new Date(s.startsAt);
-    const endsAt = new Date(s.endsAt);
-    const at = startsAt > now ? startsAt : now;
-    const hung = hangingOf(s, bundles, recorded);
-    track?.session({ startsAt, endsAt, points: hung.map((h) => h.hanging.snapshot) });
-    const risk = riskOf(s, hung, policy, now, { startsAt, endsAt, cancelled: s.cancelled });
-    const live = !s.cancelled && endsAt > now;
-    const inspectionDue = live && hung.some((h) => pointStatusOver(h.hanging.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
-    const { recordedApparatus: _recorded, ...record } = s;
-    if (startsAt <= now) {
-      const records = (kept?.get(s.id) ?? []).filter((r) => r.startsAt === s.startsAt);
-      const points = records.map((r) => ({ pointId: r.pointId, label: r.label, status: r.status, clearedUntil: r.clearedUntil, reasons: r.reasons, apparatus: r.apparatus, recordedAt: r.recordedAt }));
-      const hanging = records.map((r) => ({ pointId: r.pointId, gearId: r.apparatus?.gearId ?? null, kind: r.apparatus?.kind ?? null, serial: r.apparatus?.serial ?? null, mounted: r.apparatus !== null }));
-      return { ...record, points, hanging, changeovers: [], atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placesFromRecords(records, s.capacity, s.cancelled), recordedAtStart: true };
-    }
-    const points = hung.map((h) => ({ pointId: h.bundle.point.id, label: h.bundle.point.label, ...statusWire(pointStatusAt(h.hanging.snapshot, policy, at)) }));
-    const places = s.cancelled ? 0 : Math.min(s.capacity, points.filter((p) => p.status !== 'blocked').length);
-    const changeovers = !s.cancelled ? changeoversOf(hung, startsAt, policy.timeZone, true) : [];
-    return { ...record, points, hanging: apparatusWire(hung), changeovers, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places, recordedAtStart: false };
-  }
-
   /** The kept records of the sessions that have started by `now` (kept first where a worker cycle has not yet). */
   const startRecords = (sessions: SessionRecord[], now: Date) => records.ensure(sessions.filter((s) => new Date(s.startsAt) <= now).map((s) => s.id), now);
 
@@ -264,11 +238,13 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
           const kept = await startRecords(sessions, now);
           const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
           const recorded = await loadRecorded(rig, sessions, db);
+          const live = await deps.places?.liveForSessions(sessions.map((s) => s.id));
           return deriveInPieces(policy, now, async (track) => {
             const views = [];
+            const context = { bundles, recorded, policy, now: track.now, track, kept, live };
             for (let i = 0; i < sessions.length; i += SESSIONS_PER_PIECE) {
               await heavy.pause();
-              for (const s of sessions.slice(i, i + SESSIONS_PER_PIECE)) views.push(view(s, bundles, recorded, policy, track.now, track, kept));
+              for (const s of sessions.slice(i, i + SESSIONS_PER_PIECE)) views.push(sessionView(s, context));
             }
             return views;
           });
@@ -281,7 +257,8 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
       const { policy } = await studio.get();
       const now = clock.now();
       const kept = await startRecords([s], now);
-      return view(s, await bundlesFor(s.pointIds), await loadRecorded(rig, [s], db), policy, now, undefined, kept);
+      const live = await deps.places?.liveForSessions([s.id]);
+      return sessionView(s, { bundles: await bundlesFor(s.pointIds), recorded: await loadRecorded(rig, [s], db), policy, now, kept, live, pointStudents: true });
     },
 
     /**
