@@ -4,6 +4,7 @@ import type { DataVersion } from './data-version';
 import type { Policy } from '../../shared/schemas/policy';
 import { freezeDeep } from '../../shared/freeze';
 import { stillValid, validityTracker, type ValidityTracker } from '../../shared/clearance/validity';
+import { CallerGone, currentCaller, runForCaller, sharedCaller } from '../http/caller';
 
 /** What a cached computation returns: the answer, and until when it holds with the data unchanged. */
 export interface Derived<T> {
@@ -61,7 +62,7 @@ export function derivedCache(deps: { version: DataVersion; clock: Clock; maxWeig
       entries.delete(key);
     }
   };
-  const pending = new Map<string, Promise<Derived<unknown>>>();
+  const pending = new Map<string, { promise: Promise<Derived<unknown>>; join: (c: ReturnType<typeof currentCaller>) => void }>();
   let lastVersion = '';
   return {
     async get<T>(key: string, compute: () => Promise<Derived<T>>): Promise<T> {
@@ -76,10 +77,14 @@ export function derivedCache(deps: { version: DataVersion; clock: Clock; maxWeig
       if (hit && hit.version === version && hit.derived.holdsAt(deps.clock.now())) return hit.derived.value as T;
       const flightKey = `${version}\u0000${key}`;
       let flight = pending.get(flightKey);
-      if (!flight) {
-        flight = compute();
-        pending.set(flightKey, flight);
-        flight
+      if (flight) flight.join(currentCaller());
+      else {
+        // Worked out for everyone who asks meanwhile: dropped (server/http/caller.ts) only once all have gone.
+        const callers = sharedCaller(currentCaller());
+        const mine = { promise: runForCaller(callers.caller, compute), join: callers.join };
+        flight = mine;
+        pending.set(flightKey, mine);
+        flight.promise
           .then((derived) => {
             if (lastVersion !== version) return;
             drop(key);
@@ -92,10 +97,17 @@ export function derivedCache(deps: { version: DataVersion; clock: Clock; maxWeig
             weight += w;
           })
           .catch(() => undefined)
-          .finally(() => pending.delete(flightKey));
+          .finally(() => {
+            if (pending.get(flightKey) === mine) pending.delete(flightKey);
+          });
       }
-      const derived = await flight;
-      return derived.value as T;
+      try {
+        return (await flight.promise).value as T;
+      } catch (err) {
+        // Dropped for callers that had all gone just as this one joined: this one still waits, so ask again.
+        if (err instanceof CallerGone && !currentCaller()?.gone) return this.get(key, compute);
+        throw err;
+      }
     },
   };
 }

@@ -1,4 +1,5 @@
 import { setImmediate as nextTurn } from 'node:timers/promises';
+import { CallerGone, currentCaller } from './caller';
 
 /**
  * Heavy answers (a calendar range, Today, the rig list, worked out afresh) run one at a time, each
@@ -12,26 +13,39 @@ import { setImmediate as nextTurn } from 'node:timers/promises';
  * health check for seconds. `setImmediate` lets the poll phase (new connections, other requests'
  * data) run first. And one at a time, because pieces admitted together all run in one check
  * phase: the loop would still read sockets only after every one of them.
+ *
+ * Work whose caller has gone (server/http/caller.ts) is dropped when its turn comes, and between
+ * its pieces: a storm of requests that time out does not leave a queue worked out for no one.
  */
 export interface HeavyWork {
   /** Runs `fn` when no other heavy answer is being worked out (first come, first served). */
   run<T>(fn: () => Promise<T>): Promise<T>;
-  /** Gives the event loop a turn (between the pieces of one heavy answer). */
+  /** Gives the event loop a turn (between the pieces of one heavy answer); throws CallerGone when no one waits for it any more. */
   pause(): Promise<void>;
   /** How many are running or waiting (for tests and the bench). */
   readonly pending: number;
+  /** How many were dropped because their caller had gone. */
+  readonly dropped: number;
 }
 
 export function heavyWork(opts: { concurrency?: number } = {}): HeavyWork {
   const concurrency = opts.concurrency ?? 1;
   let running = 0;
+  let dropped = 0;
   const waiting: Array<() => void> = [];
+  const dropIfGone = () => {
+    if (currentCaller()?.gone) {
+      dropped++;
+      throw new CallerGone();
+    }
+  };
   return {
     async run<T>(fn: () => Promise<T>): Promise<T> {
       if (running < concurrency) running++;
       else await new Promise<void>((admit) => waiting.push(admit));
       try {
         await nextTurn();
+        dropIfGone();
         return await fn();
       } finally {
         // The place passes straight to the next in line (`running` stays), so none can jump the queue.
@@ -42,12 +56,16 @@ export function heavyWork(opts: { concurrency?: number } = {}): HeavyWork {
     },
     pause: async () => {
       await nextTurn();
+      dropIfGone();
     },
     get pending() {
       return running + waiting.length;
+    },
+    get dropped() {
+      return dropped;
     },
   };
 }
 
 /** For services built without one (tests, scripts): no queue, no pauses. */
-export const unboundedWork: HeavyWork = { run: (fn) => fn(), pause: async () => undefined, pending: 0 };
+export const unboundedWork: HeavyWork = { run: (fn) => fn(), pause: async () => undefined, pending: 0, dropped: 0 };

@@ -5,6 +5,7 @@ import type { Role } from '../../shared/schemas/vocabulary';
 import { forbidden } from './errors';
 import { parseOrThrow } from './validate';
 import type { CurrentUser } from './auth';
+import { callerOf, runForCaller } from './caller';
 
 /**
  * Who may call a route, declared beside every route: a list of roles; `signed_in`, every member of
@@ -96,7 +97,8 @@ export class ApiRouter {
         req,
         res,
       } as RouteContext<Infer<B>, Infer<Q>, Infer<P>>;
-      const result = await def.handler(ctx);
+      // The handler runs as this request's work: heavy work queued for it is dropped if it goes (server/http/caller.ts).
+      const result = await runForCaller(callerOf(res), () => def.handler(ctx));
       if (res.headersSent) return;
       if (result === undefined) res.status(def.status ?? 204).end();
       else {
