@@ -17,6 +17,10 @@ import { systemClock } from '../../server/clock';
 import { startFakeSmtp } from '../../server/mail/fake-smtp';
 
 const quick = process.argv.includes('--quick');
+// `--only=cold,storm` runs only those parts (mail, endpoints, cold, storm, export, processes, booking, browser).
+const onlyArg = process.argv.find((a) => a.startsWith('--only='));
+const only = onlyArg ? new Set(onlyArg.slice('--only='.length).split(',')) : null;
+const want = (part: string) => only === null || only.has(part);
 const size = quick ? QUICK : FULL;
 const seconds = quick ? 2 : 8;
 const basePort = quick ? 5400 : 5300;
@@ -193,7 +197,7 @@ async function browserFigures(base: string): Promise<{ lcp: number | null; signI
 
 async function main() {
   const now = new Date();
-  if (!existsSync(join('dist', 'index.html'))) {
+  if ((want('browser') || want('endpoints')) && !existsSync(join('dist', 'index.html'))) {
     log('building the client…');
     spawnSync('npx', ['vite', 'build'], { stdio: 'ignore' });
   }
@@ -206,19 +210,23 @@ async function main() {
 
   // The mail worker's cycle on the full studio, in this process: the first (every class at risk is
   // found and alerted, the day's digest written and everything sent) and a steady one after it.
-  log('mail worker cycle…');
-  const mailDb = createDb(file);
-  await sessionRecords({ db: mailDb, rig: rigRepository(mailDb), studio: studioRepository(mailDb) }).keepStarted(now, 'all');
-  const mailer = { send: async () => undefined, close: () => undefined };
-  const cycleMs = async () => {
-    const t = performance.now();
-    await runMailCycle({ db: mailDb, mailer, clock: systemClock, appUrl: 'http://127.0.0.1', log: () => undefined });
-    return Math.round(performance.now() - t);
-  };
-  const firstCycleMs = await cycleMs();
-  const steadyCycleMs = Math.min(await cycleMs(), await cycleMs());
-  await mailDb.destroy();
-  log(`  first ${firstCycleMs} ms, steady ${steadyCycleMs} ms`);
+  let firstCycleMs: number | null = null;
+  let steadyCycleMs: number | null = null;
+  if (want('mail')) {
+    log('mail worker cycle…');
+    const mailDb = createDb(file);
+    await sessionRecords({ db: mailDb, rig: rigRepository(mailDb), studio: studioRepository(mailDb) }).keepStarted(now, 'all');
+    const mailer = { send: async () => undefined, close: () => undefined };
+    const cycleMs = async () => {
+      const t = performance.now();
+      await runMailCycle({ db: mailDb, mailer, clock: systemClock, appUrl: 'http://127.0.0.1', log: () => undefined });
+      return Math.round(performance.now() - t);
+    };
+    firstCycleMs = await cycleMs();
+    steadyCycleMs = Math.min(await cycleMs(), await cycleMs());
+    await mailDb.destroy();
+    log(`  first ${firstCycleMs} ms, steady ${steadyCycleMs} ms`);
+  }
 
   const cachedServer = await startServer(file, basePort);
   const coldServer = await startServer(file, basePort + 2, { LOFTWISE_DERIVED_CACHE: 'off' });
@@ -244,7 +252,7 @@ async function main() {
     points: ['/api/points', '/api/bench/baseline/points'],
   };
   const endpoints: Record<string, { cached: Load; cold: Load; baselineRps: number; cachedRatio: Figure; coldRatio: Figure; cachedP99Ms: Figure; coldP99Ms: Figure }> = {};
-  for (const [name, [real, baseline]] of Object.entries(pairs)) {
+  for (const [name, [real, baseline]] of Object.entries(want('endpoints') ? pairs : {})) {
     log(`loading ${name}…`);
     autocannon(base + real, cookie, 1); // warm-up
     const cached = autocannon(base + real, cookie, seconds);
@@ -263,25 +271,30 @@ async function main() {
   }
 
   // One request at a time on the cold server, each range different (nothing to reuse).
-  log('cold answers one at a time…');
   const widest = 43;
   const n = quick ? 10 : 30;
   const coldGet = (path: string) => get(coldServer.base, coldCookie, path).then(() => undefined);
-  await median(5, (i) => coldGet(`/api/sessions?${rangeOf(7, 7 * 24 * 60 + i)}`));
-  const cold = {
-    weekMs: atMost(await median(n, (i) => coldGet(`/api/sessions?${rangeOf(7, i + 1)}`)), 8, 'ms'),
-    widestRangeMs: atMost(await median(n, (i) => coldGet(`/api/sessions?${rangeOf(widest, 100 + i)}`)), 40, 'ms'),
-    todayMs: atMost(await median(n, () => coldGet('/api/today')), 8, 'ms'),
-    pointsMs: atMost(await median(n, () => coldGet('/api/points')), 8, 'ms'),
-    widestRangeDays: widest,
-  };
-  log(`  ${JSON.stringify(cold)}`);
+  const loopDelay = async () => (await (await fetchAgain(`${coldServer.base}/api/bench/loop-delay`, { headers: { cookie: coldCookie } })).json()) as { p50Ms: number; p99Ms: number; maxMs: number; samples: number };
+  let cold = null;
+  if (want('cold')) {
+    log('cold answers one at a time…');
+    await median(5, (i) => coldGet(`/api/sessions?${rangeOf(7, 7 * 24 * 60 + i)}`));
+    cold = {
+      weekMs: atMost(await median(n, (i) => coldGet(`/api/sessions?${rangeOf(7, i + 1)}`)), 8, 'ms'),
+      widestRangeMs: atMost(await median(n, (i) => coldGet(`/api/sessions?${rangeOf(widest, 100 + i)}`)), 40, 'ms'),
+      todayMs: atMost(await median(n, () => coldGet('/api/today')), 8, 'ms'),
+      pointsMs: atMost(await median(n, () => coldGet('/api/points')), 8, 'ms'),
+      widestRangeDays: widest,
+    };
+    log(`  ${JSON.stringify(cold)}`);
+  }
 
   // The storm: 20 different widest ranges at once on the cold server, while the health check and one
   // point's status are asked one after another; their p99 is the figure.
-  log('storm…');
-  const storm = { health: [] as number[], status: [] as number[], heavyMs: [] as number[] };
-  for (let round = 0; round < (quick ? 2 : 5); round++) {
+  const storm = { health: [] as number[], status: [] as number[], heavyMs: [] as number[], loopP99Ms: [] as number[], loopMaxMs: [] as number[] };
+  for (let round = 0; round < (want('storm') ? (quick ? 2 : 5) : 0); round++) {
+    if (round === 0) log('storm…');
+    await loopDelay();
     let done = false;
     const heavy = Promise.all(
       Array.from({ length: 20 }, async (_, i) => {
@@ -299,6 +312,9 @@ async function main() {
       }
     };
     await Promise.all([heavy, light(storm.health, '/api/health'), light(storm.status, '/api/points/1/status')]);
+    const loop = await loopDelay();
+    storm.loopP99Ms.push(loop.p99Ms);
+    storm.loopMaxMs.push(loop.maxMs);
   }
   const stormFigures = {
     requests: 20,
@@ -308,8 +324,21 @@ async function main() {
     lightSamples: storm.health.length + storm.status.length,
     heavyP50Ms: pct(storm.heavyMs, 0.5),
     heavyMaxMs: pct(storm.heavyMs, 1),
+    // The server's own event-loop delay during the storm (perf_hooks.monitorEventLoopDelay, per round): the worst round's p99 and max.
+    loopDelayP99Ms: atMost(storm.loopP99Ms.length ? Math.max(...storm.loopP99Ms) : null, 100, 'ms'),
+    loopDelayMaxMs: storm.loopMaxMs.length ? Math.max(...storm.loopMaxMs) : null,
   };
   log(`  ${JSON.stringify(stormFigures)}`);
+
+  if (only && !['export', 'processes', 'booking', 'browser'].some((part) => only.has(part))) {
+    // A part of the bench (e.g. `--only=cold,storm`): its figures, and the same one-object last line.
+    const mark = (f: Figure) => `${f.value ?? 'n/a'} (${f.target}${f.pass === null ? '' : f.pass ? ', met' : ', NOT met'})`;
+    console.log(`\nLoftwise bench (${quick ? 'quick' : 'full'}, only ${[...only].join(', ')}; ${JSON.stringify(counts)})`);
+    if (cold) console.log(`cold, one request at a time: week ${mark(cold.weekMs)}, ${widest}-day range ${mark(cold.widestRangeMs)}, Today ${mark(cold.todayMs)}, rig list ${mark(cold.pointsMs)}`);
+    if (storm.health.length) console.log(`storm of 20 different ${widest}-day ranges (cold): health p99 ${mark(stormFigures.healthP99Ms)}, point status p99 ${mark(stormFigures.pointStatusP99Ms)}, server loop delay p99 ${mark(stormFigures.loopDelayP99Ms)} (max ${stormFigures.loopDelayMaxMs} ms); ranges p50 ${stormFigures.heavyP50Ms} ms, slowest ${stormFigures.heavyMaxMs} ms`);
+    console.log(JSON.stringify({ mode: quick ? 'quick' : 'full', only: [...only], counts, endpoints, cold, storm: storm.health.length ? stormFigures : null, mailCycle: steadyCycleMs === null ? null : { firstMs: firstCycleMs, steadyMs: atMost(steadyCycleMs, 1_000, 'ms') } }));
+    return;
+  }
 
   // The streamed export of every inspection (20,000 on the full studio), as a rigger: time and the
   // server's resident memory at its peak during the export.
@@ -396,10 +425,11 @@ async function main() {
   const mark = (f: Figure) => `${f.value ?? 'n/a'} (${f.target}${f.pass === null ? '' : f.pass ? ', met' : ', NOT met'})`;
   console.log(`\nLoftwise bench (${quick ? 'quick' : 'full'}; ${JSON.stringify(counts)}; 50 connections, ${seconds}s each)`);
   for (const r of rows) console.log(r.map((c, i) => String(c).padEnd(i === 0 ? 14 : 12)).join(''));
-  console.log(`cold, one request at a time: week ${mark(cold.weekMs)}, ${widest}-day range ${mark(cold.widestRangeMs)}, Today ${mark(cold.todayMs)}, rig list ${mark(cold.pointsMs)}`);
+  if (cold) console.log(`cold, one request at a time: week ${mark(cold.weekMs)}, ${widest}-day range ${mark(cold.widestRangeMs)}, Today ${mark(cold.todayMs)}, rig list ${mark(cold.pointsMs)}`);
   console.log(`storm of 20 different ${widest}-day ranges (cold): health p99 ${mark(stormFigures.healthP99Ms)}, point status p99 ${mark(stormFigures.pointStatusP99Ms)}; ranges p50 ${stormFigures.heavyP50Ms} ms, slowest ${stormFigures.heavyMaxMs} ms`);
   console.log(`resident memory: before ${rssBefore.cached} MB cached / ${rssBefore.cold} MB cold; after ${mark(memory.afterCachedMb)} cached / ${mark(memory.afterColdMb)} cold`);
   console.log(`mail worker cycle: first ${firstCycleMs} ms (every at-risk class found and alerted), then ${mark(atMost(steadyCycleMs, 1_000, 'ms'))}`);
+  console.log(`server event-loop delay during the storm: p99 ${mark(stormFigures.loopDelayP99Ms)}, max ${stormFigures.loopDelayMaxMs} ms`);
   console.log(`inspection export (${exportRows.toLocaleString('en')} rows streamed): ${mark(exportFigures.ms)}, server peak ${mark(exportFigures.peakRssMb)} (+${exportFigures.rssGrowthMb} MB)`);
   console.log(`throughput, cold week: one process ${one.rps} rps, two processes ${two.rps} rps, ${mark(processes.ratio)}`);
   console.log(`booking check: ${ms1k} ms with ${small.toLocaleString('en')} sessions, ${ms100k} ms with ${large.toLocaleString('en')} (ratio ${Math.round((ms100k / ms1k) * 100) / 100})`);

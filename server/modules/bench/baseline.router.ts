@@ -1,4 +1,5 @@
 import Database from 'better-sqlite3';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { z } from 'zod';
 import type { ApiRouter } from '../../http/route';
 import { instantSchema } from '../../../shared/schemas/common';
@@ -15,4 +16,17 @@ export function benchBaselineRoutes(api: ApiRouter, dbFile: string) {
   api.get('/bench/baseline/sessions', { access: 'signed_in', query: range, handler: ({ query }) => sessions.all(new Date(query.to).toISOString(), new Date(query.from).toISOString()) });
   api.get('/bench/baseline/today', { access: 'signed_in', query: range, handler: ({ query }) => sessions.all(new Date(query.to).toISOString(), new Date(query.from).toISOString()) });
   api.get('/bench/baseline/points', { access: 'signed_in', handler: () => points.all() });
+  // The server's own event-loop delay since the last ask (then started afresh): how long anything
+  // waiting on the loop (a health check, a socket read) could have been held.
+  const loop = monitorEventLoopDelay({ resolution: 5 });
+  loop.enable();
+  const ms = (ns: number) => Math.round(ns / 1e4) / 100;
+  api.get('/bench/loop-delay', {
+    access: 'signed_in',
+    handler: () => {
+      const figures = { p50Ms: ms(loop.percentile(50)), p99Ms: ms(loop.percentile(99)), maxMs: ms(loop.max), samples: loop.count };
+      loop.reset();
+      return figures;
+    },
+  });
 }
