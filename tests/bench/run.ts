@@ -337,6 +337,7 @@ async function main() {
     if (cold) console.log(`cold, one request at a time: week ${mark(cold.weekMs)}, ${widest}-day range ${mark(cold.widestRangeMs)}, Today ${mark(cold.todayMs)}, rig list ${mark(cold.pointsMs)}`);
     if (storm.health.length) console.log(`storm of 20 different ${widest}-day ranges (cold): health p99 ${mark(stormFigures.healthP99Ms)}, point status p99 ${mark(stormFigures.pointStatusP99Ms)}, server loop delay p99 ${mark(stormFigures.loopDelayP99Ms)} (max ${stormFigures.loopDelayMaxMs} ms); ranges p50 ${stormFigures.heavyP50Ms} ms, slowest ${stormFigures.heavyMaxMs} ms`);
     console.log(JSON.stringify({ mode: quick ? 'quick' : 'full', only: [...only], counts, endpoints, cold, storm: storm.health.length ? stormFigures : null, mailCycle: steadyCycleMs === null ? null : { firstMs: firstCycleMs, steadyMs: atMost(steadyCycleMs, 1_000, 'ms') } }));
+    await catcher.close();
     return;
   }
 

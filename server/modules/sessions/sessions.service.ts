@@ -45,7 +45,7 @@ interface Occurrence {
 const MAX_RANGE_DAYS = 43;
 
 /** Classes worked out between two turns of the event loop (a few milliseconds' work). */
-const SESSIONS_PER_PIECE = 40;
+const SESSIONS_PER_PIECE = 20;
 
 const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
 
@@ -234,9 +234,13 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
         heavy.run(async () => {
           const { policy } = await studio.get();
           const now = clock.now();
+          // A turn of the loop between the loads too: each is a synchronous burst on better-sqlite3.
           const sessions = await repo.list({ from, to, roomId: q.roomId, instructorId: q.instructorId });
+          await heavy.pause();
           const kept = await startRecords(sessions, now);
+          await heavy.pause();
           const bundles = await bundlesFor([...new Set(sessions.flatMap((s) => s.pointIds))]);
+          await heavy.pause();
           const recorded = await loadRecorded(rig, sessions, db);
           const live = await deps.places?.liveForSessions(sessions.map((s) => s.id));
           return deriveInPieces(policy, now, async (track) => {
