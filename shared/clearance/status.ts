@@ -429,16 +429,45 @@ function dueReasons(snapshot: PointSnapshot, policy: Policy, end: Date, own: Dat
 export function pointStatusOver(snapshot: PointSnapshot, policy: Policy, start: Date, end: Date): PointStatusOver {
   if (!isSealed(snapshot)) return pointStatusOverUncached(snapshot, policy, start, end);
   // `start` matters only through its stretch (see evaluateAt; "arising" compares the same instants
-  // strictly), `end` exactly: a calendar asks this of each class at its start and again from now.
+  // strictly). `end` matters only through which status instants lie strictly before it (a
+  // clearance or an inspection running out before the end, gear reaching its service life before
+  // it) and, when nothing blocks, through the warning window from the end, which is asked afresh
+  // at every call: every class of a calendar has its own end, and this is asked of each of its
+  // points two or three times.
   const memo = overMemo(snapshot, policy, () => new Map());
   const reasons = reasonsMemo(snapshot, policy, () => ({ edges: [...new Set(statusInstants(snapshot, policy).instants)].sort((a, b) => a - b), byStretch: new Map() }));
-  const key = `${stretchOf(reasons.edges, start.getTime())}|${end.getTime()}`;
+  const key = `${stretchOf(reasons.edges, start.getTime())}|${edgesBefore(reasons.edges, end.getTime())}`;
   let found = memo.get(key);
   if (!found) {
     if (memo.size >= INSTANTS_PER_SNAPSHOT) memo.clear();
     memo.set(key, (found = pointStatusOverUncached(snapshot, policy, start, end)));
   }
-  return found;
+  if (found.status === 'blocked') return found;
+  // Nothing blocks, so `until` is set: expiring or cleared by the window from this end.
+  const status = expiringBy(found.clearedUntil!, end, policy);
+  if (status === found.status) return found;
+  const otherKey = `${key}|${status}`;
+  let other = memo.get(otherKey);
+  if (!other) memo.set(otherKey, (other = { ...found, status }));
+  return other;
+}
+
+/** How many of the sorted `edges` are strictly before `at`. */
+function edgesBefore(edges: number[], at: number): number {
+  let lo = 0;
+  let hi = edges.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (edges[mid] < at) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** At an instant s the point is expiring once until ≤ s + window; the latest s in [start, end) decides. */
+function expiringBy(until: Date, end: Date, policy: Policy): 'expiring' | 'cleared' {
+  const windowEnd = addStudioDays(end, policy.warningDays, policy.timeZone);
+  return until.getTime() < windowEnd.getTime() ? 'expiring' : 'cleared';
 }
 
 const overMemo = snapshotMemo<Map<string, PointStatusOver>>();
@@ -458,9 +487,7 @@ function pointStatusOverUncached(snapshot: PointSnapshot, policy: Policy, start:
   if (blockedReasons.length > 0 || dueBeforeEnd.length > 0 || !until) {
     status = 'blocked';
   } else {
-    // At an instant s the point is expiring once until ≤ s + window; the latest s in [start, end) decides.
-    const windowEnd = addStudioDays(end, policy.warningDays, policy.timeZone);
-    status = until.getTime() < windowEnd.getTime() ? 'expiring' : 'cleared';
+    status = expiringBy(until, end, policy);
   }
   return { status, clearedUntil: until, blockedReasons, dueBeforeEnd };
 }

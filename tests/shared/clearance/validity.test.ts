@@ -10,6 +10,7 @@ import {
   type PointSnapshot,
 } from '../../../shared/clearance';
 import { defaultPolicy, type Policy } from '../../../shared/schemas/policy';
+import { statusInstants } from '../../../shared/clearance/status';
 import { gear, healthyPoint, link } from './fixtures';
 
 /*
@@ -166,6 +167,24 @@ describe('sealed snapshots', () => {
         }
       }),
       { numRuns: 500 },
+    );
+  });
+
+  it('over any stretch, a sealed snapshot answers as an unsealed one, with ends on, just before and just after its status instants', () => {
+    fc.assert(
+      fc.property(snapshotArb, policyArb, fc.array(fc.tuple(instantArb, fc.integer({ min: 1, max: 60 * DAY }), fc.integer({ min: 0, max: 20 }), fc.constantFrom(-1, 0, 1)), { minLength: 1, maxLength: 12 }), (snap, policy, asks) => {
+        const sealed = freezeSnapshot(structuredClone(snap));
+        const edges = statusInstants(snap, policy).instants;
+        // Asked in one order, then the other: what one class's end kept must not leak into another's.
+        for (const [t, length, edge, nudge] of [...asks, ...[...asks].reverse()]) {
+          const start = new Date(t);
+          // Half the ends on a status instant (or a millisecond either side), where the strict comparisons turn.
+          const onEdge = edges.length > 0 && edge % 2 === 0 ? edges[edge % edges.length] + nudge : null;
+          const end = new Date(onEdge !== null && onEdge > t ? onEdge : t + length);
+          expect(pointStatusOver(sealed, policy, start, end)).toEqual(pointStatusOver(snap, policy, start, end));
+        }
+      }),
+      { numRuns: 1000 },
     );
   });
 
