@@ -1,7 +1,8 @@
 // `npx tsx tests/bench/profile-cold.ts [studio.sqlite] [--profile]`: the bench's full studio served
 // with the derived cache off, the cold answers timed one at a time (as the bench's `cold` figures),
 // and with --profile a CPU profile of the server summarised by self time (what to cut next).
-// The studio file is built when missing and kept, so repeated runs start in seconds.
+// The studio file is built when missing and kept, so repeated runs start in seconds. PROFILE_N sets
+// how many requests of each (30), PROFILE_ONLY=week (or today, points, "43-day range") only that one.
 import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -95,7 +96,9 @@ async function main() {
       const from = new Date(monday.getTime() + shift * 60_000);
       return `from=${from.toISOString()}&to=${new Date(from.getTime() + days * 86_400_000).toISOString()}`;
     };
+    // PROFILE_ONLY=week (or "43-day range", today, points) times and profiles only that one.
     const timed = async (label: string, path: (i: number) => string) => {
+      if (process.env.PROFILE_ONLY && label !== process.env.PROFILE_ONLY && label !== 'warm-up') return;
       const times: number[] = [];
       let bytes = 0;
       for (let i = 0; i < n; i++) {
