@@ -6,7 +6,8 @@ import { apiCall, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs
  * Who hears of a fault (issue 14; JOURNEYS.md Instructor 3, Owner 4): an instructor on a phone
  * reports faults from the QR-label form; the owner reads what went out in the Mailbox. One fault
  * under a weekly class is one at-risk e-mail per recipient, not one per date; a fault on a point
- * with no booked class still reaches the riggers. The server's mail worker runs every 15 s.
+ * with no booked class still reaches the riggers. The server's mail worker runs every
+ * `outboxIntervalMs` (2 s in these tests, tests/e2e/global-setup.ts).
  */
 
 const baseUrl = inject('baseUrl');
@@ -63,7 +64,7 @@ async function reportFault(pointId: number, severity: RegExp, description: strin
   await instructorPage.getByRole('status').filter({ hasText: 'Fault reported' }).first().waitFor();
 }
 
-/** The mailbox as the owner's API reads it, polled until `ready` holds (the worker runs every 15 s). */
+/** The mailbox as the owner's API reads it, polled until `ready` holds (the worker runs every `outboxIntervalMs`). */
 async function mailboxUntil(ready: (all: Caught[]) => boolean): Promise<Caught[]> {
   const deadline = Date.now() + 60_000;
   for (;;) {
@@ -78,8 +79,8 @@ describe('who hears of a fault', () => {
     await reportFault(points['AW-1'], /^Medium\b/, 'Sling sheath cut near the clamp');
     const about = (all: Caught[]) => all.filter((m) => m.subject.startsWith('At risk') && m.subject.includes(ROOM));
     const all = await mailboxUntil((m) => about(m).length > 0);
-    // One more cycle, so a message per date would have had time to arrive.
-    await new Promise((r) => setTimeout(r, 16_000));
+    // Two more cycles, so a message per date would have had time to arrive.
+    await new Promise((r) => setTimeout(r, 2 * inject('outboxIntervalMs') + 1_000));
     const alerts = about(await apiCall<Caught[]>(ownerPage, baseUrl, 'GET', '/dev/mailbox'));
     expect(all.length).toBeGreaterThan(0);
     expect(alerts).toHaveLength(1);

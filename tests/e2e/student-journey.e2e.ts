@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiCall, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, uniqueTag } from './browser';
+import { apiCall, axeFor, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, uniqueTag } from './browser';
 
 /*
  * The student's journey on a phone (PRODUCT.md §11) at 390 × 844: the public timetable signed out,
@@ -35,7 +34,7 @@ async function toastsGone(p: Page) {
 async function axe(p: Page) {
   // Toasts come and go (sonner's own colours); the page is checked once they have gone.
   await toastsGone(p);
-  const { violations } = await new AxeBuilder({ page: p }).analyze();
+  const { violations } = await axeFor(p).analyze();
   for (const v of violations) if (v.impact === 'serious' || v.impact === 'critical') axeFindings.push(`${new URL(p.url()).pathname}: ${v.id} (${v.impact}) ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
 }
 
@@ -85,7 +84,7 @@ afterAll(async () => {
   await staff?.close();
 });
 
-/** The sign-in link the built-in catcher received for the student (the mail worker runs every 15 s). */
+/** The sign-in link the built-in catcher received for the student (the mail worker runs every `outboxIntervalMs`, tests/e2e/global-setup.ts). */
 async function linkFromMailbox(): Promise<string> {
   const deadline = Date.now() + 60_000;
   for (;;) {
