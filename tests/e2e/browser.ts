@@ -1,4 +1,5 @@
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import AxeBuilder from '@axe-core/playwright';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { mkdirSync, mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -33,6 +34,39 @@ export async function openBrowser(viewport = DESKTOP): Promise<BrowserContext> {
   context.pages().forEach(watch);
   context.on('page', watch);
   return context;
+}
+
+/**
+ * One Chromium for a whole file, for files that need many contexts (one per role and width): a new
+ * context of a running browser costs milliseconds, a new browser seconds. Contexts made with
+ * `contextIn` record console errors into `pageErrors` like `openBrowser`'s.
+ */
+export async function launchBrowser(): Promise<Browser> {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  return chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS });
+}
+
+export async function contextIn(browser: Browser, viewport = DESKTOP, storageState?: Awaited<ReturnType<BrowserContext['storageState']>>): Promise<BrowserContext> {
+  const context = await browser.newContext({ viewport, storageState });
+  const watch = (p: Page) => {
+    p.on('console', (m) => { if (m.type() === 'error') pageErrors.push(`${p.url()}: ${m.text()}`); });
+    p.on('pageerror', (e) => pageErrors.push(`${p.url()}: ${e.message}`));
+  };
+  context.on('page', watch);
+  return context;
+}
+
+/**
+ * axe-core for `page`, set up to be quick without testing less: the same rules on the same DOM, but
+ * run by axe.run inside the page ("legacy" mode) rather than per frame and then again in a blank
+ * page that @axe-core/playwright opens for the purpose (the app has no cross-origin frames to reach,
+ * only the Mailbox's sandboxed previews, which no script can enter either way), and with node details
+ * kept only for violations (building a selector and an HTML excerpt for every passing node is most of
+ * the cost on a big page). AXE_REPORT set keeps the passing and incomplete details for reading.
+ */
+export function axeFor(page: Page): AxeBuilder {
+  const builder = new AxeBuilder({ page }).setLegacyMode(true);
+  return process.env.AXE_REPORT ? builder : builder.options({ resultTypes: ['violations'] });
 }
 
 export async function signInAs(page: Page, baseUrl: string, email: string, password = DEMO_PASSWORD) {

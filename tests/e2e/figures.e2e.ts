@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag, pageErrors, withoutRefusals } from './browser';
+import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, pageErrors, shot, shotScreen, signInAs, uniqueTag, withoutRefusals } from './browser';
 
 // Issue 11: figures shown honestly (PRODUCT.md §4.8) and a policy change confirmed after its
 // effect is shown (§4.9). Each test makes its own rows; the studio policy is put back as it was.
@@ -184,7 +183,7 @@ describe('a policy change', () => {
       expect(await ours.innerText()).toMatch(/Cleared\s*→\s*Expiring/);
       expect(await dialog.getByTestId('safety-caution').isVisible()).toBe(true);
       // The confirmation passes the same accessibility gate as the pages (nothing serious or critical).
-      const { violations } = await new AxeBuilder({ page }).include('dialog[open]').analyze();
+      const { violations } = await axeFor(page).include('dialog[open]').analyze();
       expect(violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);
       await shotScreen(page, 'figures-03-policy-confirm');
       await dialog.getByRole('button', { name: 'Cancel' }).click();

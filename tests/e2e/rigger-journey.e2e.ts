@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag } from './browser';
+import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag } from './browser';
 
 /*
  * The rigger on a tablet (issue 14; JOURNEYS.md Rigger 1–5) at 1024 × 768: a failed row's note is
@@ -32,7 +31,7 @@ async function settled(p: Page) {
 
 /** axe on the page as it stands: nothing serious or critical. */
 async function axeClean(p: Page) {
-  const { violations } = await new AxeBuilder({ page: p }).analyze();
+  const { violations } = await axeFor(p).analyze();
   const blocking = violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
   expect(blocking.map((v) => `${p.url()} ${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`)).toEqual([]);
 }

@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, uniqueTag } from './browser';
+import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, uniqueTag } from './browser';
 
 /*
  * The desk's student journey (issue 17; PRODUCT.md §11) at 1366 × 900: the owner publishes the
@@ -49,7 +48,7 @@ async function browser(viewport: typeof DESKTOP) {
 }
 
 async function axe(page: Page, where: string) {
-  const { violations } = await new AxeBuilder({ page }).analyze();
+  const { violations } = await axeFor(page).analyze();
   return violations.filter((v) => BLOCKING.has(v.impact ?? '')).map((v) => `${where}: [${v.impact}] ${v.id} — ${v.help}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
 }
 
