@@ -59,18 +59,25 @@ describe('hostile input on every mutating route', () => {
 
   it(`never answers 5xx, always the error shape, and a refusal changes nothing (${RUNS_PER_ROUTE} cases per route)`, async () => {
     const mutating = ctx.app.locals.routes.filter((r) => r.method !== 'get');
+    // The database's fingerprint after a refusal that was checked to change nothing: the next case
+    // starts from it instead of reading every table again (halves the reads, most cases are
+    // refused). Any other outcome (a success, a failed check) leaves it unknown, read afresh.
+    let known: string | null = null;
     for (const route of mutating) {
       await fc.assert(
         fc.asyncProperty(fc.constantFrom(...roles), param, query, body, async (role, id, q, b) => {
           const path = route.path.replace(/:\w+/g, id) + (Object.keys(q).length ? `?${new URLSearchParams(q as Record<string, string>)}` : '');
-          const before = await fingerprint();
+          const before = known ?? (await fingerprint());
+          known = null;
           const res = await agents[role][route.method](path).set('Origin', APP_URL).set('Content-Type', 'application/json').send(JSON.stringify(b) ?? 'null');
           const label = `${role} ${route.method.toUpperCase()} ${path} ${JSON.stringify(b).slice(0, 200)} → ${res.status} ${res.text.slice(0, 200)}`;
           expect(res.status, label).toBeLessThan(500);
           if (res.status >= 400) {
             expect(res.body?.error?.code, label).toEqual(expect.any(String));
             expect(res.body?.error?.message, label).toEqual(expect.any(String));
-            expect(await fingerprint(), label).toBe(before);
+            const after = await fingerprint();
+            expect(after, label).toBe(before);
+            known = after;
           }
         }),
         { numRuns: RUNS_PER_ROUTE },
