@@ -104,6 +104,9 @@ describe('capacity and the waitlist (PRODUCT.md §11)', () => {
     expect(byStudent.get(b.id)).toMatchObject({ status: 'booked', pointId: s.points[0] });
     expect(byStudent.get(c.id)).toMatchObject({ status: 'waitlisted', position: 1 });
     expect(byStudent.get(a.id)).toMatchObject({ status: 'cancelled' });
+    // Every staff role reads the list (PRODUCT.md §11: staff), a rigger too; a student never.
+    const rigger = await as(ctx, 'rigger');
+    expect((await rigger.get(`/api/sessions/${sessionId}/bookings`)).body).toEqual(list.body);
 
     expect(await mailsTo(b.email)).toHaveLength(bBefore + 1);
     expect(await mailsTo(b.email, 'waitlist_place_offered')).toHaveLength(1);
