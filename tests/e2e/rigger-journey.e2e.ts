@@ -196,6 +196,8 @@ describe('the rigger at 1024 × 768', { timeout: 150_000 }, () => {
     await page.getByRole('button', { name: 'Edit load path' }).click();
     const swap = page.getByLabel(new RegExp(`^Swap Beam clamp RC-${tag}-BC for`));
     await swap.waitFor();
+    // The spare gear arrives after the list opens: wait for the new clamp before reading the options.
+    await swap.locator('option', { hasText: `BC-SPARE-${tag}` }).waitFor({ state: 'attached' });
     const options = (await swap.locator('option').allInnerTexts()).slice(1);
     expect(options.length).toBeGreaterThan(0);
     expect(options.every((o) => o.startsWith('Beam clamp'))).toBe(true);

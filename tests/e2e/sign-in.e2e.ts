@@ -38,7 +38,10 @@ describe('signing in as each demo role', () => {
     await signInAs(page, baseUrl, 'owner@loftwise.test');
     await page.waitForURL('**/staff');
     await page.getByRole('heading', { name: 'Staff' }).waitFor();
-    expect(await page.getByRole('cell', { name: 'rigger@loftwise.test' }).count()).toBe(1);
+    // The list arrives after the heading: wait for a row, then count (a busy machine showed the heading alone).
+    const rigger = page.getByRole('cell', { name: 'rigger@loftwise.test' });
+    await rigger.first().waitFor();
+    expect(await rigger.count()).toBe(1);
     await page.close();
   });
 
