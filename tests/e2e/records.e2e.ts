@@ -63,7 +63,8 @@ describe('the owner’s audit page', () => {
 
     await owner.getByLabel('From').fill('2026-12-10');
     await owner.getByLabel('To').fill('2026-12-01');
-    await expect(owner.getByText('The end of the range comes before its start').isVisible()).resolves.toBe(true);
+    // The message follows the typed dates; wait for it rather than read the page at once (a busy machine was slower).
+    await owner.getByText('The end of the range comes before its start').waitFor();
     expect(await table.count()).toBe(0);
 
     await owner.getByRole('button', { name: 'Clear the filters' }).click();
