@@ -46,17 +46,17 @@ export function sessionView(s: SessionRecord, c: ViewContext) {
   const live = !s.cancelled && endsAt > now;
   const inspectionDue = live && hung.some((h) => pointStatusOver(h.hanging.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
   const { recordedApparatus: _recorded, ...record } = s;
-  const places = c.live ? placesOf(s, c, hung) : {};
+  const placeFigures = c.live ? placesOf(s, c, hung) : {};
   if (startsAt <= now) {
     const records = (c.kept?.get(s.id) ?? []).filter((r) => r.startsAt === s.startsAt);
     const points = records.map((r) => ({ pointId: r.pointId, label: r.label, status: r.status, clearedUntil: r.clearedUntil, reasons: r.reasons, apparatus: r.apparatus, recordedAt: r.recordedAt }));
     const hanging = records.map((r) => ({ pointId: r.pointId, gearId: r.apparatus?.gearId ?? null, kind: r.apparatus?.kind ?? null, serial: r.apparatus?.serial ?? null, mounted: r.apparatus !== null }));
-    return { ...record, points, hanging, changeovers: [], atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placesFromRecords(records, s.capacity, s.cancelled), recordedAtStart: true, ...places };
+    return { ...record, points, hanging, changeovers: [], atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placesFromRecords(records, s.capacity, s.cancelled), recordedAtStart: true, ...placeFigures };
   }
   const points = hung.map((h) => ({ pointId: h.bundle.point.id, label: h.bundle.point.label, ...statusWire(pointStatusAt(h.hanging.snapshot, policy, at)) }));
   const placeCount = s.cancelled ? 0 : Math.min(s.capacity, points.filter((p) => p.status !== 'blocked').length);
   const changeovers = !s.cancelled ? changeoversOf(hung, startsAt, policy.timeZone, true) : [];
-  return { ...record, points, hanging: apparatusWire(hung), changeovers, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placeCount, recordedAtStart: false, ...places };
+  return { ...record, points, hanging: apparatusWire(hung), changeovers, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placeCount, recordedAtStart: false, ...placeFigures };
 }
 
 /** The class's places as the rig answers them now: the places service's summary, from the points already hung. */
