@@ -74,8 +74,10 @@ describe('the instructor reports a fault on a phone without losing it', () => {
     await page.goto(`${baseUrl}/today`);
     const classes = page.getByRole('region', { name: 'Today’s classes' }).getByRole('article');
     await classes.first().waitFor();
+    // Every class of the day not yet finished: the demo's instructor has two until its afternoon
+    // class ends (the seed puts it at 16:00 at the latest) and then only the evening one, and other
+    // files may have added their own, so the number depends on the hour and is not asserted.
     const count = await classes.count();
-    expect(count).toBeGreaterThanOrEqual(2);
     for (let i = 0; i < count; i++) {
       const box = await classes.nth(i).boundingBox();
       expect(box!.height, `class ${i + 1} is ${box!.height} px tall`).toBeLessThanOrEqual(PHONE.height);
@@ -88,8 +90,10 @@ describe('the instructor reports a fault on a phone without losing it', () => {
       await blockedCards.nth(i).getByText('Do not use this point.').waitFor();
       expect(await blockedCards.nth(i).getByRole('listitem').count(), 'a blocked point lists its reasons').toBeGreaterThan(0);
     }
-    // The students are a line per point; their check-in opens from the class.
-    const first = classes.first();
+    // The students are a line per point; their check-in opens from the class. The first class with
+    // students: an earlier file sharing this server may have booked a class of its own, without
+    // students, that starts before the demo's (depending on the hour).
+    const first = classes.filter({ has: page.getByRole('button', { name: /^Check in/ }) }).first();
     const checkIn = first.getByRole('button', { name: /^Check in/ });
     expect(await checkIn.getAttribute('aria-expanded')).toBe('false');
     expect(await first.getByTestId('point-students').count()).toBeGreaterThan(0);
@@ -104,7 +108,6 @@ describe('the instructor reports a fault on a phone without losing it', () => {
     await page.goto(`${baseUrl}/today`);
     const classes = page.getByRole('region', { name: 'Today’s classes' }).getByRole('article');
     await classes.first().waitFor();
-    expect(await classes.count()).toBeGreaterThanOrEqual(2);
     const caution = page.getByTestId('safety-caution');
     expect(await caution.count()).toBe(1);
     const [last, cautionBox] = [await classes.last().boundingBox(), await caution.boundingBox()];
