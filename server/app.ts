@@ -15,7 +15,7 @@ import { apiNotFound, errorHandler } from './http/error-handler';
 import { staffRepository } from './modules/staff/staff.repository';
 import { staffService } from './modules/staff/staff.service';
 import { staffRoutes } from './modules/staff/staff.router';
-import { studioRepository } from './modules/studio/studio.repository';
+import { studioRepository, type StudioRepository } from './modules/studio/studio.repository';
 import { studioService } from './modules/studio/studio.service';
 import { studioRoutes } from './modules/studio/studio.router';
 import { policyPreviewService } from './modules/studio/policy-preview.service';
@@ -54,6 +54,8 @@ import { placesService } from './modules/places/places.service';
 import { placesRoutes } from './modules/places/places.router';
 import { benchBaselineRoutes } from './modules/bench/baseline.router';
 import { dataVersion } from './db/data-version';
+import { keptPerVersion } from './db/kept-reads';
+import { snapshotSource } from './modules/rig/point-snapshots';
 import { derivedCache, noDerivedCache } from './db/derived-cache';
 import { heavyWork } from './http/heavy-work';
 import { DEFAULT_PERSON_LIMITS, personLimiters, type PersonLimits } from './http/person-limits';
@@ -87,6 +89,11 @@ export interface AppDeps {
   trustProxyHops?: number;
   /** Keep derived statuses per data version (default true); false works every answer out afresh. */
   cacheDerived?: boolean;
+  /**
+   * Read the policy and the rig's snapshots once per data version (default true; server/db/kept-reads.ts);
+   * false reads them afresh for every request, as the bench's "reloaded" figures do.
+   */
+  keepReads?: boolean;
   /** How long a "Moved" e-mail waits for the desk's Undo (default UNDO_WINDOW_MS). */
   moveNoticeDelayMs?: number;
   /** Per-person limits on fault reports and uploads (server/http/person-limits.ts). */
@@ -132,7 +139,13 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   const audit = auditRepository(db, deps.auditKey);
   const staffRepo = staffRepository(db);
   const staff = staffService(staffRepo, clock, { db, audit });
-  const studioRepo = studioRepository(db);
+  // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
+  const version = dataVersion(db);
+  // The policy and the rig's snapshots are read once per data version (server/db/kept-reads.ts).
+  const keptVersion = deps.keepReads === false ? null : version;
+  const studioRecords = studioRepository(db);
+  const keptStudio = keptPerVersion(db, keptVersion, (trx) => studioRecords.get(trx));
+  const studioRepo: StudioRepository = { ...studioRecords, get: (trx?: Db) => keptStudio.get(trx) };
   // The outbox: every e-mail goes through it (PRODUCT.md §5). Services that tell someone of a change
   // (sessions: outbox.notifySessionChange, faults: outbox.faultOpened) write to it in their own
   // transaction; the worker sends. Students' sign-in links go the same way.
@@ -159,17 +172,16 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   app.post('/auth/signin/nodemailer', ...signInLinkGuard({ counters: signInCountersRepository(db), clock, secret: deps.authSecret }));
   app.use('/auth', authRoutes(auth));
 
-  // Statuses derived from the records and the time, kept per data version (server/db/derived-cache.ts).
-  const version = dataVersion(db);
   const derived = deps.cacheDerived === false ? noDerivedCache : derivedCache({ version, clock });
   // Heavy answers worked out afresh (calendar ranges, Today, the rig list) one at a time, in pieces (server/http/heavy-work.ts).
   const heavy = heavyWork();
   app.locals.heavy = heavy;
   const rigRepo = rigRepository(db);
+  const snapshots = snapshotSource(db, rigRepo, keptVersion);
   const docs = documentsService({ repo: documentsRepository(db), clock, uploadDir: deps.uploadDir, audit });
   const classTypesRepo = classTypesRepository(db);
   const classTypes = classTypesService({ db, repo: classTypesRepo, audit, clock });
-  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived, heavy });
+  const rig = rigService({ db, rig: rigRepo, audit, studio: studioRepo, clock, classProfiles: classTypes, derived, heavy, snapshots });
   const faults = faultsService({ db, faults: faultsRepository(db), rig: rigRepo, audit, docs, clock, notifier: outbox });
   const inspectionsRepo = inspectionsRepository(db);
   // What each class kept of its points as it started (PRODUCT.md §10); the exports read them too.
@@ -188,7 +200,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
   faultsRoutes(api, faults, docs, limits);
   inspectionsRoutes(api, inspections);
   auditRoutes(api, audit, auditService({ audit, rig: rigRepo, inspections: inspectionsRepo }));
-  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived, heavy }));
+  todayRoutes(api, todayService({ db, rig: rigRepo, studio: studioRepo, inspections: inspectionsRepo, clock, derived, heavy, snapshots }));
   // Students and their places (PRODUCT.md §11): a change to a class tells its instructor (outbox)
   // and then its students, who also move with their points (places).
   const sessionsRepo = sessionsRepository(db);
@@ -202,7 +214,7 @@ export function createApp(deps: AppDeps): LoftwiseApp {
       await places.sessionChanged(trx, change);
     },
   };
-  const sessions = sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records, heavy, places: placesRepo });
+  const sessions = sessionsService({ db, repo: sessionsRepo, rig: rigRepo, classTypes: classTypesRepo, studio: studioRepo, audit, clock, notifier, derived, records, heavy, places: placesRepo, snapshots });
   sessionsRoutes(api, sessions);
   studentsRoutes(api, students);
   placesRoutes(api, places);

@@ -28,6 +28,7 @@ const envSchema = z.object({
   LOFTWISE_SEED: z.enum(['demo', 'none']).default('demo'),
   // Keep derived answers per data version (server/db/derived-cache.ts); `off` works each out afresh (the bench's cold figures).
   LOFTWISE_DERIVED_CACHE: z.enum(['on', 'off']).default('on'),
+  LOFTWISE_KEPT_READS: z.enum(['on', 'off']).default('on'),
   // How long a message being sent stays claimed (it goes again after a crash once this runs out),
   // and how often the mail worker runs. Tests shorten both; the defaults suit a studio.
   OUTBOX_LEASE_SECONDS: seconds('OUTBOX_LEASE_SECONDS', 1, 86_400, 300),
@@ -59,6 +60,7 @@ export interface Config {
   outboxIntervalMs: number;
   moveNoticeDelayMs: number;
   cacheDerived: boolean;
+  keepReads: boolean;
 }
 
 /** 127.0.0.0/8, ::1 and localhost: mail to them never leaves the machine. */
@@ -129,6 +131,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     outboxIntervalMs: e.OUTBOX_INTERVAL_SECONDS * 1000,
     moveNoticeDelayMs: e.MOVE_NOTICE_DELAY_SECONDS * 1000,
     cacheDerived: e.LOFTWISE_DERIVED_CACHE === 'on',
+    keepReads: e.LOFTWISE_KEPT_READS === 'on',
   };
 }
 

@@ -150,6 +150,7 @@ async function runServer(config: Config): Promise<void> {
     trustProxyHops: config.trustProxyHops,
     moveNoticeDelayMs: config.moveNoticeDelayMs,
     cacheDerived: config.cacheDerived,
+    keepReads: config.keepReads,
     benchBaselineDbFile: process.env.LOFTWISE_BENCH_BASELINE === '1' && !config.databaseUrl ? config.dbFile : null,
   });
   // Classes that started while the server was down are recorded before any request can change the rig.

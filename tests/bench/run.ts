@@ -276,6 +276,7 @@ async function main() {
   const coldGet = (path: string) => get(coldServer.base, coldCookie, path).then(() => undefined);
   const loopDelay = async () => (await (await fetchAgain(`${coldServer.base}/api/bench/loop-delay`, { headers: { cookie: coldCookie } })).json()) as { p50Ms: number; p99Ms: number; maxMs: number; samples: number };
   let cold = null;
+  let coldReadsAfresh: Record<string, { value: number; target: string; pass: null }> | null = null;
   if (want('cold')) {
     log('cold answers one at a time…');
     await median(5, (i) => coldGet(`/api/sessions?${rangeOf(7, 7 * 24 * 60 + i)}`));
@@ -287,6 +288,22 @@ async function main() {
       widestRangeDays: widest,
     };
     log(`  ${JSON.stringify(cold)}`);
+    // The same with nothing kept at all: the policy and the rig's snapshots read afresh for every
+    // request too (LOFTWISE_KEPT_READS=off; server/db/kept-reads.ts). Shown beside, no target: the
+    // cold figures above are what a range never asked before costs on the server as shipped.
+    const afresh = await startServer(file, basePort + 5, { LOFTWISE_DERIVED_CACHE: 'off', LOFTWISE_KEPT_READS: 'off' });
+    const afreshCookie = await signIn(afresh.base, 'reception@bench.test');
+    const afreshGet = (path: string) => get(afresh.base, afreshCookie, path).then(() => undefined);
+    await median(5, (i) => afreshGet(`/api/sessions?${rangeOf(7, 7 * 24 * 60 + i)}`));
+    const shown = (value: number) => ({ value, target: 'shown', pass: null });
+    coldReadsAfresh = {
+      weekMs: shown(await median(n, (i) => afreshGet(`/api/sessions?${rangeOf(7, 200 + i)}`))),
+      widestRangeMs: shown(await median(n, (i) => afreshGet(`/api/sessions?${rangeOf(widest, 300 + i)}`))),
+      todayMs: shown(await median(n, () => afreshGet('/api/today'))),
+      pointsMs: shown(await median(n, () => afreshGet('/api/points'))),
+    };
+    afresh.child.kill('SIGTERM');
+    log(`  reads afresh: ${JSON.stringify(coldReadsAfresh)}`);
   }
 
   // The storm: 20 different widest ranges at once on the cold server, while the health check and one
@@ -335,8 +352,10 @@ async function main() {
     const mark = (f: Figure) => `${f.value ?? 'n/a'} (${f.target}${f.pass === null ? '' : f.pass ? ', met' : ', NOT met'})`;
     console.log(`\nLoftwise bench (${quick ? 'quick' : 'full'}, only ${[...only].join(', ')}; ${JSON.stringify(counts)})`);
     if (cold) console.log(`cold, one request at a time: week ${mark(cold.weekMs)}, ${widest}-day range ${mark(cold.widestRangeMs)}, Today ${mark(cold.todayMs)}, rig list ${mark(cold.pointsMs)}`);
+  if (coldReadsAfresh) console.log(`cold with the policy and the rig read afresh too: week ${coldReadsAfresh.weekMs.value} ms, ${widest}-day range ${coldReadsAfresh.widestRangeMs.value} ms, Today ${coldReadsAfresh.todayMs.value} ms, rig list ${coldReadsAfresh.pointsMs.value} ms`);
+    if (coldReadsAfresh) console.log(`cold with the policy and the rig read afresh too: week ${coldReadsAfresh.weekMs.value} ms, ${widest}-day range ${coldReadsAfresh.widestRangeMs.value} ms, Today ${coldReadsAfresh.todayMs.value} ms, rig list ${coldReadsAfresh.pointsMs.value} ms`);
     if (storm.health.length) console.log(`storm of 20 different ${widest}-day ranges (cold): health p99 ${mark(stormFigures.healthP99Ms)}, point status p99 ${mark(stormFigures.pointStatusP99Ms)}, server loop delay p99 ${mark(stormFigures.loopDelayP99Ms)} (max ${stormFigures.loopDelayMaxMs} ms); ranges p50 ${stormFigures.heavyP50Ms} ms, slowest ${stormFigures.heavyMaxMs} ms`);
-    console.log(JSON.stringify({ mode: quick ? 'quick' : 'full', only: [...only], counts, endpoints, cold, storm: storm.health.length ? stormFigures : null, mailCycle: steadyCycleMs === null ? null : { firstMs: firstCycleMs, steadyMs: atMost(steadyCycleMs, 1_000, 'ms') } }));
+    console.log(JSON.stringify({ mode: quick ? 'quick' : 'full', only: [...only], counts, endpoints, cold, coldReadsAfresh, storm: storm.health.length ? stormFigures : null, mailCycle: steadyCycleMs === null ? null : { firstMs: firstCycleMs, steadyMs: atMost(steadyCycleMs, 1_000, 'ms') } }));
     await catcher.close();
     return;
   }
@@ -427,6 +446,7 @@ async function main() {
   console.log(`\nLoftwise bench (${quick ? 'quick' : 'full'}; ${JSON.stringify(counts)}; 50 connections, ${seconds}s each)`);
   for (const r of rows) console.log(r.map((c, i) => String(c).padEnd(i === 0 ? 14 : 12)).join(''));
   if (cold) console.log(`cold, one request at a time: week ${mark(cold.weekMs)}, ${widest}-day range ${mark(cold.widestRangeMs)}, Today ${mark(cold.todayMs)}, rig list ${mark(cold.pointsMs)}`);
+  if (coldReadsAfresh) console.log(`cold with the policy and the rig read afresh too: week ${coldReadsAfresh.weekMs.value} ms, ${widest}-day range ${coldReadsAfresh.widestRangeMs.value} ms, Today ${coldReadsAfresh.todayMs.value} ms, rig list ${coldReadsAfresh.pointsMs.value} ms`);
   console.log(`storm of 20 different ${widest}-day ranges (cold): health p99 ${mark(stormFigures.healthP99Ms)}, point status p99 ${mark(stormFigures.pointStatusP99Ms)}; ranges p50 ${stormFigures.heavyP50Ms} ms, slowest ${stormFigures.heavyMaxMs} ms`);
   console.log(`resident memory: before ${rssBefore.cached} MB cached / ${rssBefore.cold} MB cold; after ${mark(memory.afterCachedMb)} cached / ${mark(memory.afterColdMb)} cold`);
   console.log(`mail worker cycle: first ${firstCycleMs} ms (every at-risk class found and alerted), then ${mark(atMost(steadyCycleMs, 1_000, 'ms'))}`);
@@ -441,6 +461,7 @@ async function main() {
       counts,
       endpoints,
       cold,
+      coldReadsAfresh,
       storm: stormFigures,
       memory,
       mailCycle: { firstMs: firstCycleMs, steadyMs: atMost(steadyCycleMs, 1_000, 'ms') },

@@ -8,17 +8,22 @@ import { APP_URL, createTestApp, TEST_AUDIT_KEY, signIn, withOrigin, type TestCo
 
 /*
  * The calendar, Today and the rig list keep what they derive per data version (server/db/
- * derived-cache.ts). A second app on the same database works every answer out afresh; through
- * time passing and records changing, both must answer alike, byte for byte.
+ * derived-cache.ts), and every app keeps the policy and the rig's snapshots it reads per data
+ * version (server/db/kept-reads.ts). A second app on the same database works every answer out
+ * afresh from records read afresh; a third works every answer out afresh from the kept reads (the
+ * bench's cold server). Through time passing and records changing, all three must answer alike,
+ * byte for byte.
  */
 
 const HOUR = 3_600_000;
 
 let ctx: TestContext;
 let fresh: LoftwiseApp;
+let keptOnly: LoftwiseApp;
 type Agent = ReturnType<typeof withOrigin>;
 const cached: Record<string, Agent> = {};
 const uncached: Record<string, Agent> = {};
+const fromKept: Record<string, Agent> = {};
 
 async function agent(app: LoftwiseApp, email: string) {
   const { agent, ok } = await signIn(app, email, DEMO_PASSWORD);
@@ -29,10 +34,13 @@ async function agent(app: LoftwiseApp, email: string) {
 beforeAll(async () => {
   ctx = await createTestApp({ now: '2026-12-01T08:30:00Z' });
   await seedDemoIfEmpty(ctx.db, ctx.clock.now(), TEST_AUDIT_KEY);
-  fresh = createApp({ db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', auditKey: TEST_AUDIT_KEY, uploadDir: join(ctx.dir, 'uploads'), log: () => undefined, cacheDerived: false });
+  const deps = { db: ctx.db, clock: ctx.clock, mailer: { send: async () => undefined, close: () => undefined }, appUrl: APP_URL, authSecret: 'test-secret-test-secret-test-secret-123', auditKey: TEST_AUDIT_KEY, uploadDir: join(ctx.dir, 'uploads'), log: () => undefined };
+  fresh = createApp({ ...deps, cacheDerived: false, keepReads: false });
+  keptOnly = createApp({ ...deps, cacheDerived: false });
   for (const role of ['reception', 'instructor', 'rigger']) {
     cached[role] = await agent(ctx.app, `${role}@loftwise.test`);
     uncached[role] = await agent(fresh, `${role}@loftwise.test`);
+    fromKept[role] = await agent(keptOnly, `${role}@loftwise.test`);
   }
 }, 60_000);
 
@@ -60,8 +68,10 @@ async function expectAlike(step: string) {
     await cached[role].get(url);
     const a = await cached[role].get(url);
     const b = await uncached[role].get(url);
+    const c = await fromKept[role].get(url);
     expect(a.status, `${step}: ${url}`).toBe(200);
     expect(a.text, `${step}: ${role} ${url}`).toBe(b.text);
+    expect(c.text, `${step}: ${role} ${url} (kept reads)`).toBe(b.text);
   }
 }
 
@@ -91,6 +101,32 @@ describe('derived answers kept per data version', () => {
     const after = (await list()).find((p) => p.id === target!.id)!;
     expect(after.status.status).toBe('blocked');
     expect(after.status.reasons.map((r) => r.code)).toContain('out_of_service');
+  });
+  it('reads the rig and the policy again after another connection’s commit, with no answer kept', async () => {
+    const point = async (id: number) => (await fromKept.rigger.get(`/api/points/${id}`)).body as { id: number; status: { status: string; reasons: Array<{ code: string }> } };
+    const list = (await fromKept.rigger.get('/api/points')).body as Array<{ id: number; status: { status: string } }>;
+    const target = list.find((p) => p.status.status !== 'blocked');
+    expect(target, 'an unblocked point').toBeDefined();
+    expect((await point(target!.id)).status.status).not.toBe('blocked');
+    await throughAnotherConnection((other) => other('points').where({ id: target!.id }).update({ in_service: false }));
+    const after = await point(target!.id);
+    expect(after.status.status).toBe('blocked');
+    expect(after.status.reasons.map((r) => r.code)).toContain('out_of_service');
+    await throughAnotherConnection((other) => other('points').where({ id: target!.id }).update({ in_service: true }));
+    expect((await point(target!.id)).status.status).not.toBe('blocked');
+
+    const studio = async () => (await fromKept.reception.get('/api/studio')).body as { name: string; policy: { requiredFactor: number } };
+    const before = await studio();
+    await throughAnotherConnection(async (other) => {
+      const row = (await other('studios').first('policy_json')) as { policy_json: string };
+      await other('studios').update({ policy_json: JSON.stringify({ ...JSON.parse(row.policy_json), requiredFactor: before.policy.requiredFactor + 1 }) });
+    });
+    expect((await studio()).policy.requiredFactor).toBe(before.policy.requiredFactor + 1);
+    await throughAnotherConnection(async (other) => {
+      const row = (await other('studios').first('policy_json')) as { policy_json: string };
+      await other('studios').update({ policy_json: JSON.stringify({ ...JSON.parse(row.policy_json), requiredFactor: before.policy.requiredFactor }) });
+    });
+    expect((await studio()).policy.requiredFactor).toBe(before.policy.requiredFactor);
   });
   it('serves a point as blocked the instant its clearance runs out', async () => {
     const before = (await cached.rigger.get('/api/points')).body as Array<{ id: number; status: { status: string; clearedUntil: string | null; reasons: Array<{ code: string }> } }>;

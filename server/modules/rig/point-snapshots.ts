@@ -1,4 +1,6 @@
 import type { Db } from '../../db/knex';
+import type { DataVersion } from '../../db/data-version';
+import { keptPerVersion } from '../../db/kept-reads';
 import { freezeSnapshot, type OpenFault, type PointSnapshot, type GearSnapshot, type RecordedApparatus } from '../../../shared/clearance';
 import { freezeDeep } from '../../../shared/freeze';
 import type { GearRecord, LinkRecord, PointRecord, RigRepository } from './rig.repository';
@@ -114,3 +116,32 @@ export async function loadApparatus(rig: RigRepository, by: { ids: number[] } | 
     }),
   );
 }
+
+/** Where services read snapshots from: `loadSnapshots`, or the rig kept per data version. */
+export interface SnapshotSource {
+  /** The points matching `filter` (every point by default), in room and label order, as `loadSnapshots` answers. */
+  load(filter?: { ids?: number[]; roomId?: number }, trx?: Db): Promise<SnapshotBundle[]>;
+}
+
+/**
+ * Every point's snapshot read once per data version (server/db/kept-reads.ts) and filtered in
+ * memory; inside a transaction, or with no version (kept reads off), loaded afresh as asked.
+ */
+export function snapshotSource(db: Db, rig: RigRepository, version: DataVersion | null): SnapshotSource {
+  const all = keptPerVersion(db, version, (trx) => loadSnapshots(db, rig, {}, trx));
+  return {
+    async load(filter = {}, trx = db) {
+      if (!version || trx !== db) return loadSnapshots(db, rig, filter, trx);
+      const bundles = await all.get();
+      if (filter.ids) {
+        const wanted = new Set(filter.ids);
+        return bundles.filter((b) => wanted.has(b.point.id));
+      }
+      if (filter.roomId) return bundles.filter((b) => b.point.roomId === filter.roomId);
+      return bundles.slice();
+    },
+  };
+}
+
+/** Snapshots loaded afresh on every call (tests and tools that build services by hand). */
+export const freshSnapshots = (db: Db, rig: RigRepository): SnapshotSource => snapshotSource(db, rig, null);

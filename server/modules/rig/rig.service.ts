@@ -10,7 +10,7 @@ import { checkLoadPath, describeGear, type LoadProfile } from '../../../shared/r
 import { isApparatusKind } from '../../../shared/schemas/vocabulary';
 import { requiredFactorReasonOf, type Policy } from '../../../shared/schemas/policy';
 import type { GearRecord, RigRepository } from './rig.repository';
-import { loadApparatus, loadSnapshots, type SnapshotBundle } from './point-snapshots';
+import { freshSnapshots, loadApparatus, type SnapshotBundle, type SnapshotSource } from './point-snapshots';
 import { voidClearance } from './clearance-voids';
 import { deriveAt, noDerivedCache, type DerivedCache } from '../../db/derived-cache';
 import { unboundedWork, type HeavyWork } from '../../http/heavy-work';
@@ -21,10 +21,11 @@ export interface ClassProfileSource {
   profileOf(classTypeId: number, policy: Policy): Promise<LoadProfile & { name: string }>;
 }
 
-export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource; derived?: DerivedCache; heavy?: HeavyWork }) {
+export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepository; studio: StudioRepository; clock: Clock; classProfiles: ClassProfileSource; derived?: DerivedCache; heavy?: HeavyWork; snapshots?: SnapshotSource }) {
   const { db, rig, audit, studio, clock } = deps;
   const derived = deps.derived ?? noDerivedCache;
   const heavy = deps.heavy ?? unboundedWork;
+  const snapshots = deps.snapshots ?? freshSnapshots(db, rig);
 
   const gearWire = (g: GearRecord, timeZone: string) => ({ ...g, serviceLifeEndsOn: serviceLifeEnd(g, timeZone)?.toISOString() ?? null });
 
@@ -39,7 +40,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
   }
 
   async function bundle(id: number, trx: Db = db): Promise<SnapshotBundle> {
-    const [b] = await loadSnapshots(db, rig, { ids: [id] }, trx);
+    const [b] = await snapshots.load({ ids: [id] }, trx);
     if (!b) throw notFound('That rigging point');
     return b;
   }
@@ -66,7 +67,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       if (!room) throw notFound('That room');
       const { policy } = await studio.get();
       const now = clock.now();
-      const points = (await loadSnapshots(db, rig, { roomId: id })).map((b) => pointWire(b, policy, now, false));
+      const points = (await snapshots.load({ roomId: id })).map((b) => pointWire(b, policy, now, false));
       return { ...room, points };
     },
     async createRoom(name: string, actorId: number) {
@@ -84,7 +85,7 @@ export function rigService(deps: { db: Db; rig: RigRepository; audit: AuditRepos
       return derived.get(`points|${filter.roomId ?? ''}`, () =>
         heavy.run(async () => {
           const { policy } = await studio.get();
-          const bundles = await loadSnapshots(db, rig, filter);
+          const bundles = await snapshots.load(filter);
           return deriveAt(policy, clock.now(), (track) =>
             bundles.map((b) => {
               track.snapshot(b.snapshot);

@@ -5,7 +5,7 @@ import { HttpError, conflict, notFound } from '../../http/errors';
 import type { AuditRepository } from '../audit/audit.repository';
 import type { StudioRepository } from '../studio/studio.repository';
 import type { RigRepository } from '../rig/rig.repository';
-import { loadApparatus, loadSnapshots, type ApparatusBundle, type SnapshotBundle } from '../rig/point-snapshots';
+import { freshSnapshots, loadApparatus, type ApparatusBundle, type SnapshotBundle, type SnapshotSource } from '../rig/point-snapshots';
 import { loadRecorded } from './session-rig';
 import { sessionView } from './session-view';
 import type { PlacesRepository } from '../places/places.repository';
@@ -49,11 +49,12 @@ const SESSIONS_PER_PIECE = 20;
 
 const samePoints = (a: number[], b: number[]) => a.length === b.length && a.every((id) => b.includes(id));
 
-export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords; heavy?: HeavyWork; places?: Pick<PlacesRepository, 'liveForSessions'> }) {
+export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: RigRepository; classTypes: ClassTypesRepository; studio: StudioRepository; audit: AuditRepository; clock: Clock; notifier?: SessionNotifier; derived?: DerivedCache; records?: SessionRecords; heavy?: HeavyWork; places?: Pick<PlacesRepository, 'liveForSessions'>; snapshots?: SnapshotSource }) {
   const { db, repo, rig, classTypes, studio, audit, clock } = deps;
   const heavy = deps.heavy ?? unboundedWork;
   const records = deps.records ?? sessionRecords({ db, rig, studio });
   const derived = deps.derived ?? noDerivedCache;
+  const snapshots = deps.snapshots ?? freshSnapshots(db, rig);
 
   async function classTypeOrThrow(id: number, trx: Db = db): Promise<ClassType> {
     const c = await classTypes.byId(id, trx);
@@ -175,7 +176,7 @@ export function sessionsService(deps: { db: Db; repo: SessionsRepository; rig: R
   const startRecords = (sessions: SessionRecord[], now: Date) => records.ensure(sessions.filter((s) => new Date(s.startsAt) <= now).map((s) => s.id), now);
 
   async function bundlesFor(pointIds: number[] | 'all', trx: Db = db) {
-    const list = await loadSnapshots(db, rig, pointIds === 'all' ? {} : { ids: pointIds }, trx);
+    const list = await snapshots.load(pointIds === 'all' ? {} : { ids: pointIds }, trx);
     return new Map(list.map((b) => [b.point.id, b]));
   }
 

@@ -4,7 +4,7 @@ import type { Db } from '../../db/knex';
 import type { Clock } from '../../clock';
 import type { StudioRepository } from '../studio/studio.repository';
 import type { RigRepository } from '../rig/rig.repository';
-import { loadSnapshots } from '../rig/point-snapshots';
+import { freshSnapshots, type SnapshotSource } from '../rig/point-snapshots';
 import { statusWire } from '../rig/rig.service';
 import type { InspectionsRepository } from '../inspections/inspections.repository';
 import { gearInspectionsNeeded, pointStatusAt, serviceLifeEnd, studioDay, type PointSnapshot } from '../../../shared/clearance';
@@ -23,8 +23,9 @@ export function studioDayRange(now: Date, timeZone: string) {
   return { start: new Date(start.getTime()), end: new Date(addDays(start, 1).getTime()) };
 }
 
-export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache; heavy?: HeavyWork }) {
+export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache; heavy?: HeavyWork; snapshots?: SnapshotSource }) {
   const { db, rig, studio, inspections, clock } = deps;
+  const snapshots = deps.snapshots ?? freshSnapshots(db, rig);
   const derived = deps.derived ?? noDerivedCache;
   const heavy = deps.heavy ?? unboundedWork;
 
@@ -60,7 +61,7 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
         },
       ]),
     );
-    const bundles = await loadSnapshots(db, rig);
+    const bundles = await snapshots.load();
     const byId = new Map(bundles.map((b) => [b.point.id, b]));
     const recorded = await loadRecorded(rig, [...classes.values()], db);
     const preuse = await inspections.preuseOn(studioDay(now, policy.timeZone));
