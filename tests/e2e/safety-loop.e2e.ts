@@ -6,7 +6,7 @@ import { apiOf, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, TINY_PN
 // The safety loop (JOURNEYS.md, Instructor 1–3 and Rigger 2–3): a rigger clears a lapsed point; an
 // instructor on a phone reports a fault with a photo; the rigger resolves it, re-inspects and clears;
 // the instructor does a pre-use check. Apart from the seeded MH-8, every point here is made by this
-// file: a room with two cleared points, booked today for instructor@ in a free slot.
+// file: a room with two cleared points, booked today in a free slot for a demo instructor, who signs in.
 
 const baseUrl = inject('baseUrl');
 let desk: BrowserContext;
@@ -46,8 +46,15 @@ async function clearedPoint(roomId: number, label: string): Promise<MadePoint> {
   return { id: point.id, label };
 }
 
-/** Books Silks Foundations for instructor@ on both points, in the first 45-minute slot from now that is free today. */
-async function bookToday(): Promise<number> {
+/**
+ * Books Silks Foundations on both points, in the first 20-minute slot from now that is free today,
+ * for the first demo instructor free then (instructor@ first); answers the class and who teaches it.
+ * Short, tried every 5 minutes and by more than one instructor: the demo gives instructor@ an evening
+ * class from 30 to 90 minutes after the hour the server was seeded (23:30 at the latest), and one
+ * 45-minute slot tried every 15 minutes for instructor@ alone overlapped it whenever this file ran in
+ * the last quarter of an hour, and always after 23:30.
+ */
+async function bookToday(): Promise<{ sessionId: number; email: string }> {
   const reception = await openBrowser(DESKTOP);
   try {
     const page = await reception.newPage();
@@ -55,30 +62,33 @@ async function bookToday(): Promise<number> {
     const api = apiOf(page, baseUrl);
     const types = await api.get<Array<{ id: number; name: string }>>('/class-types');
     const classType = types.find((t) => t.name === 'Silks Foundations');
-    const users = await api.get<Array<{ id: number; email: string }>>('/users');
-    const teacher = users.find((u) => u.email === 'instructor@loftwise.test');
+    const users = await api.get<Array<{ id: number; email: string; role: string; active: boolean }>>('/users');
+    const order = ['instructor@loftwise.test', 'piet.arlo@loftwise.test', 'juno.vale@loftwise.test'];
+    const teachers = order.map((email) => users.find((u) => u.email === email && u.active)).filter((u) => u !== undefined);
     const rooms = await api.get<Array<{ id: number; name: string }>>('/rooms');
     const room = rooms.find((r) => r.name === roomName);
-    if (!classType || !teacher || !room) throw new Error('Setting up: the demo class type, instructor or the new room is missing');
+    if (!classType || !teachers.length || !room) throw new Error('Setting up: the demo class type, instructors or the new room is missing');
     const { studioDay } = await api.get<{ studioDay: string }>('/today');
     const [y, m, d] = studioDay.split('-').map(Number);
     const dayEnd = new TZDate(y, m - 1, d + 1, timeZone).getTime();
     const refusals: string[] = [];
     // Starting a little before now keeps the class running (and on today's board) whatever the hour.
-    for (let start = Date.now() - 10 * 60_000; start < dayEnd - 60_000; start += 15 * 60_000) {
-      const res = await api.tryPost('/sessions', {
-        classTypeId: classType.id,
-        instructorId: teacher.id,
-        roomId: room.id,
-        pointIds: [faulty.id, checked.id],
-        startsAt: new Date(start).toISOString(),
-        endsAt: new Date(start + 45 * 60_000).toISOString(),
-      });
-      if (res.status() === 201) return ((await res.json()) as { id: number }).id;
-      if (res.status() !== 409) throw new Error(`Setting up: booking answered ${res.status()}: ${await res.text()}`);
-      refusals.push(await res.text());
+    for (let start = Date.now() - 5 * 60_000; start < dayEnd - 60_000; start += 5 * 60_000) {
+      for (const teacher of teachers) {
+        const res = await api.tryPost('/sessions', {
+          classTypeId: classType.id,
+          instructorId: teacher.id,
+          roomId: room.id,
+          pointIds: [faulty.id, checked.id],
+          startsAt: new Date(start).toISOString(),
+          endsAt: new Date(start + 20 * 60_000).toISOString(),
+        });
+        if (res.status() === 201) return { sessionId: ((await res.json()) as { id: number }).id, email: teacher.email };
+        if (res.status() !== 409) throw new Error(`Setting up: booking answered ${res.status()}: ${await res.text()}`);
+        refusals.push(await res.text());
+      }
     }
-    throw new Error(`Setting up: no free slot left today for instructor@ (${refusals.length} refused): ${refusals.at(-1) ?? 'the studio day is over'}`);
+    throw new Error(`Setting up: no free slot left today for any demo instructor (${refusals.length} refused): ${refusals.at(-1) ?? 'the studio day is over'}`);
   } finally {
     await reception.close();
   }
@@ -88,13 +98,15 @@ beforeAll(async () => {
   [desk, phone] = await Promise.all([openBrowser(DESKTOP), openBrowser(PHONE)]);
   rigger = await desk.newPage();
   instructor = await phone.newPage();
-  await Promise.all([signInAs(rigger, baseUrl, 'rigger@loftwise.test'), signInAs(instructor, baseUrl, 'instructor@loftwise.test')]);
+  await signInAs(rigger, baseUrl, 'rigger@loftwise.test');
   riggerApi = apiOf(rigger, baseUrl);
   timeZone = (await riggerApi.get<{ policy: { timeZone: string } }>('/studio')).policy.timeZone;
   const room = await riggerApi.post<{ id: number }>('/rooms', { name: roomName });
   faulty = await clearedPoint(room.id, `F${tag}`);
   checked = await clearedPoint(room.id, `P${tag}`);
-  sessionId = await bookToday();
+  const booked = await bookToday();
+  sessionId = booked.sessionId;
+  await signInAs(instructor, baseUrl, booked.email);
 });
 afterAll(async () => {
   await Promise.all([desk?.close(), phone?.close()]);
