@@ -16,6 +16,11 @@ import { CallerGone, currentCaller } from './caller';
  *
  * Work whose caller has gone (server/http/caller.ts) is dropped when its turn comes, and between
  * its pieces: a storm of requests that time out does not leave a queue worked out for no one.
+ *
+ * A pause gives a turn only once the answer has held the loop for `sliceMs` since its last turn
+ * (5 ms by default): a turn costs about 0.3 ms even on an idle server, and a 43-day range asked
+ * for one at a time spent 4 of its 34 ms in thirteen of them. A light request still waits at most
+ * one slice and one piece.
  */
 export interface HeavyWork {
   /** Runs `fn` when no other heavy answer is being worked out (first come, first served). */
@@ -28,8 +33,14 @@ export interface HeavyWork {
   readonly dropped: number;
 }
 
-export function heavyWork(opts: { concurrency?: number } = {}): HeavyWork {
+export function heavyWork(opts: { concurrency?: number; sliceMs?: number } = {}): HeavyWork {
   const concurrency = opts.concurrency ?? 1;
+  const sliceMs = opts.sliceMs ?? 5;
+  let lastTurn = 0;
+  const turn = async () => {
+    await nextTurn();
+    lastTurn = performance.now();
+  };
   let running = 0;
   let dropped = 0;
   const waiting: Array<() => void> = [];
@@ -44,7 +55,7 @@ export function heavyWork(opts: { concurrency?: number } = {}): HeavyWork {
       if (running < concurrency) running++;
       else await new Promise<void>((admit) => waiting.push(admit));
       try {
-        await nextTurn();
+        await turn();
         dropIfGone();
         return await fn();
       } finally {
@@ -55,7 +66,7 @@ export function heavyWork(opts: { concurrency?: number } = {}): HeavyWork {
       }
     },
     pause: async () => {
-      await nextTurn();
+      if (performance.now() - lastTurn >= sliceMs) await turn();
       dropIfGone();
     },
     get pending() {

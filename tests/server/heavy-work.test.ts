@@ -39,6 +39,23 @@ describe('heavy work queue', () => {
     expect(heavy.pending).toBe(0);
   });
 
+  it('gives the loop a turn at a pause only once the answer has held it for a slice', async () => {
+    const heavy = heavyWork({ sliceMs: 20 });
+    const log: string[] = [];
+    await heavy.run(async () => {
+      const io = new Promise<void>((resolve) => setImmediate(() => (log.push('io'), resolve())));
+      await heavy.pause();
+      log.push('quick pause');
+      // Hold the loop for longer than the slice, as a long piece of work would.
+      const until = performance.now() + 25;
+      while (performance.now() < until) /* busy */;
+      await heavy.pause();
+      log.push('pause after a slice');
+      await io;
+    });
+    expect(log).toEqual(['quick pause', 'io', 'pause after a slice']);
+  });
+
   it('passes on its place when a job fails', async () => {
     const heavy = heavyWork();
     await expect(heavy.run(async () => Promise.reject(new Error('boom')))).rejects.toThrow('boom');

@@ -1,4 +1,4 @@
-import { classFitReasons, noApparatusReason, pointStatusAt, pointStatusOver, type Reason } from '../../../shared/clearance';
+import { classFitReasons, noApparatusReason, pointStatusAt, pointStatusOver, type ClassOnPoint, type Reason } from '../../../shared/clearance';
 import { sessionCapacity, type PointPlaces } from '../../../shared/places';
 import type { Policy } from '../../../shared/schemas/policy';
 import type { ApparatusKind } from '../../../shared/schemas/vocabulary';
@@ -18,9 +18,8 @@ import { HOLDS_PLACE, type PlaceRecord } from './places.repository';
  * it hangs (§4.6: load check, apparatus kind, performers), or with no apparatus to hang. A clearance
  * merely running out before the class is not a reason here: the rigger has until then.
  */
-export function unfitReasons(c: BookedClass, hung: HungPoint[], policy: Policy, now: Date, endsAt: Date): Map<number, Reason[]> {
+export function unfitReasons(c: BookedClass, hung: HungPoint[], policy: Policy, now: Date, endsAt: Date, cls: ClassOnPoint = classOnPoint(c, policy)): Map<number, Reason[]> {
   const out = new Map<number, Reason[]>();
-  const cls = classOnPoint(c, policy);
   for (const id of c.pointIds) out.set(id, [{ code: 'point_missing', message: 'This point is no longer in the register.' }]);
   for (const h of hung) {
     const snap = h.hanging.snapshot;

@@ -139,7 +139,11 @@ export function sessionRecords(deps: { db: Db; rig: RigRepository; studio: Studi
     const out = new Map<number, SessionPointRecord[]>();
     for (let i = 0; i < sessionIds.length; i += 500) {
       const rows = (await trx('session_records').whereIn('session_id', sessionIds.slice(i, i + 500)).orderBy([{ column: 'session_id' }, { column: 'point_id' }])) as Row[];
-      for (const r of rows) out.set(r.session_id, [...(out.get(r.session_id) ?? []), toRecord(r)]);
+      for (const r of rows) {
+        const list = out.get(r.session_id);
+        if (list) list.push(toRecord(r));
+        else out.set(r.session_id, [toRecord(r)]);
+      }
     }
     return out;
   }

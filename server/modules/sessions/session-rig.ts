@@ -51,8 +51,8 @@ export function hangingOf(c: BookedClass, bundles: Map<number, SnapshotBundle>, 
     });
 }
 
-/** §4.4 and §4.6 at-risk for a booked class over its points as they hang for it. */
-export function riskOf(c: BookedClass, hung: HungPoint[], policy: Policy, now: Date, s: { startsAt: Date; endsAt: Date; cancelled: boolean }) {
+/** §4.4 and §4.6 at-risk for a booked class over its points as they hang for it (`cls`: its `classOnPoint`, when the caller has it). */
+export function riskOf(c: BookedClass, hung: HungPoint[], policy: Policy, now: Date, s: { startsAt: Date; endsAt: Date; cancelled: boolean }, cls: ClassOnPoint = classOnPoint(c, policy)) {
   return sessionRisk({
     points: hung.map((h) => h.hanging.snapshot),
     policy,
@@ -60,7 +60,7 @@ export function riskOf(c: BookedClass, hung: HungPoint[], policy: Policy, now: D
     startsAt: s.startsAt,
     endsAt: s.endsAt,
     cancelled: s.cancelled,
-    cls: classOnPoint(c, policy),
+    cls,
     withoutApparatus: hung.filter((h) => h.hanging.apparatus === null).map((h) => h.bundle.point.id),
   });
 }

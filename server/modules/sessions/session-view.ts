@@ -1,5 +1,5 @@
 import type { ApparatusBundle, SnapshotBundle } from '../rig/point-snapshots';
-import { apparatusWire, changeoversOf, hangingOf, riskOf } from './session-rig';
+import { apparatusWire, changeoversOf, classOnPoint, hangingOf, riskOf } from './session-rig';
 import { statusWire } from '../rig/rig.service';
 import { placesFromRecords, pointStatusAt, pointStatusOver, type ValidityTracker } from '../../../shared/clearance';
 import type { Policy } from '../../../shared/schemas/policy';
@@ -42,11 +42,12 @@ export function sessionView(s: SessionRecord, c: ViewContext) {
   const at = startsAt > now ? startsAt : now;
   const hung = hangingOf(s, c.bundles, c.recorded);
   c.track?.session({ startsAt, endsAt, points: hung.map((h) => h.hanging.snapshot) });
-  const risk = riskOf(s, hung, policy, now, { startsAt, endsAt, cancelled: s.cancelled });
+  const cls = classOnPoint(s, policy);
+  const risk = riskOf(s, hung, policy, now, { startsAt, endsAt, cancelled: s.cancelled }, cls);
   const live = !s.cancelled && endsAt > now;
   const inspectionDue = live && hung.some((h) => pointStatusOver(h.hanging.snapshot, policy, at, endsAt).dueBeforeEnd.length > 0);
-  const { recordedApparatus: _recorded, ...record } = s;
-  const placeFigures = c.live ? placesOf(s, c, hung) : {};
+  const record = wireRecord(s);
+  const placeFigures = c.live ? placesOf(s, c, hung, cls) : {};
   if (startsAt <= now) {
     const records = (c.kept?.get(s.id) ?? []).filter((r) => r.startsAt === s.startsAt);
     const points = records.map((r) => ({ pointId: r.pointId, label: r.label, status: r.status, clearedUntil: r.clearedUntil, reasons: r.reasons, apparatus: r.apparatus, recordedAt: r.recordedAt }));
@@ -59,9 +60,37 @@ export function sessionView(s: SessionRecord, c: ViewContext) {
   return { ...record, points, hanging: apparatusWire(hung), changeovers, atRisk: risk.atRisk, riskReasons: risk.reasons, inspectionDue, places: placeCount, recordedAtStart: false, ...placeFigures };
 }
 
+/**
+ * The session's own fields for the wire: all but the apparatus recorded at booking, which the view
+ * answers as `hanging`. Copied field by field: an object rest that leaves a key out is a slow
+ * runtime copy, and a range builds hundreds of these.
+ */
+function wireRecord(s: SessionRecord) {
+  return {
+    id: s.id,
+    classTypeId: s.classTypeId,
+    className: s.className,
+    apparatus: s.apparatus,
+    capacity: s.capacity,
+    instructorId: s.instructorId,
+    instructorName: s.instructorName,
+    roomId: s.roomId,
+    roomName: s.roomName,
+    startsAt: s.startsAt,
+    endsAt: s.endsAt,
+    seriesId: s.seriesId,
+    cancelled: s.cancelled,
+    cancelReason: s.cancelReason,
+    pointIds: s.pointIds,
+    performersPerPoint: s.performersPerPoint,
+    dynamicFactor: s.dynamicFactor,
+    bodyMassKg: s.bodyMassKg,
+  } satisfies Omit<SessionRecord, 'recordedApparatus'>;
+}
+
 /** The class's places as the rig answers them now: the places service's summary, from the points already hung. */
-function placesOf(s: SessionRecord, c: ViewContext, hung: ReturnType<typeof hangingOf>) {
-  const unfit = unfitReasons(s, hung, c.policy, c.now, new Date(s.endsAt));
+function placesOf(s: SessionRecord, c: ViewContext, hung: ReturnType<typeof hangingOf>, cls: ReturnType<typeof classOnPoint>) {
+  const unfit = unfitReasons(s, hung, c.policy, c.now, new Date(s.endsAt), cls);
   const labels = new Map(hung.map((h) => [h.bundle.point.id, h.bundle.point.label]));
   const { capacity, placesLeft, booked, waitlisted, withoutFitPlace, pointStudents } = summarise({ cls: s, capacity: s.capacity, cancelled: s.cancelled, labels, unfit, places: c.live?.get(s.id) ?? [] });
   return c.pointStudents ? { capacity, placesLeft, booked, waitlisted, withoutFitPlace, pointStudents } : { capacity, placesLeft, booked, waitlisted, withoutFitPlace };

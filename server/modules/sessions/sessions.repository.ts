@@ -79,10 +79,19 @@ export function sessionsRepository(db: Db) {
   async function withPoints(rows: Row[], trx: Db): Promise<SessionRecord[]> {
     const links = rows.length ? ((await trx('session_points').whereIn('session_id', rows.map((r) => r.id)).orderBy('point_id').select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
     const byId = new Map<number, number[]>();
-    for (const l of links) byId.set(l.session_id, [...(byId.get(l.session_id) ?? []), l.point_id]);
+    for (const l of links) {
+      const ids = byId.get(l.session_id);
+      if (ids) ids.push(l.point_id);
+      else byId.set(l.session_id, [l.point_id]);
+    }
     const hung = rows.length ? ((await trx('session_apparatus').whereIn('session_id', rows.map((r) => r.id)).orderBy('point_id').select('session_id', 'point_id', 'gear_id')) as Array<{ session_id: number; point_id: number; gear_id: number }>) : [];
     const hungById = new Map<number, ApparatusChoice[]>();
-    for (const h of hung) hungById.set(h.session_id, [...(hungById.get(h.session_id) ?? []), { pointId: h.point_id, gearId: h.gear_id }]);
+    for (const h of hung) {
+      const choice = { pointId: h.point_id, gearId: h.gear_id };
+      const list = hungById.get(h.session_id);
+      if (list) list.push(choice);
+      else hungById.set(h.session_id, [choice]);
+    }
     return rows.map((r) => ({
       id: r.id,
       classTypeId: r.class_type_id,
