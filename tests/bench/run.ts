@@ -199,7 +199,7 @@ async function browserFigures(base: string): Promise<{ lcp: number | null; signI
     });
     await page.goto(`${base}/sign-in`, { waitUntil: 'networkidle' });
     const signInKb = gzKb(loaded);
-    await page.getByLabel('E-mail').fill('teacher0@bench.test');
+    await page.getByLabel('E-mail', { exact: true }).fill('teacher0@bench.test');
     await page.getByLabel('Password').fill(BENCH_PASSWORD);
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL('**/today');
