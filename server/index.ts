@@ -22,6 +22,12 @@ function listen(app: ReturnType<typeof createApp>, port: number): Promise<Server
     server.once('error', reject);
     server.once('listening', () => {
       server.off('error', reject);
+      // An idle keep-alive connection is closed after 65 s, not Node's 5 s: a client sending on a
+      // connection at the moment the server closes it gets "socket hang up" (seen in a browser test
+      // reusing a connection idle for about 5 s). Longer than the usual proxy's 60 s, and the
+      // headers timeout above it, as Node requires.
+      server.keepAliveTimeout = 65_000;
+      server.headersTimeout = 66_000;
       resolvePromise(server);
     });
   });

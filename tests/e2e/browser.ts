@@ -1,5 +1,6 @@
 import AxeBuilder from '@axe-core/playwright';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { TZDate } from '@date-fns/tz';
 import { mkdirSync, mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -85,6 +86,24 @@ export async function apiCall<T = unknown>(page: Page, baseUrl: string, method: 
   const text = await res.text();
   if (!res.ok()) throw new Error(`${method} ${path} → ${res.status()}: ${text}`);
   return (text ? JSON.parse(text) : undefined) as T;
+}
+
+/**
+ * A class start still to come today in the studio's zone, so the class is on today's board and can
+ * still be booked: `leadMinutes` ahead (rounded up to the minute), nearer when the day ends sooner,
+ * and never less than 3 minutes ahead; in the last 6 minutes of the day it waits for the next day
+ * to begin (so a hook calling it allows 7 minutes). A fixed 20 minutes ahead fell on tomorrow from
+ * about 23:35, and those files would have failed when CI ran late in the evening.
+ */
+export async function startSoonToday(leadMinutes = 20, timeZone = 'Europe/London'): Promise<Date> {
+  for (;;) {
+    const now = Date.now();
+    const today = new TZDate(now, timeZone);
+    const dayEnd = new TZDate(today.getFullYear(), today.getMonth(), today.getDate() + 1, timeZone).getTime();
+    const lead = Math.min(leadMinutes * 60_000, Math.floor((dayEnd - now) / 2));
+    if (lead >= 3 * 60_000) return new Date(Math.ceil((now + lead) / 60_000) * 60_000);
+    await new Promise((r) => setTimeout(r, dayEnd - now + 5_000));
+  }
 }
 
 /** The studio day `offset` days from today in `timeZone`, as 'YYYY-MM-DD'. */

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs, studioDate, uniqueTag, pageErrors, withoutRefusals } from './browser';
+import { apiOf, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, signInAs, startSoonToday, studioDate, uniqueTag, pageErrors, withoutRefusals } from './browser';
 
 /*
  * PRODUCT.md §4.7 in a real browser: a hoop class booked on a point with a fabric mounted shows
@@ -47,8 +47,8 @@ beforeAll(async () => {
   await signInAs(desk, baseUrl, 'reception@loftwise.test');
   const d = apiOf(desk, baseUrl);
   const hoopClass = (await d.get<Array<{ id: number; apparatus: string; name: string }>>('/class-types')).find((c) => c.apparatus === 'hoop')!;
-  // Within the hour, so it is on today's board (the test runs well before midnight).
-  const start = new Date(Math.ceil((Date.now() + 20 * 60_000) / 300_000) * 300_000);
+  // Soon and still today, so it is on today's board, whatever the hour.
+  const start = await startSoonToday();
   startsAt = start.toISOString();
   const booked = await d.post<{ id: number; changeovers: Array<{ message: string }> }>('/sessions', {
     classTypeId: hoopClass.id,
@@ -62,7 +62,7 @@ beforeAll(async () => {
   });
   sessionId = booked.id;
   expect(booked.changeovers.map((c) => c.message)[0]).toContain(`Mount hoop ${HOOP} on ${LABEL} before`);
-});
+}, 480_000);
 
 afterAll(async () => {
   for (const c of [owner, rigger, reception, teacher]) await c?.close();

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, uniqueTag } from './browser';
+import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, shot, shotScreen, signInAs, startSoonToday, uniqueTag } from './browser';
 
 /*
  * The rigger on a tablet (issue 14; JOURNEYS.md Rigger 1–5) at 1024 × 768: a failed row's note is
@@ -60,9 +60,9 @@ beforeAll(async () => {
   await signInAs(ownerPage, baseUrl, 'owner@loftwise.test');
   const instructor = await apiOf(ownerPage, baseUrl).post<{ id: number }>('/users', { email: `rigger-journey-${tag.toLowerCase()}@loftwise.test`, name: `Ivy Journey ${tag}`, role: 'instructor', password: PASSWORD });
   const silks = (await apiOf(ownerPage, baseUrl).get<Array<{ id: number; apparatus: string; performersPerPoint: number }>>('/class-types')).find((c) => c.apparatus === 'fabric' && c.performersPerPoint === 1)!;
-  const start = new Date(Math.ceil((Date.now() + 20 * 60_000) / 300_000) * 300_000);
+  const start = await startSoonToday();
   await apiOf(ownerPage, baseUrl).post('/sessions', { classTypeId: silks.id, instructorId: instructor.id, roomId, pointIds: [ids.quarantinePoint], startsAt: start.toISOString(), endsAt: new Date(start.getTime() + 30 * 60_000).toISOString() });
-});
+}, 480_000);
 
 afterAll(async () => {
   for (const c of others) await c.close();

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
-import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, uniqueTag } from './browser';
+import { apiOf, axeFor, createFabricPoint, DESKTOP, openBrowser, PHONE, shot, shotScreen, signInAs, startSoonToday, uniqueTag } from './browser';
 
 /*
  * The desk's student journey (issue 17; PRODUCT.md §11) at 1366 × 900: the owner publishes the
@@ -71,7 +71,7 @@ beforeAll(async () => {
   const api = apiOf(desk, baseUrl);
   const classTypeId = (await api.get<Array<{ id: number; name: string }>>('/class-types')).find((c) => c.name === CLASS)!.id;
   // A class starting shortly: still bookable, and check-in is already open.
-  const start = new Date(Math.ceil((Date.now() + 20 * 60_000) / 60_000) * 60_000);
+  const start = await startSoonToday();
   const created = await api.post<{ id: number }>('/sessions', {
     classTypeId, instructorId: instructor.id, roomId, pointIds: [points.SD1, points.SD2],
     startsAt: start.toISOString(), endsAt: new Date(start.getTime() + 60 * 60_000).toISOString(),
@@ -83,7 +83,7 @@ beforeAll(async () => {
   phone = await (await browser(PHONE)).newPage();
   watch(phone);
   await signInAs(phone, baseUrl, INSTRUCTOR.email, INSTRUCTOR.password);
-}, 180_000);
+}, 480_000);
 afterAll(async () => {
   for (const c of contexts) await c.close();
 });
