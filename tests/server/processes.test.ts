@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { createServer, type Server } from 'node:net';
+import { connect, createServer, type Server } from 'node:net';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -108,6 +108,36 @@ const stop = async (s: Started) => {
   if (s.child.exitCode === null) s.child.kill('SIGTERM');
   await s.exit;
 };
+
+describe('an idle keep-alive connection', () => {
+  it('stays open past Node’s 5 s, so a client reusing it is not reset as the server closes it', async () => {
+    const port = await freePort();
+    const server = spawnServer(port);
+    try {
+      await untilServing(port, server);
+      const socket = connect(port, '127.0.0.1');
+      let closedAt: number | null = null;
+      let received = '';
+      socket.on('data', (d) => (received += d));
+      socket.on('close', () => (closedAt = Date.now()));
+      const ask = async () => {
+        received = '';
+        socket.write(`GET /api/health HTTP/1.1\r\nHost: 127.0.0.1:${port}\r\nConnection: keep-alive\r\n\r\n`);
+        const deadline = Date.now() + 5_000;
+        while (!/\r\n\r\n[\s\S]*\}/.test(received) && closedAt === null && Date.now() < deadline) await new Promise((r) => setTimeout(r, 20));
+        return received;
+      };
+      expect(await ask()).toMatch(/^HTTP\/1\.1 200/);
+      const idleFrom = Date.now();
+      await new Promise((r) => setTimeout(r, 6_500));
+      expect(closedAt === null ? 'still open' : `closed by the server after ${closedAt - idleFrom} ms idle`).toBe('still open');
+      expect(await ask()).toMatch(/^HTTP\/1\.1 200/);
+      socket.destroy();
+    } finally {
+      await stop(server);
+    }
+  }, 60_000);
+});
 
 describe('a port already taken', () => {
   it('makes the server exit non-zero with a clear message, before its mail worker runs', async () => {
