@@ -16,6 +16,7 @@ import { studentsRepository } from '../students/students.repository';
 import { summarise, unfitReasons } from '../places/session-places';
 import { waiverStateAt } from '../../../shared/places';
 import { unboundedWork, type HeavyWork } from '../../http/heavy-work';
+import { todayRepository, type TodayRepository } from './today.repository';
 
 /** The studio day [start, end) that contains `now`, in the studio's zone. */
 export function studioDayRange(now: Date, timeZone: string) {
@@ -23,8 +24,9 @@ export function studioDayRange(now: Date, timeZone: string) {
   return { start: new Date(start.getTime()), end: new Date(addDays(start, 1).getTime()) };
 }
 
-export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache; heavy?: HeavyWork; snapshots?: SnapshotSource }) {
+export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioRepository; inspections: InspectionsRepository; clock: Clock; derived?: DerivedCache; heavy?: HeavyWork; snapshots?: SnapshotSource; repo?: TodayRepository }) {
   const { db, rig, studio, inspections, clock } = deps;
+  const repo = deps.repo ?? todayRepository(db);
   const snapshots = deps.snapshots ?? freshSnapshots(db, rig);
   const derived = deps.derived ?? noDerivedCache;
   const heavy = deps.heavy ?? unboundedWork;
@@ -34,20 +36,10 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
     const { policy } = await studio.get();
     const now = clock.now();
     const { start, end } = studioDayRange(now, policy.timeZone);
-    const q = db('sessions')
-      .join('class_types', 'class_types.id', 'sessions.class_type_id')
-      .join('rooms', 'rooms.id', 'sessions.room_id')
-      .join('users', 'users.id', 'sessions.instructor_id')
-      .where('sessions.starts_at', '<', end.toISOString())
-      .where('sessions.ends_at', '>', start.toISOString())
-      .orderBy('sessions.starts_at')
-      .select('sessions.*', 'class_types.name as class_name', 'class_types.apparatus', 'class_types.capacity', 'class_types.performers_per_point', 'class_types.dynamic_factor', 'class_types.body_mass_kg', 'rooms.name as room_name', 'users.name as instructor_name');
-    if (user.role === 'instructor') q.where('sessions.instructor_id', user.id);
-    const sessions = (await q) as Array<{ id: number; starts_at: string; ends_at: string; cancelled: number; cancel_reason: string | null; class_name: string; apparatus: string; capacity: number; performers_per_point: number; dynamic_factor: number | null; body_mass_kg: number | null; room_name: string; room_id: number; instructor_id: number; instructor_name: string }>;
-    const booked = sessions.length ? ((await db('session_points').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id')) as Array<{ session_id: number; point_id: number }>) : [];
-    const bookedBySession = new Map<number, number[]>();
-    for (const b of booked) bookedBySession.set(b.session_id, [...(bookedBySession.get(b.session_id) ?? []), b.point_id]);
-    const hungRows = sessions.length ? ((await db('session_apparatus').whereIn('session_id', sessions.map((s) => s.id)).select('session_id', 'point_id', 'gear_id')) as Array<{ session_id: number; point_id: number; gear_id: number }>) : [];
+    const sessions = await repo.sessionsOverlapping(start, end, user.role === 'instructor' ? user.id : undefined);
+    const ids = sessions.map((s) => s.id);
+    const bookedBySession = await repo.bookedPoints(ids);
+    const hungBySession = await repo.recordedApparatus(ids);
     const classes = new Map<number, BookedClass>(
       sessions.map((s) => [
         s.id,
@@ -57,7 +49,7 @@ export function todayService(deps: { db: Db; rig: RigRepository; studio: StudioR
           dynamicFactor: s.dynamic_factor,
           bodyMassKg: s.body_mass_kg,
           pointIds: bookedBySession.get(s.id) ?? [],
-          recordedApparatus: hungRows.filter((h) => h.session_id === s.id).map((h) => ({ pointId: h.point_id, gearId: h.gear_id })),
+          recordedApparatus: hungBySession.get(s.id) ?? [],
         },
       ]),
     );
